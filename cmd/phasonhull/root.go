@@ -1,0 +1,33 @@
+package main
+
+import (
+	"io"
+
+	"github.com/spf13/cobra"
+)
+
+// newRootCmd builds the command tree. Each command is built by a function
+// of its own file and holds no analysis logic: it wires packages together.
+func newRootCmd(stdin io.Reader, stdout, stderr io.Writer) *cobra.Command {
+	root := &cobra.Command{
+		Use:   "phasonhull",
+		Short: "Recover the hull, step angle and gap labels of a chain of sites",
+		Long: `phasonhull reads the site positions of a chain (a fabricated sample's
+metrology export, a column from a paper's table, a generated design),
+turns its spacings into delay-coordinate vectors, and reads the hull of the
+pattern — the space of its local configurations — off their persistent
+homology.`,
+		Example: `  # Write a modulated design and look at its delay-coordinate trace
+  phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
+  phasonhull embed design.csv`,
+		SilenceUsage:  true,
+		SilenceErrors: true,
+	}
+	root.SetIn(stdin)
+	root.SetOut(stdout)
+	root.SetErr(stderr)
+	root.AddCommand(
+	// commands are added here as they land
+	)
+	return root
+}
