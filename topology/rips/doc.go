@@ -1,0 +1,3 @@
+// Package rips computes persistent homology of the Vietoris–Rips filtration
+// of a finite Euclidean point cloud.
+package rips
