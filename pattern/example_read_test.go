@@ -1,0 +1,70 @@
+package pattern_test
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"phasonhull/pattern"
+)
+
+// Read takes a column of positions with a header naming the unit, and
+// refuses bad input with the file, line and field of the fault.
+func ExampleRead() {
+	in := `# row 3 of sample 7
+position_um
+0
+1.618
+2.618   # a trailing comment
+4.236
+5.236
+6.854
+8.472
+9.472
+`
+	p, err := pattern.Read(strings.NewReader(in), "row3.csv", pattern.ReadOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("%d sites in %s, first spacings %.3f\n", p.Len(), p.Unit, p.Spacings()[:3])
+
+	_, err = pattern.Read(strings.NewReader("position\n0\n1\n1.5x\n"), "row4.csv", pattern.ReadOptions{})
+	var ie *pattern.InputError
+	fmt.Println(err, errors.As(err, &ie))
+	// Output:
+	// 8 sites in um, first spacings [1.618 1.000 1.618]
+	// row4.csv:4:1: "1.5x" is not a number true
+}
+
+// ReadFile projects tilted, shuffled centroids from a planar scan onto
+// their principal axis and reports the tilt and transverse scatter removed.
+func ExampleReadFile() {
+	p, err := pattern.ReadFile("../testdata/read/good/centroids_2d_tilted_shuffled.csv", pattern.ReadOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("%d sites, mean spacing %.3f %s\n", p.Len(), p.MeanSpacing(), p.Unit)
+	fmt.Printf("tilt %.3f°, transverse RMS %.3f %s\n", p.Scan.TiltDeg, p.Scan.TransverseRMS, p.Unit)
+	// Output:
+	// 16 sites, mean spacing 1.500 um
+	// tilt 12.000°, transverse RMS 0.020 um
+}
+
+// A tile word needs the length of each letter.
+func ExampleParseTileLengths() {
+	tiles, err := pattern.ParseTileLengths("L=1.618,S=1")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	p, err := pattern.Read(strings.NewReader("LSLLSLSL\n"), "word.txt", pattern.ReadOptions{Tiles: tiles})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("%s: %d sites, the last at %.3f\n", p.Word, p.Len(), p.Positions[p.Len()-1])
+	// Output:
+	// LSLLSLSL: 9 sites, the last at 11.090
+}
