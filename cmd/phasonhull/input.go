@@ -1,0 +1,85 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/pflag"
+
+	"phasonhull/pattern"
+)
+
+// inputFlags are the flags shared by every command that reads a pattern.
+type inputFlags struct {
+	format   string
+	spacings bool
+	tiles    string
+	unit     string
+}
+
+// register adds the input flags to fs.
+func (f *inputFlags) register(fs *pflag.FlagSet) {
+	fs.StringVar(&f.format, "format", string(pattern.FormatAuto),
+		"input format: "+formatList()+"; auto tells them apart by content, except spacings")
+	fs.BoolVar(&f.spacings, "spacings", false,
+		"the input is one column of spacings, not positions (same as --format spacings)")
+	fs.StringVar(&f.tiles, "tiles", "",
+		"tile lengths for a word of tile letters, e.g. A=1,B=1.618")
+	fs.StringVar(&f.unit, "unit", "",
+		"length unit of the input (nm, um, mm, ...), overriding any unit named in the file")
+}
+
+// formatList names the accepted formats: "auto, column, ...".
+func formatList() string {
+	names := make([]string, 0, len(pattern.Formats()))
+	for _, f := range pattern.Formats() {
+		names = append(names, string(f))
+	}
+	return strings.Join(names, ", ")
+}
+
+// options turns the flags into read options, refusing contradictions.
+func (f *inputFlags) options() (pattern.ReadOptions, error) {
+	var opt pattern.ReadOptions
+	format := pattern.Format(f.format)
+	known := false
+	for _, k := range pattern.Formats() {
+		known = known || format == k
+	}
+	if !known {
+		return opt, fmt.Errorf("--format %q: want one of %s", f.format, formatList())
+	}
+	if f.spacings {
+		if format != pattern.FormatAuto && format != pattern.FormatSpacings {
+			return opt, fmt.Errorf("--spacings contradicts --format %s", f.format)
+		}
+		format = pattern.FormatSpacings
+	}
+	opt.Format = format
+	if f.tiles != "" {
+		if format != pattern.FormatAuto && format != pattern.FormatTiles {
+			return opt, fmt.Errorf("--tiles gives tile lengths for a tile word, but --format is %s", format)
+		}
+		tiles, err := pattern.ParseTileLengths(f.tiles)
+		if err != nil {
+			return opt, fmt.Errorf("--tiles: %w", err)
+		}
+		opt.Tiles = tiles
+	}
+	opt.Unit = strings.TrimSpace(f.unit)
+	return opt, nil
+}
+
+// load reads the pattern at path as the flags say; path "-" reads stdin.
+// Its errors are the user's to fix (exit status 2).
+func (f *inputFlags) load(path string, stdin io.Reader) (*pattern.Pattern, error) {
+	opt, err := f.options()
+	if err != nil {
+		return nil, err
+	}
+	if path == "-" {
+		return pattern.Read(stdin, "-", opt)
+	}
+	return pattern.ReadFile(path, opt)
+}
