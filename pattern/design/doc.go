@@ -1,0 +1,57 @@
+// Package design generates point patterns from design families: the chains
+// of sites a designer lays out before a sample is fabricated, and the
+// perturbations fabrication adds to them.
+//
+// A design is a Spec, a plain struct whose JSON form (read by ReadSpec) uses
+// the same names as the flags of "phasonhull generate". Generate turns a
+// valid Spec into a *pattern.Pattern whose Source is "generated" and whose
+// Notes record the family and every parameter.
+//
+// # Families
+//
+// Positions are in the pattern's unit; L is the mean spacing (field
+// "spacing", default 1) of the families that use one.
+//
+//   - periodic: a repeated cell of spacings ("cell": [1, 1.5] gives the
+//     spacings 1, 1.5, 1, 1.5, ...).
+//   - modulated: x_n = n·L + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ)),
+//     one angle θ ("theta"), phase φ ("phase"), sine amplitudes a_k ("sin")
+//     and cosine amplitudes b_k ("cos"); "amp" is shorthand for a_1.
+//   - loop: sites a fixed arc length apart along the closed plane curve
+//     r(φ) = R(1 + Σ_k (c_k cos kφ + s_k sin kφ)) ("radius-cos",
+//     "radius-sin"); the arc step is the fraction "step" of the perimeter,
+//     so the construction's rotation number is exactly "step", and
+//     x_n = n·L + amp·X_n/R, X_n the curve point's first coordinate. The
+//     first site sits at the arc fraction "phase" from φ = 0.
+//   - circle-map: x_n = n·L + amp·sin 2πψ_n along an orbit of the sine
+//     circle map ψ_{n+1} = ψ_n + Ω − (K/2π) sin 2πψ_n ("omega", "k",
+//     ψ_0 = "phase"), 0 ≤ K ≤ 1.
+//   - two-angle: x_n = n·L + a sin 2π(nθ1+φ1) + a2 sin 2π(nθ2+φ2)
+//     ("theta", "phase", "amp", "theta2", "phase2", "amp2").
+//   - sturmian: two tiles ("tiles") ordered by the mechanical word of slope
+//     θ ("theta") and intercept ρ ("intercept"): tile n is the letter that
+//     sorts second when ⌊(n+1)θ+ρ⌋ − ⌊nθ+ρ⌋ = 1 and the first letter
+//     otherwise, so the second letter has frequency θ.
+//   - substitution: the tile word of a substitution rule ("rule": fibonacci,
+//     thue-morse, period-doubling, or a rule like "A=AB,B=A"), iterated from
+//     the first letter of the rule.
+//   - random: independent spacings ("dist" uniform or exponential, "spread").
+//
+// # Perturbations
+//
+// Any family can be perturbed the way fabrication perturbs a sample. The
+// perturbations are applied in this fixed order, each from its own random
+// stream derived from "seed" (default 1), so that changing one leaves the
+// others' choices alone:
+//
+//  1. missing: the fraction of sites removed, chosen uniformly;
+//  2. extra: spurious sites, as a fraction of the design's sites, inserted
+//     at uniform random places between the first and the last site;
+//  3. noise: Gaussian position noise of that standard deviation on every
+//     site (sites it reorders are sorted back);
+//  4. drift: a linear scale drift x → x0 + u·(1 + drift·u/span), u = x − x0,
+//     x0 the first site and span the chain's length, so that the local
+//     scale grows from 1 at the first site to 1 + 2·drift at the last.
+//
+// Removing or inserting sites (or reordering them) drops the tile word.
+package design

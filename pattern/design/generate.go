@@ -1,0 +1,36 @@
+package design
+
+import (
+	"fmt"
+	"strings"
+
+	"phasonhull/pattern"
+)
+
+// Generate builds the pattern a valid spec describes: the family's design,
+// then the perturbations in the documented order. The pattern's Source is
+// "generated", its Unit the spec's, its Word the tile word of the tile
+// families (while it still matches the sites), and its Notes describe the
+// family, every parameter and every perturbation.
+func Generate(spec Spec) (*pattern.Pattern, error) {
+	c, b, err := spec.prepare()
+	if err != nil {
+		return nil, fmt.Errorf("design: %w", err)
+	}
+	pos, word, notes := perturb(c, b)
+	p, err := pattern.New(pos, c.Unit, "generated")
+	if err != nil {
+		return nil, fmt.Errorf("design %s: %w", c.Family, err)
+	}
+	p.Word = word
+	fam, _ := lookupFamily(c.Family)
+	var params []string
+	for _, line := range c.Comments() {
+		if !strings.HasPrefix(line, "spec: ") && !strings.HasPrefix(line, "family = ") {
+			params = append(params, line)
+		}
+	}
+	head := fmt.Sprintf("generated from the %s family, %s, with %s", c.Family, fam.formula, strings.Join(params, ", "))
+	p.Notes = append(append([]string{head}, notes...), p.Notes...)
+	return p, nil
+}

@@ -1,0 +1,487 @@
+package design
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"unicode"
+
+	"phasonhull/pattern"
+)
+
+// Defaults and limits of a Spec.
+const (
+	DefaultSites = 200        // sites when none are asked for
+	DefaultSeed  = 1          // seed of the random choices when none is given
+	MaxSites     = 10_000_000 // most sites a design may hold, perturbations included
+	MaxSpecBytes = 1 << 20    // largest spec file ReadSpec reads
+)
+
+// Spec describes one generated design. Its JSON names are the flag names of
+// "phasonhull generate". A zero numeric field means "not given": the family
+// default applies where it has one (see WithDefaults), and a field the
+// family does not use must be left zero.
+type Spec struct {
+	// Family is one of Families().
+	Family string `json:"family"`
+	// Sites is the number of sites of the design before perturbation.
+	Sites int `json:"sites"`
+	// Spacing is the mean spacing L (default 1) of the periodic-lattice
+	// families: modulated, loop, circle-map, two-angle and random.
+	Spacing float64 `json:"spacing,omitempty"`
+	// Unit is the length unit of the positions; "" leaves it unknown.
+	Unit string `json:"unit,omitempty"`
+
+	// Cell is the repeated cell of spacings of the periodic family.
+	Cell []float64 `json:"cell,omitempty"`
+
+	// Theta is the angle θ, in turns, of the modulated, two-angle and
+	// sturmian families; it must lie in (0, 1).
+	Theta float64 `json:"theta,omitempty"`
+	// Phase is the starting phase in turns: φ of modulated and two-angle,
+	// ψ_0 of circle-map, the starting arc fraction of loop.
+	Phase float64 `json:"phase,omitempty"`
+	// Sin and Cos are the amplitudes a_k and b_k of the harmonics
+	// k = 1, 2, ... of the modulated family.
+	Sin []float64 `json:"sin,omitempty"`
+	Cos []float64 `json:"cos,omitempty"`
+	// Amp is an amplitude in the unit: a_1 of modulated (shorthand for
+	// Sin[0]), a of two-angle, and the amplitude of loop and circle-map.
+	Amp float64 `json:"amp,omitempty"`
+	// Theta2, Phase2 and Amp2 are the second angle, phase and amplitude of
+	// the two-angle family.
+	Theta2 float64 `json:"theta2,omitempty"`
+	Phase2 float64 `json:"phase2,omitempty"`
+	Amp2   float64 `json:"amp2,omitempty"`
+
+	// RadiusCos and RadiusSin are the Fourier coefficients c_k and s_k,
+	// k = 1, 2, ..., of the loop family's radius, relative to R.
+	RadiusCos []float64 `json:"radius-cos,omitempty"`
+	RadiusSin []float64 `json:"radius-sin,omitempty"`
+	// Step is the loop family's arc step as a fraction of the perimeter,
+	// in (0, 1): the construction's rotation number.
+	Step float64 `json:"step,omitempty"`
+
+	// Omega and K are the circle-map family's Ω, in [0, 1), and K, in
+	// [0, 1].
+	Omega float64 `json:"omega,omitempty"`
+	K     float64 `json:"k,omitempty"`
+
+	// Tiles maps each tile letter (one ASCII character) to its length, for
+	// the sturmian and substitution families. Default {"A": 1, "B": φ}
+	// (φ the golden ratio) when the letters are A and B.
+	Tiles map[string]float64 `json:"tiles,omitempty"`
+	// Intercept is the sturmian family's intercept ρ, in [0, 1).
+	Intercept float64 `json:"intercept,omitempty"`
+	// Rule is the substitution family's rule: "fibonacci" (A=AB,B=A),
+	// "thue-morse" (A=AB,B=BA), "period-doubling" (A=AB,B=AA), or a rule
+	// written like "A=AB,B=A".
+	Rule string `json:"rule,omitempty"`
+
+	// Dist is the random family's spacing distribution: "uniform" (the
+	// default) on [L(1−spread), L(1+spread)], or "exponential", a shifted
+	// exponential L(1−spread) + L·spread·E with E of mean 1, so that the
+	// mean is L, the standard deviation L·spread and no spacing is below
+	// L(1−spread).
+	Dist string `json:"dist,omitempty"`
+	// Spread is the random family's relative spread, in [0, 1) (default
+	// 0.5).
+	Spread float64 `json:"spread,omitempty"`
+
+	// Noise is the standard deviation of the Gaussian position noise, in
+	// the unit.
+	Noise float64 `json:"noise,omitempty"`
+	// Missing is the fraction of the design's sites removed, in [0, 1).
+	Missing float64 `json:"missing,omitempty"`
+	// Extra is the number of spurious sites inserted, as a fraction of the
+	// design's sites.
+	Extra float64 `json:"extra,omitempty"`
+	// Drift is the linear scale drift, greater than −1/2 (see the package
+	// documentation).
+	Drift float64 `json:"drift,omitempty"`
+	// Seed seeds every random choice. NewSpec and ReadSpec start it at
+	// DefaultSeed; every value, 0 included, is a seed of its own.
+	Seed uint64 `json:"seed"`
+}
+
+// Families returns the names of the design families, in documentation
+// order.
+func Families() []string {
+	return []string{"periodic", "modulated", "loop", "circle-map", "two-angle", "sturmian", "substitution", "random"}
+}
+
+// NewSpec returns the spec of the given family with the default number of
+// sites and the default seed; the family's own parameters are left for the
+// caller to set.
+func NewSpec(family string) Spec {
+	return Spec{Family: family, Sites: DefaultSites, Seed: DefaultSeed}
+}
+
+// ReadSpec reads a JSON design spec from r; name is used in messages.
+// Fields not given take NewSpec's defaults. Unknown fields, trailing data,
+// values of the wrong type, inputs over MaxSpecBytes and specs Validate
+// refuses are errors that name the file and the field.
+func ReadSpec(r io.Reader, name string) (Spec, error) {
+	data, err := io.ReadAll(io.LimitReader(r, MaxSpecBytes+1))
+	if err != nil {
+		return Spec{}, fmt.Errorf("reading %s: %w", name, err)
+	}
+	if len(data) > MaxSpecBytes {
+		return Spec{}, fmt.Errorf("reading %s: a design spec is at most %d bytes", name, MaxSpecBytes)
+	}
+	s := Spec{Sites: DefaultSites, Seed: DefaultSeed}
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(&s); err != nil {
+		line, col, msg := describeJSONError(data, err)
+		if line > 0 {
+			return Spec{}, fmt.Errorf("reading %s:%d:%d: %w", name, line, col, msg)
+		}
+		return Spec{}, fmt.Errorf("reading %s: %w", name, msg)
+	}
+	rest := int(dec.InputOffset())
+	for rest < len(data) && strings.ContainsRune(" \t\r\n", rune(data[rest])) {
+		rest++
+	}
+	if rest < len(data) {
+		line, col := lineCol(data, rest)
+		return Spec{}, fmt.Errorf("reading %s:%d:%d: unexpected data after the spec object", name, line, col)
+	}
+	if err := s.Validate(); err != nil {
+		return Spec{}, fmt.Errorf("reading %s: %w", name, err)
+	}
+	return s, nil
+}
+
+// describeJSONError turns a decoding error into a message naming the
+// offending field, with the line and column of the problem (0 when there
+// is no position to give).
+func describeJSONError(data []byte, err error) (line, col int, msg error) {
+	var syn *json.SyntaxError
+	var typ *json.UnmarshalTypeError
+	switch {
+	case errors.As(err, &syn):
+		// The decoder stopped after reading Offset bytes: the last one
+		// read is the bad one.
+		line, col = lineCol(data, int(syn.Offset)-1)
+		return line, col, syn
+	case errors.As(err, &typ):
+		// Offset is just past the bad value: point at its last byte.
+		line, col = lineCol(data, int(typ.Offset)-1)
+		return line, col, fmt.Errorf("field %q: a JSON %s cannot be a %v", typ.Field, typ.Value, typ.Type)
+	case errors.Is(err, io.EOF):
+		return 0, 0, errors.New("the file is empty: a design spec is one JSON object")
+	case errors.Is(err, io.ErrUnexpectedEOF):
+		return 0, 0, errors.New("the JSON object is not closed")
+	}
+	// Unknown fields come back as plain errors: json: unknown field "x".
+	if msg := err.Error(); strings.HasPrefix(msg, "json: unknown field ") {
+		return 0, 0, fmt.Errorf("unknown field %s (the fields are the flag names of phasonhull generate)", strings.TrimPrefix(msg, "json: unknown field "))
+	}
+	return 0, 0, err
+}
+
+// lineCol returns the 1-based line and column of the byte at index off.
+func lineCol(data []byte, off int) (line, col int) {
+	off = min(max(off, 0), len(data))
+	line = 1 + bytes.Count(data[:off], []byte("\n"))
+	col = off - bytes.LastIndexByte(data[:off], '\n')
+	return line, col
+}
+
+// param describes one family-specific field: its JSON name, whether it is
+// set, and its value as a flag would write it.
+type param struct {
+	name string
+	set  func(*Spec) bool
+	text func(*Spec) string
+	list bool // a list of values, empty when not given
+}
+
+// familyParams lists the family-specific fields in the order Comments
+// writes them.
+func familyParams() []param {
+	num := func(name string, get func(*Spec) float64) param {
+		return param{name, func(s *Spec) bool { return get(s) != 0 }, func(s *Spec) string { return formatFloat(get(s)) }, false}
+	}
+	list := func(name string, get func(*Spec) []float64) param {
+		return param{name, func(s *Spec) bool { return len(get(s)) > 0 }, func(s *Spec) string { return formatList(get(s)) }, true}
+	}
+	word := func(name string, get func(*Spec) string) param {
+		return param{name, func(s *Spec) bool { return get(s) != "" }, get, false}
+	}
+	return []param{
+		num("spacing", func(s *Spec) float64 { return s.Spacing }),
+		list("cell", func(s *Spec) []float64 { return s.Cell }),
+		num("theta", func(s *Spec) float64 { return s.Theta }),
+		num("phase", func(s *Spec) float64 { return s.Phase }),
+		list("sin", func(s *Spec) []float64 { return s.Sin }),
+		list("cos", func(s *Spec) []float64 { return s.Cos }),
+		num("amp", func(s *Spec) float64 { return s.Amp }),
+		num("theta2", func(s *Spec) float64 { return s.Theta2 }),
+		num("phase2", func(s *Spec) float64 { return s.Phase2 }),
+		num("amp2", func(s *Spec) float64 { return s.Amp2 }),
+		list("radius-cos", func(s *Spec) []float64 { return s.RadiusCos }),
+		list("radius-sin", func(s *Spec) []float64 { return s.RadiusSin }),
+		num("step", func(s *Spec) float64 { return s.Step }),
+		num("omega", func(s *Spec) float64 { return s.Omega }),
+		num("k", func(s *Spec) float64 { return s.K }),
+		{"tiles", func(s *Spec) bool { return len(s.Tiles) > 0 }, func(s *Spec) string { return formatTiles(s.Tiles) }, true},
+		num("intercept", func(s *Spec) float64 { return s.Intercept }),
+		word("rule", func(s *Spec) string { return s.Rule }),
+		word("dist", func(s *Spec) string { return s.Dist }),
+		num("spread", func(s *Spec) float64 { return s.Spread }),
+	}
+}
+
+// floatFields lists every float parameter with its name, for the check
+// that all of them are finite.
+func (s *Spec) floatFields() map[string][]float64 {
+	return map[string][]float64{
+		"spacing": {s.Spacing}, "cell": s.Cell, "theta": {s.Theta}, "phase": {s.Phase},
+		"sin": s.Sin, "cos": s.Cos, "amp": {s.Amp}, "theta2": {s.Theta2}, "phase2": {s.Phase2},
+		"amp2": {s.Amp2}, "radius-cos": s.RadiusCos, "radius-sin": s.RadiusSin, "step": {s.Step},
+		"omega": {s.Omega}, "k": {s.K}, "intercept": {s.Intercept}, "spread": {s.Spread},
+		"noise": {s.Noise}, "missing": {s.Missing}, "extra": {s.Extra}, "drift": {s.Drift},
+	}
+}
+
+// Validate reports the first reason the spec cannot be generated: an
+// unknown family, rule or letter, too few or too many sites, a parameter
+// outside its range, a parameter the family does not use, or amplitudes so
+// large that a spacing would not be positive (the error says which spacing
+// and by how much).
+func (s Spec) Validate() error {
+	_, _, err := s.prepare()
+	return err
+}
+
+// WithDefaults returns the spec with every family default written out and
+// the modulated family's shorthand amp moved into Sin[0]. It does not
+// validate; call Validate first.
+func (s Spec) WithDefaults() Spec {
+	s.Cell = cloneFloats(s.Cell)
+	s.Sin = cloneFloats(s.Sin)
+	s.Cos = cloneFloats(s.Cos)
+	s.RadiusCos = cloneFloats(s.RadiusCos)
+	s.RadiusSin = cloneFloats(s.RadiusSin)
+	if s.Tiles != nil {
+		t := make(map[string]float64, len(s.Tiles))
+		for k, v := range s.Tiles {
+			t[k] = v
+		}
+		s.Tiles = t
+	}
+	fam, ok := lookupFamily(s.Family)
+	if !ok {
+		return s
+	}
+	if fam.uses["spacing"] && s.Spacing == 0 {
+		s.Spacing = 1
+	}
+	switch s.Family {
+	case "modulated":
+		if s.Amp != 0 && len(s.Sin) == 0 {
+			s.Sin, s.Amp = []float64{s.Amp}, 0
+		}
+	case "sturmian":
+		if len(s.Tiles) == 0 {
+			s.Tiles = defaultTiles()
+		}
+	case "substitution":
+		if len(s.Tiles) == 0 {
+			if r, err := parseRule(s.Rule); err == nil && r.alphabet == "AB" {
+				s.Tiles = defaultTiles()
+			}
+		}
+	case "random":
+		if s.Dist == "" {
+			s.Dist = "uniform"
+		}
+		if s.Spread == 0 {
+			s.Spread = 0.5
+		}
+	}
+	return s
+}
+
+// defaultTiles are the tile lengths used when a two-letter design gives
+// none: A = 1 and B = the golden ratio.
+func defaultTiles() map[string]float64 {
+	return map[string]float64{"A": 1, "B": (1 + math.Sqrt(5)) / 2}
+}
+
+// prepare validates the spec and builds the unperturbed design. It returns
+// the spec with its defaults and the base design.
+func (s Spec) prepare() (Spec, base, error) {
+	fam, ok := lookupFamily(s.Family)
+	if !ok {
+		if s.Family == "" {
+			return s, base{}, fmt.Errorf("family: missing; choose one of %s", strings.Join(Families(), ", "))
+		}
+		return s, base{}, fmt.Errorf("family %q: unknown; choose one of %s", s.Family, strings.Join(Families(), ", "))
+	}
+	if s.Sites < pattern.MinSites {
+		return s, base{}, fmt.Errorf("sites = %d: a design needs at least %d sites", s.Sites, pattern.MinSites)
+	}
+	if s.Sites > MaxSites {
+		return s, base{}, fmt.Errorf("sites = %d: at most %d sites can be generated", s.Sites, MaxSites)
+	}
+	fields := s.floatFields()
+	names := make([]string, 0, len(fields))
+	for name := range fields {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		for _, v := range fields[name] {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return s, base{}, fmt.Errorf("%s = %v: not a finite number", name, v)
+			}
+		}
+	}
+	for letter, v := range s.Tiles {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return s, base{}, fmt.Errorf("tiles: length of %q = %v: not a finite number", letter, v)
+		}
+	}
+	if err := checkUnit(s.Unit); err != nil {
+		return s, base{}, err
+	}
+	for _, p := range familyParams() {
+		if p.set(&s) && !fam.uses[p.name] {
+			return s, base{}, fmt.Errorf("%s = %s has no effect on the %s family (it takes %s)", p.name, p.text(&s), s.Family, fam.takes())
+		}
+	}
+	if s.Family == "modulated" && s.Amp != 0 && len(s.Sin) > 0 {
+		return s, base{}, fmt.Errorf("amp = %s and sin = %s: amp is shorthand for the first sine amplitude; give one of them", formatFloat(s.Amp), formatList(s.Sin))
+	}
+	c := s.WithDefaults()
+	if fam.uses["spacing"] && c.Spacing <= 0 {
+		return s, base{}, fmt.Errorf("spacing = %s: must be positive", formatFloat(c.Spacing))
+	}
+	if err := fam.check(c); err != nil {
+		return s, base{}, err
+	}
+	if err := c.checkPerturbations(); err != nil {
+		return s, base{}, err
+	}
+	b, err := fam.build(c)
+	if err != nil {
+		return s, base{}, err
+	}
+	// The last check, whatever the family: spacings large enough for the
+	// Pattern invariant (tile lengths a billion times apart fail it).
+	if i, d, bad := firstBadSpacing(b.pos); bad {
+		return s, base{}, fmt.Errorf("the %s parameters make spacing %d (between sites %d and %d) %.6g: too small for distinct sites", c.Family, i, i, i+1, d)
+	}
+	return c, b, nil
+}
+
+// checkUnit refuses units that could not be written into a CSV header.
+func checkUnit(u string) error {
+	if len(u) > 32 {
+		return fmt.Errorf("unit %q: at most 32 bytes", u)
+	}
+	for _, r := range u {
+		if !unicode.IsLetter(r) && !unicode.IsDigit(r) && r != '_' && r != '/' && r != '.' {
+			return fmt.Errorf("unit %q: only letters, digits, '_', '/' and '.' may appear in a unit", u)
+		}
+	}
+	return nil
+}
+
+// checkPerturbations checks the perturbation fields.
+func (s Spec) checkPerturbations() error {
+	if s.Noise < 0 {
+		return fmt.Errorf("noise = %s: a standard deviation cannot be negative", formatFloat(s.Noise))
+	}
+	if s.Missing < 0 || s.Missing >= 1 {
+		return fmt.Errorf("missing = %s: the fraction of missing sites must lie in [0, 1)", formatFloat(s.Missing))
+	}
+	if left := s.Sites - countOf(s.Missing, s.Sites); left < pattern.MinSites {
+		return fmt.Errorf("missing = %s: removes %d of %d sites and leaves %d, fewer than %d", formatFloat(s.Missing), s.Sites-left, s.Sites, left, pattern.MinSites)
+	}
+	if s.Extra < 0 {
+		return fmt.Errorf("extra = %s: the fraction of extra sites cannot be negative", formatFloat(s.Extra))
+	}
+	if total := float64(s.Sites-countOf(s.Missing, s.Sites)) + math.Round(s.Extra*float64(s.Sites)); total > MaxSites {
+		return fmt.Errorf("extra = %s: the design would hold %.0f sites, more than %d", formatFloat(s.Extra), total, MaxSites)
+	}
+	if s.Drift <= -0.5 {
+		return fmt.Errorf("drift = %s: must be greater than -0.5, or the drift would reverse the order of the sites", formatFloat(s.Drift))
+	}
+	return nil
+}
+
+// countOf is the number of sites a fraction f of n sites stands for.
+func countOf(f float64, n int) int { return int(math.Round(f * float64(n))) }
+
+// Comments returns the lines "key = value" for every parameter of the
+// spec (its defaults written out), then "spec: " and the spec as one line
+// of JSON, so that a generated file documents its own design.
+func (s Spec) Comments() []string {
+	c := s.WithDefaults()
+	lines := []string{"family = " + c.Family, "sites = " + strconv.Itoa(c.Sites)}
+	if c.Unit != "" {
+		lines = append(lines, "unit = "+c.Unit)
+	}
+	if fam, ok := lookupFamily(c.Family); ok {
+		for _, p := range familyParams() {
+			// Empty lists, and amp once WithDefaults has moved it into
+			// sin, would only say "nothing": leave them out.
+			if fam.uses[p.name] && (p.set(&c) || !p.list) && (p.name != "amp" || c.Family != "modulated") {
+				lines = append(lines, p.name+" = "+p.text(&c))
+			}
+		}
+	}
+	lines = append(lines,
+		"noise = "+formatFloat(c.Noise),
+		"missing = "+formatFloat(c.Missing),
+		"extra = "+formatFloat(c.Extra),
+		"drift = "+formatFloat(c.Drift),
+		"seed = "+strconv.FormatUint(c.Seed, 10))
+	js, err := json.Marshal(c)
+	if err != nil {
+		// A Spec holds only strings, numbers, lists and a string map: it
+		// always marshals.
+		panic(err)
+	}
+	return append(lines, "spec: "+string(js))
+}
+
+func formatFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+func formatList(vs []float64) string {
+	s := make([]string, len(vs))
+	for i, v := range vs {
+		s[i] = formatFloat(v)
+	}
+	return strings.Join(s, ",")
+}
+
+func formatTiles(t map[string]float64) string {
+	letters := make([]string, 0, len(t))
+	for l := range t {
+		letters = append(letters, l)
+	}
+	sort.Strings(letters)
+	s := make([]string, len(letters))
+	for i, l := range letters {
+		s[i] = l + "=" + formatFloat(t[l])
+	}
+	return strings.Join(s, ",")
+}
+
+func cloneFloats(v []float64) []float64 {
+	if v == nil {
+		return nil
+	}
+	return append([]float64(nil), v...)
+}
