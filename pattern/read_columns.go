@@ -4,9 +4,11 @@ import (
 	"bufio"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode"
+	"unicode/utf8"
 )
 
 // table is the numeric content of a column file.
@@ -42,7 +44,7 @@ func (rd *reader) readColumns(br *bufio.Reader, format Format) (*Pattern, error)
 func (rd *reader) readTable(br *bufio.Reader, format Format) (*table, error) {
 	lr := &lineReader{rd: rd, br: br}
 	t := &table{}
-	var header []string
+	var header, buf []string
 	for {
 		text, ok, err := lr.next()
 		if err != nil {
@@ -55,7 +57,8 @@ func (rd *reader) readTable(br *bufio.Reader, format Format) (*table, error) {
 		if text == "" {
 			continue
 		}
-		fields, col := splitFields(text)
+		fields, col := splitFields(text, buf)
+		buf = fields
 		if col > 0 {
 			return nil, rd.errorf(lr.line, col, "empty field (two separators in a row?)")
 		}
@@ -65,7 +68,7 @@ func (rd *reader) readTable(br *bufio.Reader, format Format) (*table, error) {
 			if err != nil {
 				return nil, err
 			}
-			t.headerLine, t.unit, header = lr.line, unit, fields
+			t.headerLine, t.unit, header = lr.line, unit, slices.Clone(fields)
 			continue
 		}
 		if t.cols == 0 {
@@ -116,31 +119,48 @@ func (rd *reader) checkColumns(n int, format Format, line int) error {
 // splitFields splits a data line. A line with a semicolon is split at
 // semicolons, else one with a comma at commas, else at runs of white space
 // (tabs included). Fields are trimmed of spaces and of enclosing double
-// quotes. col > 0 reports an empty field at that field number.
-func splitFields(s string) (fields []string, col int) {
-	var sep string
+// quotes. col > 0 reports an empty field at that field number. The fields
+// are appended to buf[:0].
+func splitFields(s string, buf []string) (fields []string, col int) {
+	fields = buf[:0]
 	switch {
-	case strings.Contains(s, ";"):
-		sep = ";"
-	case strings.Contains(s, ","):
-		sep = ","
+	case strings.IndexByte(s, ';') >= 0:
+		fields = append(fields, strings.Split(s, ";")...)
+	case strings.IndexByte(s, ',') >= 0:
+		fields = append(fields, strings.Split(s, ",")...)
+	case !mayHoldSpace(s):
+		return append(fields, unquote(s)), 0 // the common one-number line
 	default:
-		fields = strings.Fields(s)
-	}
-	if sep != "" {
-		fields = strings.Split(s, sep)
+		fields = append(fields, strings.Fields(s)...)
 	}
 	for i, f := range fields {
-		f = strings.TrimSpace(f)
-		if len(f) >= 2 && f[0] == '"' && f[len(f)-1] == '"' {
-			f = strings.TrimSpace(f[1 : len(f)-1])
-		}
+		f = unquote(strings.TrimSpace(f))
 		if f == "" {
 			return nil, i + 1
 		}
 		fields[i] = f
 	}
 	return fields, 0
+}
+
+// mayHoldSpace reports whether s may contain white space: an ASCII space
+// character or any non-ASCII byte (Unicode spaces are left to
+// strings.Fields).
+func mayHoldSpace(s string) bool {
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c == ' ' || c == '\t' || c == '\v' || c == '\f' || c >= utf8.RuneSelf {
+			return true
+		}
+	}
+	return false
+}
+
+// unquote removes enclosing double quotes and the spaces inside them.
+func unquote(f string) string {
+	if len(f) >= 2 && f[0] == '"' && f[len(f)-1] == '"' {
+		return strings.TrimSpace(f[1 : len(f)-1])
+	}
+	return f
 }
 
 // joinUnits rejoins a unit in brackets or parentheses to the column name
@@ -174,19 +194,22 @@ func isHeader(fields []string) bool {
 }
 
 // parseNumber reads one field as a finite decimal number, with an error
-// that names the token.
+// that names the token. Only plain decimal notation is accepted: no hex
+// floats, no digit separators.
 func parseNumber(f string) (float64, error) {
-	for _, c := range f {
-		if !strings.ContainsRune("0123456789+-.eE", c) {
-			switch strings.ToLower(strings.TrimLeft(f, "+-")) {
-			case "nan", "inf", "infinity":
-				return 0, fmt.Errorf("%q is not a finite number", f)
-			}
-			if strings.ContainsRune(f, '\u2212') {
-				return 0, fmt.Errorf("%q is not a number (it has a Unicode minus sign; write \"-\")", f)
-			}
-			return 0, fmt.Errorf("%q is not a number", f)
+	for i := 0; i < len(f); i++ {
+		switch c := f[i]; {
+		case '0' <= c && c <= '9', c == '.', c == '-', c == '+', c == 'e', c == 'E':
+			continue
 		}
+		switch strings.ToLower(strings.TrimLeft(f, "+-")) {
+		case "nan", "inf", "infinity":
+			return 0, fmt.Errorf("%q is not a finite number", f)
+		}
+		if strings.ContainsRune(f, '\u2212') {
+			return 0, fmt.Errorf("%q is not a number (it has a Unicode minus sign; write \"-\")", f)
+		}
+		return 0, fmt.Errorf("%q is not a number", f)
 	}
 	v, err := strconv.ParseFloat(f, 64)
 	if err != nil {

@@ -92,7 +92,7 @@ func checkNotes(t *testing.T, got, want []string) {
 // constant) written with each separator.
 func TestReadCentroidSeparators(t *testing.T) {
 	want := []float64{0, 1.25, 2.5, 3.75, 5, 6.25, 7.5, 8.75, 10}
-	for _, file := range []string{"centroids_comma.csv", "centroids_semicolon.csv", "centroids_tab.tsv", "centroids_whitespace.txt", "json_sites.json"} {
+	for _, file := range []string{"centroids_comma.csv", "centroids_semicolon.csv", "centroids_tab.tsv", "centroids_whitespace.txt", "centroids_whitespace_units.txt", "json_sites.json"} {
 		t.Run(file, func(t *testing.T) {
 			p, err := ReadFile(goodFile(file), ReadOptions{})
 			if err != nil {
