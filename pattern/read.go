@@ -71,9 +71,10 @@ type ReadOptions struct {
 // field number on the line; for tile words and JSON, the character
 // position on the line. Zero means unknown or not meaningful.
 type InputError struct {
-	File      string
-	Line, Col int
-	Err       error
+	File string // the file name; "<stdin>" for standard input
+	Line int    // 1-based line, 0 when the fault is not on one line
+	Col  int    // 1-based column as described above, 0 when unknown
+	Err  error  // what was wrong
 }
 
 // Error formats the error as "FILE:LINE:COL: message", leaving out the
