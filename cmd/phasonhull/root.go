@@ -27,6 +27,7 @@ homology.`,
 	root.SetOut(stdout)
 	root.SetErr(stderr)
 	root.AddCommand(
+		newGenerateCmd(),
 	// commands are added here as they land
 	)
 	return root

@@ -73,7 +73,7 @@ type Spec struct {
 	Omega float64 `json:"omega,omitempty"`
 	K     float64 `json:"k,omitempty"`
 
-	// Tiles maps each tile letter (one ASCII character) to its length, for
+	// Tiles maps each tile letter (one ASCII letter) to its length, for
 	// the sturmian and substitution families. Default {"A": 1, "B": φ}
 	// (φ the golden ratio) when the letters are A and B.
 	Tiles map[string]float64 `json:"tiles,omitempty"`

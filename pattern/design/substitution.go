@@ -27,7 +27,7 @@ type rule struct {
 	alphabet string
 }
 
-// parseRule parses a rule name or a rule written "A=AB,B=A": single ASCII
+// parseRule parses a rule name or a rule written "A=AB,B=A": ASCII
 // letters, each defined once, every image non-empty and made of defined
 // letters.
 func parseRule(text string) (rule, error) {
@@ -44,7 +44,7 @@ func parseRule(text string) (rule, error) {
 	for i, part := range strings.Split(src, ",") {
 		letter, img, ok := strings.Cut(strings.TrimSpace(part), "=")
 		if !ok || len(letter) != 1 || !tileLetter(letter[0]) {
-			return rule{}, fmt.Errorf("rule %q: part %d (%q) is not LETTER=WORD with a one-character ASCII letter", text, i+1, part)
+			return rule{}, fmt.Errorf("rule %q: part %d (%q) is not LETTER=WORD with LETTER one ASCII letter", text, i+1, part)
 		}
 		if img == "" {
 			return rule{}, fmt.Errorf("rule %q: letter %s maps to the empty word", text, letter)

@@ -7,9 +7,9 @@ import (
 	"strings"
 )
 
-// tileLetter reports whether c may name a tile: a printable ASCII character
-// other than space and the separators '=' and ','.
-func tileLetter(c byte) bool { return c > ' ' && c < 0x7f && c != '=' && c != ',' }
+// tileLetter reports whether c may name a tile: an ASCII letter, the
+// letters a tile-word file is read with.
+func tileLetter(c byte) bool { return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' }
 
 // checkTiles checks that tiles gives a positive length to exactly the
 // letters of alphabet, and no others.
@@ -21,7 +21,7 @@ func checkTiles(tiles map[string]float64, alphabet, family string) error {
 	sort.Strings(keys)
 	for _, k := range keys {
 		if len(k) != 1 || !tileLetter(k[0]) {
-			return fmt.Errorf("tiles: letter %q: a tile letter is one printable ASCII character", k)
+			return fmt.Errorf("tiles: letter %q: a tile letter is one ASCII letter", k)
 		}
 		if !strings.Contains(alphabet, k) {
 			return fmt.Errorf("tiles: letter %q does not occur in the %s design (its letters are %s)", k, family, alphabet)

@@ -1,0 +1,248 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"os"
+	"strings"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
+	"phasonhull/pattern"
+	"phasonhull/pattern/design"
+)
+
+// generateFlags holds the flags of "phasonhull generate": the output
+// options and one flag per field of design.Spec, of the same name.
+type generateFlags struct {
+	out, specFile string
+	printSpec     bool
+
+	sites                int
+	spacing              float64
+	unit                 string
+	cell, sin, cos       []float64
+	theta, phase, amp    float64
+	theta2, phase2, amp2 float64
+	radiusCos, radiusSin []float64
+	step, omega, k       float64
+	tiles                string
+	intercept            float64
+	rule, dist           string
+	spread               float64
+	noise, missing       float64
+	extra, drift         float64
+	seed                 uint64
+}
+
+func (f *generateFlags) register(fs *pflag.FlagSet) {
+	fs.StringVarP(&f.out, "out", "o", "", "write to `FILE` instead of standard output (nothing is written on error)")
+	fs.StringVar(&f.specFile, "spec", "", "read the design from a JSON spec `FILE`; flags given as well override it")
+	fs.BoolVar(&f.printSpec, "print-spec", false, "write the design's JSON spec, defaults filled in, instead of positions")
+
+	fs.IntVar(&f.sites, "sites", design.DefaultSites, "number of sites before perturbation")
+	fs.Float64Var(&f.spacing, "spacing", 1, "mean spacing L (modulated, loop, circle-map, two-angle, random)")
+	fs.StringVar(&f.unit, "unit", "", "length unit of the positions, e.g. um (written into the CSV header)")
+	fs.Float64SliceVar(&f.cell, "cell", nil, "periodic: the repeated cell of spacings, a `LIST` like 1,1.5")
+	fs.Float64Var(&f.theta, "theta", 0, "angle θ in turns, in (0,1) (modulated, two-angle, sturmian)")
+	fs.Float64Var(&f.phase, "phase", 0, "starting phase in turns (φ; ψ_0 of circle-map; starting arc fraction of loop)")
+	fs.Float64SliceVar(&f.sin, "sin", nil, "modulated: sine amplitudes a_1,a_2,... (a `LIST`) in the unit")
+	fs.Float64SliceVar(&f.cos, "cos", nil, "modulated: cosine amplitudes b_1,b_2,... (a `LIST`) in the unit")
+	fs.Float64Var(&f.amp, "amp", 0, "amplitude in the unit: a_1 of modulated, a of two-angle, amp of loop and circle-map")
+	fs.Float64Var(&f.theta2, "theta2", 0, "two-angle: second angle θ2 in turns")
+	fs.Float64Var(&f.phase2, "phase2", 0, "two-angle: second phase φ2 in turns")
+	fs.Float64Var(&f.amp2, "amp2", 0, "two-angle: second amplitude a2 in the unit")
+	fs.Float64SliceVar(&f.radiusCos, "radius-cos", nil, "loop: radius coefficients c_1,c_2,... (a `LIST`) relative to R")
+	fs.Float64SliceVar(&f.radiusSin, "radius-sin", nil, "loop: radius coefficients s_1,s_2,... (a `LIST`) relative to R")
+	fs.Float64Var(&f.step, "step", 0, "loop: arc step as a fraction of the perimeter, in (0,1)")
+	fs.Float64Var(&f.omega, "omega", 0, "circle-map: Ω in [0,1)")
+	fs.Float64Var(&f.k, "k", 0, "circle-map: K in [0,1]")
+	fs.StringVar(&f.tiles, "tiles", "", "sturmian, substitution: tile `LENGTHS` like A=1,B=1.618 (default A=1,B=golden ratio)")
+	fs.Float64Var(&f.intercept, "intercept", 0, "sturmian: intercept ρ in [0,1)")
+	fs.StringVar(&f.rule, "rule", "", "substitution: fibonacci, thue-morse, period-doubling, or a rule like A=AB,B=A")
+	fs.StringVar(&f.dist, "dist", "", "random: uniform or exponential (default uniform)")
+	fs.Float64Var(&f.spread, "spread", 0, "random: relative spread in [0,1) (default 0.5)")
+	fs.Float64Var(&f.noise, "noise", 0, "perturbation: standard deviation of Gaussian position noise, in the unit")
+	fs.Float64Var(&f.missing, "missing", 0, "perturbation: fraction of sites removed, in [0,1)")
+	fs.Float64Var(&f.extra, "extra", 0, "perturbation: spurious sites inserted, as a fraction of the sites")
+	fs.Float64Var(&f.drift, "drift", 0, "perturbation: linear scale drift, > -0.5 (local scale 1 → 1+2·drift)")
+	fs.Uint64Var(&f.seed, "seed", design.DefaultSeed, "seed of every random choice")
+}
+
+// apply copies the flags given on the command line into s.
+func (f *generateFlags) apply(fs *pflag.FlagSet, s *design.Spec) error {
+	set := fs.Changed
+	if set("tiles") {
+		t, err := pattern.ParseTileLengths(f.tiles)
+		if err != nil {
+			return fmt.Errorf("--tiles: %w", err)
+		}
+		s.Tiles = t
+	}
+	for _, v := range []struct {
+		name string
+		dst  *float64
+		src  float64
+	}{
+		{"spacing", &s.Spacing, f.spacing}, {"theta", &s.Theta, f.theta}, {"phase", &s.Phase, f.phase},
+		{"theta2", &s.Theta2, f.theta2}, {"phase2", &s.Phase2, f.phase2}, {"amp2", &s.Amp2, f.amp2},
+		{"step", &s.Step, f.step}, {"omega", &s.Omega, f.omega}, {"k", &s.K, f.k},
+		{"intercept", &s.Intercept, f.intercept}, {"spread", &s.Spread, f.spread},
+		{"noise", &s.Noise, f.noise}, {"missing", &s.Missing, f.missing},
+		{"extra", &s.Extra, f.extra}, {"drift", &s.Drift, f.drift},
+	} {
+		if set(v.name) {
+			*v.dst = v.src
+		}
+	}
+	for _, v := range []struct {
+		name string
+		dst  *[]float64
+		src  []float64
+	}{
+		{"cell", &s.Cell, f.cell}, {"sin", &s.Sin, f.sin}, {"cos", &s.Cos, f.cos},
+		{"radius-cos", &s.RadiusCos, f.radiusCos}, {"radius-sin", &s.RadiusSin, f.radiusSin},
+	} {
+		if set(v.name) {
+			*v.dst = append([]float64(nil), v.src...)
+		}
+	}
+	if set("sites") {
+		s.Sites = f.sites
+	}
+	if set("unit") {
+		s.Unit = f.unit
+	}
+	if set("rule") {
+		s.Rule = f.rule
+	}
+	if set("dist") {
+		s.Dist = f.dist
+	}
+	if set("seed") {
+		s.Seed = f.seed
+	}
+	if set("amp") {
+		if s.Family != "modulated" {
+			s.Amp = f.amp
+			return nil
+		}
+		// For modulated, --amp is the first sine amplitude: it replaces
+		// a_1 of a spec file and keeps its other harmonics.
+		if set("sin") {
+			return fmt.Errorf("--amp is shorthand for the first value of --sin; give one of them")
+		}
+		if len(s.Sin) == 0 && s.Amp == 0 {
+			s.Amp = f.amp
+		} else {
+			if len(s.Sin) == 0 {
+				s.Sin = []float64{0}
+			}
+			s.Sin[0], s.Amp = f.amp, 0
+		}
+	}
+	return nil
+}
+
+// newGenerateCmd builds "phasonhull generate".
+func newGenerateCmd() *cobra.Command {
+	var f generateFlags
+	cmd := &cobra.Command{
+		Use:   "generate FAMILY",
+		Short: "Write the site positions of a generated design as CSV",
+		Long: `generate writes the site positions of a design family as a one-column CSV
+file. Comment lines at its top record every parameter, and a "# spec:" line
+holds the whole design as JSON, so a file documents its own design.
+
+Families (L = --spacing, angles and phases in turns):
+  periodic      a repeated cell of spacings (--cell)
+  modulated     x_n = n·L + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ))
+  loop          sites an arc --step·perimeter apart on r(φ) = R(1 + Σ_k (c_k cos kφ
+                + s_k sin kφ)); x_n = n·L + amp·X_n/R; rotation number = --step
+  circle-map    x_n = n·L + amp·sin 2πψ_n, ψ_{n+1} = ψ_n + Ω − (K/2π) sin 2πψ_n
+  two-angle     x_n = n·L + a sin 2π(nθ1+φ1) + a2 sin 2π(nθ2+φ2)
+  sturmian      two tiles in the mechanical word of slope θ and intercept ρ; the
+                letter that sorts second has frequency θ
+  substitution  the tile word of a substitution rule, iterated from its first letter
+  random        independent spacings: uniform on [L(1−spread), L(1+spread)], or
+                exponential L(1−spread) + L·spread·E (mean L, sd L·spread)
+
+Perturbations, applied in this order from --seed: --missing, --extra, --noise,
+--drift. A flag that the family does not use is refused, as are parameters
+that would make a spacing zero or negative. With --spec FILE the file must be
+a complete design; a FAMILY argument or flags given as well override it.`,
+		Example: `  phasonhull generate periodic --cell 1,1.5 --sites 100
+  phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
+  phasonhull generate modulated --theta 0.381966 --sin 0.1,0.03 --cos 0,0.02 --unit um --spacing 2.5
+  phasonhull generate loop --step 0.381966 --amp 0.15 --radius-cos 0,0.3
+  phasonhull generate circle-map --omega 0.3 --k 0.9 --amp 0.1
+  phasonhull generate two-angle --theta 0.4142136 --amp 0.1 --theta2 0.7320508 --amp2 0.06
+  phasonhull generate sturmian --theta 0.381966 --tiles L=1.618,S=1
+  phasonhull generate substitution --rule thue-morse --tiles A=1,B=1.4 --sites 257
+  phasonhull generate substitution --rule A=AB,B=C,C=A --tiles A=1,B=0.8,C=0.6
+  phasonhull generate random --dist exponential --spread 0.8 --seed 7
+  phasonhull generate modulated --theta 0.2763 --amp 0.1 --noise 0.01 --missing 0.02 --drift 0.001 --out sample.csv
+  phasonhull generate --spec testdata/design/loop.json --sites 1000 --print-spec`,
+		Args: cobra.MaximumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runGenerate(cmd, args, &f)
+		},
+	}
+	f.register(cmd.Flags())
+	return cmd
+}
+
+func runGenerate(cmd *cobra.Command, args []string, f *generateFlags) error {
+	var s design.Spec
+	switch {
+	case f.specFile != "":
+		r, err := os.Open(f.specFile)
+		if err != nil {
+			return err
+		}
+		s, err = design.ReadSpec(r, f.specFile)
+		r.Close()
+		if err != nil {
+			return err
+		}
+		if len(args) == 1 {
+			s.Family = args[0]
+		}
+	case len(args) == 1:
+		s = design.NewSpec(args[0])
+	default:
+		return fmt.Errorf("generate needs a FAMILY (%s) or --spec FILE", strings.Join(design.Families(), ", "))
+	}
+	if err := f.apply(cmd.Flags(), &s); err != nil {
+		return err
+	}
+	if err := s.Validate(); err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if f.printSpec {
+		js, err := json.MarshalIndent(s.WithDefaults(), "", "  ")
+		if err != nil {
+			return internalErr(err)
+		}
+		buf.Write(append(js, '\n'))
+	} else {
+		p, err := design.Generate(s)
+		if err != nil {
+			return err
+		}
+		if err := pattern.WriteCSV(&buf, p, s.Comments()); err != nil {
+			return internalErr(err)
+		}
+	}
+	if f.out == "" {
+		_, err := cmd.OutOrStdout().Write(buf.Bytes())
+		return err
+	}
+	return writeFileAtomic(f.out, func(file *os.File) error {
+		_, err := file.Write(buf.Bytes())
+		return err
+	})
+}
