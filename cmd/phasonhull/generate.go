@@ -218,11 +218,11 @@ func runGenerate(cmd *cobra.Command, args []string, f *generateFlags) error {
 	if err := f.apply(cmd.Flags(), &s); err != nil {
 		return err
 	}
-	if err := s.Validate(); err != nil {
-		return err
-	}
 	var buf bytes.Buffer
 	if f.printSpec {
+		if err := s.Validate(); err != nil {
+			return err
+		}
 		js, err := json.MarshalIndent(s.WithDefaults(), "", "  ")
 		if err != nil {
 			return internalErr(err)

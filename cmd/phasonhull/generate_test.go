@@ -72,6 +72,7 @@ func TestGenerateOut(t *testing.T) {
 		want string
 	}{
 		{[]string{"generate", "modulated", "--theta", "1.5"}, "theta = 1.5: must lie strictly between 0 and 1"},
+		{[]string{"generate", "modulated", "--theta", "1.5", "--print-spec"}, "theta = 1.5"},
 		{[]string{"generate", "modulated", "--theta", "0.3", "--amp", "0.9"}, "sin/cos amplitudes too large: spacing"},
 		{[]string{"generate", "modulated", "--theta", "0.3", "--amp", "0.1", "--sin", "0.1"}, "--amp is shorthand"},
 		{[]string{"generate", "periodic", "--cell", "1,1.5", "--theta", "0.3"}, "theta = 0.3 has no effect on the periodic family"},

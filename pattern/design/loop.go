@@ -141,11 +141,11 @@ func (cv *curve) arcAt(s float64) float64 {
 			lo = phi
 		}
 		next := phi - g/cv.speed(phi)
-		if !(next > lo && next < hi) {
-			next = (lo + hi) / 2
-		}
 		if math.Abs(next-phi) <= 1e-14 {
 			return next
+		}
+		if !(next > lo && next < hi) {
+			next = (lo + hi) / 2 // Newton left the bracket: bisect
 		}
 		phi = next
 	}
