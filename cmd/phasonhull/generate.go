@@ -63,7 +63,7 @@ func (f *generateFlags) register(fs *pflag.FlagSet) {
 	fs.Float64Var(&f.intercept, "intercept", 0, "sturmian: intercept ρ in [0,1)")
 	fs.StringVar(&f.rule, "rule", "", "substitution: fibonacci, thue-morse, period-doubling, or a rule like A=AB,B=A")
 	fs.StringVar(&f.dist, "dist", "", "random: uniform or exponential (default uniform)")
-	fs.Float64Var(&f.spread, "spread", 0, "random: relative spread in [0,1) (default 0.5)")
+	fs.Float64Var(&f.spread, "spread", 0, "random: relative spread in (0,1) (default 0.5)")
 	fs.Float64Var(&f.noise, "noise", 0, "perturbation: standard deviation of Gaussian position noise, in the unit")
 	fs.Float64Var(&f.missing, "missing", 0, "perturbation: fraction of sites removed, in [0,1)")
 	fs.Float64Var(&f.extra, "extra", 0, "perturbation: spurious sites inserted, as a fraction of the sites")

@@ -302,8 +302,8 @@ func checkRandom(s Spec) error {
 	if s.Dist != "uniform" && s.Dist != "exponential" {
 		return fmt.Errorf("dist %q: unknown; choose uniform or exponential", s.Dist)
 	}
-	if !(s.Spread >= 0 && s.Spread < 1) {
-		return fmt.Errorf("spread = %s: must lie in [0, 1) so that no spacing reaches 0", formatFloat(s.Spread))
+	if !(s.Spread > 0 && s.Spread < 1) {
+		return fmt.Errorf("spread = %s: must lie in (0, 1) so that no spacing reaches 0", formatFloat(s.Spread))
 	}
 	return nil
 }

@@ -90,8 +90,8 @@ type Spec struct {
 	// mean is L, the standard deviation L·spread and no spacing is below
 	// L(1−spread).
 	Dist string `json:"dist,omitempty"`
-	// Spread is the random family's relative spread, in [0, 1) (default
-	// 0.5).
+	// Spread is the random family's relative spread, in (0, 1); 0 stands
+	// for the default 0.5.
 	Spread float64 `json:"spread,omitempty"`
 
 	// Noise is the standard deviation of the Gaussian position noise, in
