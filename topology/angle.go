@@ -373,8 +373,6 @@ func (m *harmonicModel) columns(f []float64) [][]float64 {
 }
 
 // project solves the linear part at frequencies f.
-
-
 func (m *harmonicModel) project(f []float64) (projection, error) {
 	cols := m.columns(f)
 	q, err := factorQR(cols)
