@@ -467,3 +467,13 @@ func TestRefineFrequencyErrors(t *testing.T) {
 		}
 	}
 }
+
+func BenchmarkRefineFrequency(b *testing.B) {
+	idx := consecutive(0, 2000)
+	x := loop(idx, 1-golden, []float64{0.2, 0.05, 0.02}, []float64{0.4, 1.1, -2}, 0.01, rand.New(rand.NewPCG(1, 0)))
+	for b.Loop() {
+		if _, err := RefineFrequency(idx, x, 1-golden, 3); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
