@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/mat"
+
 	"phasonhull/pattern"
 )
 
@@ -32,6 +34,11 @@ type Options struct {
 	// a negative value tolerates none (the floor is then the estimate
 	// alone, capped at zero: exact data).
 	Noise float64
+	// Exclude marks spacings that no delay vector may contain — a spacing
+	// across a missing site, say; the vectors that would contain one are
+	// left out of the cloud. nil excludes none; otherwise it holds one
+	// entry per spacing.
+	Exclude []bool
 }
 
 // withDefaults fills in the defaults and checks the options.
@@ -80,6 +87,11 @@ type Result struct {
 	// Whitened is the whitened cloud of all delay vectors, with the full
 	// spectrum, the number of kept components and the threshold.
 	Whitened *Whitened
+	// Rows[i] is the index n of the first spacing of the vector in row i
+	// of Whitened.Cloud, ascending; it skips the vectors left out by
+	// Options.Exclude, whose number is Excluded.
+	Rows     []int
+	Excluded int
 	// Landmarks indexes the landmark rows of Whitened.Cloud in the order
 	// max–min sampling chose them, and LandmarkCloud holds those rows.
 	Landmarks     []int
@@ -95,14 +107,17 @@ type Result struct {
 // the cloud is whitened on its significant components (Whiten) and
 // landmarks are picked by max–min sampling (Landmarks).
 //
-// A pattern too short for the window (fewer than 2w+2 delay vectors of
-// window w) is refused.
+// A pattern too short for the window (fewer than 2w+2 usable delay vectors
+// of window w) is refused.
 func Embed(p *pattern.Pattern, opt Options) (*Result, error) {
 	opt, err := opt.withDefaults()
 	if err != nil {
 		return nil, fmt.Errorf("embedding: %w", err)
 	}
 	d := p.Spacings()
+	if err := checkExclude(opt.Exclude, len(d)); err != nil {
+		return nil, fmt.Errorf("embedding: %w", err)
+	}
 	res := &Result{Sites: p.Len(), MeanSpacing: p.MeanSpacing(), Unit: p.Unit}
 	if opt.Window == 0 {
 		ch, err := ChooseWindow(d, opt)
@@ -112,18 +127,28 @@ func Embed(p *pattern.Pattern, opt Options) (*Result, error) {
 		res.Choice, res.Window, res.NoiseFloor = ch, ch.Window, ch.NoiseFloor
 	} else {
 		w := opt.Window
-		if rows := len(d) - w + 1; rows < vectorsNeeded(w) {
-			return nil, fmt.Errorf("embedding: the pattern is too short for window %d: %d sites give %d delay vectors, need at least %d", w, p.Len(), max(rows, 0), vectorsNeeded(w))
+		if rows := len(usableStarts(len(d), opt.Exclude, w)); rows < vectorsNeeded(w) {
+			return nil, fmt.Errorf("embedding: the pattern is too short for window %d: %d sites give %d usable delay vectors, need at least %d", w, p.Len(), rows, vectorsNeeded(w))
 		}
 		res.Window = w
+		var err error
 		res.NoiseFloor, err = noiseFloor(d, w, opt)
 		if err != nil {
 			return nil, fmt.Errorf("embedding: %w", err)
 		}
 	}
-	x, err := Delay(d, res.Window)
+	all, err := Delay(d, res.Window)
 	if err != nil {
 		return nil, fmt.Errorf("embedding: %w", err)
+	}
+	res.Rows = usableStarts(len(d), opt.Exclude, res.Window)
+	x := all
+	if total, _ := all.Dims(); len(res.Rows) < total {
+		res.Excluded = total - len(res.Rows)
+		x = mat.NewDense(len(res.Rows), res.Window, nil)
+		for i, n := range res.Rows {
+			x.SetRow(i, all.RawRowView(n))
+		}
 	}
 	res.Whitened, err = Whiten(x, res.NoiseFloor)
 	if err != nil {
@@ -153,10 +178,12 @@ func noiseFloor(spacings []float64, w int, opt Options) (float64, error) {
 		d[i] = v / mean
 	}
 	top := max(w, opt.MaxWindow+1)
-	for top > w && len(d)-top+1 < vectorsNeeded(top) {
+	usable := usableStarts(len(d), opt.Exclude, top)
+	for top > w && len(usable) < vectorsNeeded(top) {
 		top--
+		usable = usableStarts(len(d), opt.Exclude, top)
 	}
-	nu, _, err := newSample(d, top, opt.Seed).noise(top, opt.noise())
+	nu, _, err := newSample(d, usable, opt.Seed).noise(top, opt.noise())
 	if err != nil {
 		return 0, err
 	}

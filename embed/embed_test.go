@@ -132,3 +132,57 @@ func TestEmbedRefuses(t *testing.T) {
 		}
 	}
 }
+
+// A missing site merges two spacings into one of about twice the mean;
+// every window containing it leaves the circle. Excluding that spacing
+// leaves exactly those windows out, and the rest whiten to the circle of
+// radius √2 again.
+func TestEmbedExclude(t *testing.T) {
+	d := circleSpacings(1200)
+	merged := append(append(append([]float64(nil), d[:500]...), d[500]+d[501]), d[502:]...)
+	exclude := make([]bool, len(merged))
+	exclude[500] = true
+	p := newPattern(t, merged)
+	res, err := Embed(p, Options{Exclude: exclude})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := res.Window
+	if w != 2 || res.Excluded != w || len(res.Rows) != len(merged)-w+1-w {
+		t.Fatalf("window %d, %d excluded, %d rows; want 2, 2, %d", w, res.Excluded, len(res.Rows), len(merged)-2*w+1)
+	}
+	for i, n := range res.Rows {
+		if n <= 500 && n+w > 500 {
+			t.Errorf("row %d starts at %d and contains the excluded spacing", i, n)
+		}
+		if r := math.Hypot(res.Whitened.Cloud[i][0], res.Whitened.Cloud[i][1]); math.Abs(r-math.Sqrt2) > 0.02 {
+			t.Errorf("row %d (start %d) at radius %.4f, want √2", i, n, r)
+		}
+	}
+	// Without the exclusion the merged spacing's windows are outliers.
+	res, err = Embed(p, Options{Window: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	worst := 0.0
+	for _, row := range res.Whitened.Cloud {
+		worst = math.Max(worst, math.Abs(math.Hypot(row[0], row[1])-math.Sqrt2))
+	}
+	if worst < 0.5 {
+		t.Errorf("without exclusion the largest departure from the circle is only %.3f", worst)
+	}
+	if _, err := Embed(p, Options{Exclude: exclude[:10]}); err == nil {
+		t.Error("exclusion marks of the wrong length: no error")
+	}
+}
+
+func TestUsableStarts(t *testing.T) {
+	ex := make([]bool, 10)
+	ex[3] = true
+	if got, want := usableStarts(10, ex, 3), []int{0, 4, 5, 6, 7}; !reflect.DeepEqual(got, want) {
+		t.Errorf("usableStarts = %v, want %v", got, want)
+	}
+	if got := usableStarts(5, nil, 2); !reflect.DeepEqual(got, []int{0, 1, 2, 3}) {
+		t.Errorf("no exclusion: %v", got)
+	}
+}

@@ -92,22 +92,46 @@ type sample struct {
 	starts []int     // ascending start indices n of the vectors used
 }
 
-// newSample picks the start indices n of vectors of window w (n ≤
-// len(d)−w), all of them or a seeded random subset of MaxSample.
-func newSample(d []float64, w int, seed uint64) sample {
-	rows := len(d) - w + 1
-	var starts []int
-	if rows <= MaxSample {
-		starts = make([]int, rows)
-		for i := range starts {
-			starts[i] = i
-		}
-	} else {
+// newSample picks from the start indices of the usable vectors all of
+// them, or a seeded random subset of MaxSample in ascending order.
+func newSample(d []float64, usable []int, seed uint64) sample {
+	starts := usable
+	if len(usable) > MaxSample {
 		rng := rand.New(rand.NewPCG(seed, 1))
-		starts = rng.Perm(rows)[:MaxSample]
+		starts = make([]int, MaxSample)
+		for i, j := range rng.Perm(len(usable))[:MaxSample] {
+			starts[i] = usable[j]
+		}
 		sort.Ints(starts)
 	}
 	return sample{d: d, starts: starts}
+}
+
+// usableStarts returns the start indices n of the delay vectors of window
+// w that contain no excluded spacing (exclude nil: all of them).
+func usableStarts(n int, exclude []bool, w int) []int {
+	var starts []int
+	bad := 0 // excluded spacings in the current window
+	for i := 0; i < n; i++ {
+		if exclude != nil && exclude[i] {
+			bad++
+		}
+		if i >= w && exclude != nil && exclude[i-w] {
+			bad--
+		}
+		if i >= w-1 && bad == 0 {
+			starts = append(starts, i-w+1)
+		}
+	}
+	return starts
+}
+
+// checkExclude checks that exclude has one entry per spacing.
+func checkExclude(exclude []bool, n int) error {
+	if exclude != nil && len(exclude) != n {
+		return fmt.Errorf("%d exclusion marks for %d spacings", len(exclude), n)
+	}
+	return nil
 }
 
 // matrix returns the sampled vectors of window k as rows.
@@ -194,8 +218,8 @@ func vectorsNeeded(w int) int { return 2*w + 2 }
 // every direction at every window, and about a fifth of the neighbours
 // stay false at every window. Then the window is Cap and Settled is false.
 //
-// ChooseWindow uses opt.MaxWindow, opt.Noise and opt.Seed (see Options);
-// above MaxSample vectors it works on a seeded subsample.
+// ChooseWindow uses opt.MaxWindow, opt.Noise, opt.Seed and opt.Exclude
+// (see Options); above MaxSample vectors it works on a seeded subsample.
 func ChooseWindow(spacings []float64, opt Options) (*WindowChoice, error) {
 	opt, err := opt.withDefaults()
 	if err != nil {
@@ -209,16 +233,21 @@ func ChooseWindow(spacings []float64, opt Options) (*WindowChoice, error) {
 	for i, v := range spacings {
 		d[i] = v / mean
 	}
+	if err := checkExclude(opt.Exclude, len(d)); err != nil {
+		return nil, fmt.Errorf("choosing the window: %w", err)
+	}
 	// The rules look at windows up to Cap+1; lower Cap until the pattern
 	// has enough vectors of that length.
 	c := opt.MaxWindow
-	for c >= 1 && len(d)-c < vectorsNeeded(c+1) {
+	usable := usableStarts(len(d), opt.Exclude, c+1)
+	for c >= 1 && len(usable) < vectorsNeeded(c+1) {
 		c--
+		usable = usableStarts(len(d), opt.Exclude, c+1)
 	}
 	if c < 1 {
-		return nil, fmt.Errorf("choosing the window: %d spacings are too few (need at least %d)", len(d), vectorsNeeded(2)+1)
+		return nil, fmt.Errorf("choosing the window: %d usable delay vectors of window 2 are too few (need at least %d)", len(usable), vectorsNeeded(2))
 	}
-	s := newSample(d, c+1, opt.Seed)
+	s := newSample(d, usable, opt.Seed)
 	ch := &WindowChoice{Cap: c, Vectors: len(s.starts)}
 	nu, capped, err := s.noise(c+1, opt.noise())
 	if err != nil {
