@@ -28,6 +28,7 @@ homology.`,
 	root.SetErr(stderr)
 	root.AddCommand(
 		newGenerateCmd(),
+		newEmbedCmd(),
 	// commands are added here as they land
 	)
 	return root
