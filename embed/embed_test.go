@@ -186,3 +186,19 @@ func TestUsableStarts(t *testing.T) {
 		t.Errorf("no exclusion: %v", got)
 	}
 }
+
+// BenchmarkEmbed runs the whole embedding on a million sites of a jittered
+// two-angle chain (window choice on a subsample, whitening of all vectors,
+// 300 landmarks).
+func BenchmarkEmbed(b *testing.B) {
+	d := jitter(torusSpacings(1_000_000), 0.02, 14)
+	p, err := pattern.New(positions(d), "nm", "bench")
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, err := Embed(p, Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
