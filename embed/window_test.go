@@ -176,13 +176,14 @@ func TestWindowPeriodic(t *testing.T) {
 
 // False nearest neighbours on two systems whose window is known in closed
 // form. The delay vectors of a sine need 2: sin(x+2ω) = 2cos ω·sin(x+ω) −
-// sin x, so two coordinates fix the third, and a pair at distance R moves
-// apart by at most (2|cos ω|+1)R < 15R — no false neighbour at all (the
-// sine is the first example of Kennel, Brown & Abarbanel 1992, from
-// memory). The Hénon map x_{n+1} = 1 − 1.4x_n² + 0.3x_{n−1} (Hénon,
-// Commun. Math. Phys. 50, 69, 1976) is a function of the last two values
-// with slope below 2.8·1.3 + 0.3 < 15 on its attractor: none either at 2,
-// and many at 1, where its parabola folds.
+// sin x (common practice), so two coordinates fix the third, and a pair at
+// distance R moves apart by at most (2|cos ω|+1)R < 15R — no false
+// neighbour at all. The Hénon map x_{n+1} = 1 − 1.4x_n² + 0.3x_{n−1}
+// (Hénon, Commun. Math. Phys. 50, 69, 1976) is a function of the last two
+// values with slope below 2.8·1.3 + 0.3 < 15 on its attractor (|x| < 1.3):
+// none either at 2, and many at 1, where its parabola folds. Kennel, Brown
+// & Abarbanel (1992) show the Hénon map's fraction falling to zero at
+// dimension 2 (from memory); the bound above is the independent check.
 func TestFalseNeighboursKnownSystems(t *testing.T) {
 	sine := make([]float64, 2000)
 	for i := range sine {
