@@ -142,6 +142,9 @@ type FrequencyFit struct {
 	// RMS is the root-mean-square residual sqrt(Σr²/N), in the unit of
 	// the positions.
 	RMS float64
+	// Residuals are the residuals x_n − model, one per input position,
+	// in the unit of the positions.
+	Residuals []float64
 }
 
 // RefineFrequency refines the frequency f of a chain whose site positions
@@ -288,7 +291,7 @@ func RefineFrequencies(n []int, x []float64, f0 []float64, opt FitOptions) (Freq
 		return FrequencyFit{}, fmt.Errorf("refining frequencies: %w", err)
 	}
 	sigma2 := cur.ss / float64(len(x)-P)
-	fit := FrequencyFit{Freq: f, StdErr: make([]float64, d), RMS: math.Sqrt(cur.ss / float64(len(x)))}
+	fit := FrequencyFit{Freq: f, StdErr: make([]float64, d), RMS: math.Sqrt(cur.ss / float64(len(x))), Residuals: cur.resid}
 	for i := range d {
 		fit.StdErr[i] = math.Sqrt(sigma2 * cov[i])
 	}
