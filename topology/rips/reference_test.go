@@ -1,0 +1,268 @@
+package rips_test
+
+import (
+	"bufio"
+	"bytes"
+	"fmt"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+
+	"phasonhull/topology/rips"
+	"phasonhull/topology/rips/internal/clouds"
+)
+
+// The reference is Debian's ripser package (version 1.2.1): the binary
+// ripser for Z/2 and ripser-coeff for other primes. It reads coordinates
+// and computes distances in single precision and prints lengths with six
+// significant digits. The clouds below are therefore put on a dyadic grid
+// (clouds.Quantize), where both programs compute every squared distance
+// exactly and order all distances the same way; our double-precision
+// lengths, rounded to single precision, are then the reference's lengths
+// bit for bit, and both are printed with six significant digits and
+// compared as text.
+
+// referenceBinary finds a reference binary, skipping the test when it is
+// missing — except under CI, where the reference checks are required.
+func referenceBinary(t *testing.T, name string) string {
+	t.Helper()
+	path, err := exec.LookPath(name)
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("%s (Debian package ripser) is required under CI for the reference checks: %v", name, err)
+		}
+		t.Skipf("%s (Debian package ripser) not found; skipping the reference check", name)
+	}
+	return path
+}
+
+type refCase struct {
+	name      string
+	pts       [][]float64
+	dim       int
+	threshold float64 // 0: the enclosing radius
+	prime     int     // 0: 2
+}
+
+// referenceBattery is the list of clouds checked against the reference.
+func referenceBattery() []refCase {
+	q := clouds.Quantize
+	mod := clouds.ModulatedSpacings(400, 0.2763, 0.12)
+	two := clouds.TwoAngleSpacings(3000, (math.Sqrt(5)-1)/2, math.Sqrt(2)-1, 0.3, 0.2)
+	cases := []refCase{
+		{name: "cube3", pts: q(clouds.Cube(120, 3, 1)), dim: 2},
+		{name: "cube4", pts: q(clouds.Cube(70, 4, 2)), dim: 2},
+		{name: "noisy-circle", pts: q(clouds.Circle(120, 0.08, 3)), dim: 2},
+		{name: "circle", pts: q(clouds.Circle(90, 0, 4)), dim: 2},
+		{name: "sphere", pts: q(clouds.Sphere(110, 5)), dim: 2},
+		{name: "torus-R3", pts: q(clouds.Torus(150, 2, 1, 6)), dim: 2},
+		{name: "flat-torus-R4", pts: q(clouds.FlatTorus(150, 7)), dim: 2},
+		{name: "modulated-delay-R3", pts: q(clouds.MaxMin(clouds.Delay(mod, 3), 120)), dim: 2},
+		{name: "two-angle-delay-R4", pts: q(clouds.MaxMin(clouds.Delay(two, 4), 150)), dim: 2},
+		{name: "figure-eight", pts: q(clouds.FigureEight(120, 0.05, 8)), dim: 2},
+		{name: "gaussian-R2", pts: q(clouds.Gaussian(120, 2, 9)), dim: 2},
+		{name: "clusters-R3", pts: q(clouds.Clusters(100, 4, 3, 0.05, 10)), dim: 2},
+		{name: "projective-plane", pts: q(clouds.ProjectivePlane(120, 11)), dim: 2},
+		{name: "lattice-ties", pts: lattice(5, 4, 3), dim: 2},
+		{name: "cube3-H3", pts: q(clouds.Cube(40, 3, 12)), dim: 3},
+		{name: "polygon-12", pts: q(clouds.RegularPolygon(12)), dim: 2},
+	}
+	// Threshold below the enclosing radius: halfway between two
+	// consecutive distinct lengths, so that both programs admit the same
+	// edges whatever their precision.
+	cube := q(clouds.Cube(100, 3, 13))
+	cases = append(cases, refCase{name: "cube3-threshold", pts: cube, dim: 2, threshold: midLength(cube, 0.3)})
+	circ := q(clouds.Circle(100, 0.05, 14))
+	cases = append(cases, refCase{name: "noisy-circle-threshold", pts: circ, dim: 2, threshold: midLength(circ, 0.2)})
+	// Z/3 coefficients, where the projective plane differs from Z/2.
+	cases = append(cases,
+		refCase{name: "projective-plane-Z3", pts: q(clouds.ProjectivePlane(120, 11)), dim: 2, prime: 3},
+		refCase{name: "torus-R3-Z3", pts: q(clouds.Torus(120, 2, 1, 15)), dim: 2, prime: 3},
+		refCase{name: "cube3-Z5", pts: q(clouds.Cube(80, 3, 16)), dim: 2, prime: 5},
+	)
+	return cases
+}
+
+// lattice returns the integer points of an a×b×c box: many equal lengths,
+// which exercise the tie-breaking of the filtration.
+func lattice(a, b, c int) [][]float64 {
+	var pts [][]float64
+	for i := 0; i < a; i++ {
+		for j := 0; j < b; j++ {
+			for k := 0; k < c; k++ {
+				pts = append(pts, []float64{float64(i), float64(j), float64(k)})
+			}
+		}
+	}
+	return pts
+}
+
+// midLength returns the midpoint between the distinct pairwise lengths at
+// quantile q and the next one.
+func midLength(pts [][]float64, q float64) float64 {
+	var ds []float64
+	for i := range pts {
+		for j := 0; j < i; j++ {
+			ds = append(ds, dist(pts[i], pts[j]))
+		}
+	}
+	slices.Sort(ds)
+	ds = slices.Compact(ds)
+	k := int(q * float64(len(ds)-1))
+	return (ds[k] + ds[k+1]) / 2
+}
+
+func dist(a, b []float64) float64 {
+	s := 0.0
+	for i := range a {
+		d := a[i] - b[i]
+		s += d * d
+	}
+	return math.Sqrt(s)
+}
+
+// writeCloud writes one point a line, coordinates separated by spaces and
+// printed exactly (grid coordinates are dyadic, hence finite decimals).
+func writeCloud(t *testing.T, pts [][]float64) string {
+	t.Helper()
+	var b strings.Builder
+	for _, p := range pts {
+		for k, x := range p {
+			if k > 0 {
+				b.WriteByte(' ')
+			}
+			b.WriteString(strconv.FormatFloat(x, 'f', -1, 64))
+		}
+		b.WriteByte('\n')
+	}
+	path := filepath.Join(t.TempDir(), "cloud.txt")
+	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// parseReference reads the bars the reference prints: a line
+// "persistence intervals in dim k:" opens dimension k, and each bar is a
+// line " [birth,death)" or " [birth, )" for an essential class. It returns
+// one sorted list of "dim:birth,death" strings.
+func parseReference(out []byte) ([]string, error) {
+	var bars []string
+	dim := -1
+	sc := bufio.NewScanner(bytes.NewReader(out))
+	for sc.Scan() {
+		line := strings.TrimSpace(sc.Text())
+		if rest, ok := strings.CutPrefix(line, "persistence intervals in dim "); ok {
+			d, err := strconv.Atoi(strings.TrimSuffix(rest, ":"))
+			if err != nil {
+				return nil, fmt.Errorf("reference output: %q: %v", line, err)
+			}
+			dim = d
+			continue
+		}
+		if !strings.HasPrefix(line, "[") {
+			continue
+		}
+		if dim < 0 || !strings.HasSuffix(line, ")") {
+			return nil, fmt.Errorf("reference output: unexpected line %q", line)
+		}
+		birth, death, ok := strings.Cut(line[1:len(line)-1], ",")
+		if !ok {
+			return nil, fmt.Errorf("reference output: unexpected line %q", line)
+		}
+		bars = append(bars, fmt.Sprintf("%d:%s,%s", dim, birth, strings.TrimSpace(death)))
+	}
+	slices.Sort(bars)
+	return bars, sc.Err()
+}
+
+// single prints a length as the reference does: rounded to single
+// precision, then to six significant digits.
+func single(x float64) string {
+	return strconv.FormatFloat(float64(float32(x)), 'g', 6, 32)
+}
+
+// ourBars lists the diagram's bars in the reference's notation.
+func ourBars(d *rips.Diagram) []string {
+	var bars []string
+	for _, b := range d.Bars {
+		death := ""
+		if !b.Essential() {
+			death = single(b.Death)
+		}
+		bars = append(bars, fmt.Sprintf("%d:%s,%s", b.Dim, single(b.Birth), death))
+	}
+	slices.Sort(bars)
+	return bars
+}
+
+// diffBars returns the bars only in a and only in b.
+func diffBars(a, b []string) (onlyA, onlyB []string) {
+	i, j := 0, 0
+	for i < len(a) || j < len(b) {
+		switch {
+		case j == len(b) || (i < len(a) && a[i] < b[j]):
+			onlyA = append(onlyA, a[i])
+			i++
+		case i == len(a) || b[j] < a[i]:
+			onlyB = append(onlyB, b[j])
+			j++
+		default:
+			i++
+			j++
+		}
+	}
+	return onlyA, onlyB
+}
+
+func TestAgainstReference(t *testing.T) {
+	z2 := referenceBinary(t, "ripser")
+	zp := referenceBinary(t, "ripser-coeff")
+	battery := referenceBattery()
+	if testing.Short() {
+		battery = battery[:6]
+	}
+	for _, c := range battery {
+		t.Run(c.name, func(t *testing.T) {
+			path := writeCloud(t, c.pts)
+			bin := z2
+			args := []string{"--format", "point-cloud", "--dim", strconv.Itoa(c.dim)}
+			if c.prime != 0 && c.prime != 2 {
+				bin = zp
+				args = append(args, "--modulus", strconv.Itoa(c.prime))
+			}
+			if c.threshold > 0 {
+				args = append(args, "--threshold", strconv.FormatFloat(c.threshold, 'g', -1, 64))
+			}
+			out, err := exec.Command(bin, append(args, path)...).Output()
+			if err != nil {
+				t.Fatalf("%s %v: %v", bin, args, err)
+			}
+			want, err := parseReference(out)
+			if err != nil {
+				t.Fatal(err)
+			}
+			d, err := rips.VietorisRips(c.pts, rips.Options{MaxDim: c.dim, Threshold: c.threshold, Prime: c.prime})
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := ourBars(d)
+			if onlyOurs, onlyRef := diffBars(got, want); len(onlyOurs)+len(onlyRef) > 0 {
+				t.Errorf("%d points, dim %d: %d bars here, %d in the reference\nonly here: %v\nonly in the reference: %v",
+					len(c.pts), c.dim, len(got), len(want), head(onlyOurs), head(onlyRef))
+			}
+		})
+	}
+}
+
+func head(s []string) []string {
+	if len(s) > 20 {
+		return append(s[:20:20], fmt.Sprintf("… %d more", len(s)-20))
+	}
+	return s
+}
