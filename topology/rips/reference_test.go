@@ -1,8 +1,6 @@
 package rips_test
 
 import (
-	"bufio"
-	"bytes"
 	"fmt"
 	"math"
 	"os"
@@ -15,6 +13,7 @@ import (
 
 	"phasonhull/topology/rips"
 	"phasonhull/topology/rips/internal/clouds"
+	"phasonhull/topology/rips/internal/reference"
 )
 
 // The reference is Debian's ripser package (version 1.2.1): the binary
@@ -147,79 +146,6 @@ func writeCloud(t *testing.T, pts [][]float64) string {
 	return path
 }
 
-// parseReference reads the bars the reference prints: a line
-// "persistence intervals in dim k:" opens dimension k, and each bar is a
-// line " [birth,death)" or " [birth, )" for an essential class. It returns
-// one sorted list of "dim:birth,death" strings.
-func parseReference(out []byte) ([]string, error) {
-	var bars []string
-	dim := -1
-	sc := bufio.NewScanner(bytes.NewReader(out))
-	for sc.Scan() {
-		line := strings.TrimSpace(sc.Text())
-		if rest, ok := strings.CutPrefix(line, "persistence intervals in dim "); ok {
-			d, err := strconv.Atoi(strings.TrimSuffix(rest, ":"))
-			if err != nil {
-				return nil, fmt.Errorf("reference output: %q: %v", line, err)
-			}
-			dim = d
-			continue
-		}
-		if !strings.HasPrefix(line, "[") {
-			continue
-		}
-		if dim < 0 || !strings.HasSuffix(line, ")") {
-			return nil, fmt.Errorf("reference output: unexpected line %q", line)
-		}
-		birth, death, ok := strings.Cut(line[1:len(line)-1], ",")
-		if !ok {
-			return nil, fmt.Errorf("reference output: unexpected line %q", line)
-		}
-		bars = append(bars, fmt.Sprintf("%d:%s,%s", dim, birth, strings.TrimSpace(death)))
-	}
-	slices.Sort(bars)
-	return bars, sc.Err()
-}
-
-// single prints a length as the reference does: rounded to single
-// precision, then to six significant digits.
-func single(x float64) string {
-	return strconv.FormatFloat(float64(float32(x)), 'g', 6, 32)
-}
-
-// ourBars lists the diagram's bars in the reference's notation.
-func ourBars(d *rips.Diagram) []string {
-	var bars []string
-	for _, b := range d.Bars {
-		death := ""
-		if !b.Essential() {
-			death = single(b.Death)
-		}
-		bars = append(bars, fmt.Sprintf("%d:%s,%s", b.Dim, single(b.Birth), death))
-	}
-	slices.Sort(bars)
-	return bars
-}
-
-// diffBars returns the bars only in a and only in b.
-func diffBars(a, b []string) (onlyA, onlyB []string) {
-	i, j := 0, 0
-	for i < len(a) || j < len(b) {
-		switch {
-		case j == len(b) || (i < len(a) && a[i] < b[j]):
-			onlyA = append(onlyA, a[i])
-			i++
-		case i == len(a) || b[j] < a[i]:
-			onlyB = append(onlyB, b[j])
-			j++
-		default:
-			i++
-			j++
-		}
-	}
-	return onlyA, onlyB
-}
-
 func TestAgainstReference(t *testing.T) {
 	z2 := referenceBinary(t, "ripser")
 	zp := referenceBinary(t, "ripser-coeff")
@@ -243,7 +169,7 @@ func TestAgainstReference(t *testing.T) {
 			if err != nil {
 				t.Fatalf("%s %v: %v", bin, args, err)
 			}
-			want, err := parseReference(out)
+			want, err := reference.Parse(out)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -251,8 +177,8 @@ func TestAgainstReference(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			got := ourBars(d)
-			if onlyOurs, onlyRef := diffBars(got, want); len(onlyOurs)+len(onlyRef) > 0 {
+			got := reference.Format(d.Bars)
+			if onlyOurs, onlyRef := reference.Diff(got, want); len(onlyOurs)+len(onlyRef) > 0 {
 				t.Errorf("%d points, dim %d: %d bars here, %d in the reference\nonly here: %v\nonly in the reference: %v",
 					len(c.pts), c.dim, len(got), len(want), head(onlyOurs), head(onlyRef))
 			}
