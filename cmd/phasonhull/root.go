@@ -29,6 +29,8 @@ homology.`,
 	root.AddCommand(
 		newGenerateCmd(),
 		newEmbedCmd(),
+		newBarcodeCmd(),
+		newAnalyzeCmd(),
 	// commands are added here as they land
 	)
 	return root

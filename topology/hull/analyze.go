@@ -1,0 +1,250 @@
+package hull
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+
+	"phasonhull/embed"
+	"phasonhull/pattern"
+	"phasonhull/topology"
+	"phasonhull/topology/rips"
+)
+
+// Defaults of Options.
+const (
+	DefaultLandmarks  = 200
+	DefaultSubsamples = 4
+	DefaultMaxCoeff   = 6
+	DefaultMaxPeriod  = 32
+	DefaultSeed       = 1
+	// cocyclePrime is the coefficient field for the cocycles behind the
+	// circular coordinates: a prime large enough that the integer lift of a
+	// Z/p cocycle is an integer cocycle (de Silva, Morozov &
+	// Vejdemo-Johansson 2011 use 47).
+	cocyclePrime = 47
+	// maxHarmonics is the largest harmonic order tried by the frequency
+	// refinement.
+	maxHarmonics = 8
+)
+
+// Options control Analyze. The zero value asks for the defaults.
+type Options struct {
+	// Window is the delay window; 0 chooses it from the data.
+	Window int
+	// Landmarks is the number of landmarks for the barcodes.
+	Landmarks int
+	// Subsamples is the number of landmark subsamples (different seeds)
+	// over which the Betti numbers must agree; their agreement is the
+	// confidence.
+	Subsamples int
+	// MaxCoeff bounds the angle coefficients of the listed gap labels.
+	MaxCoeff int
+	// MaxPeriod is the longest period the exact periodicity test tries.
+	MaxPeriod int
+	// Seed seeds every random choice; 0 means DefaultSeed.
+	Seed uint64
+	// Noise is the position noise, in mean spacings, that the embedding
+	// tolerates (see embed.Options.Noise); 0 means embed's default.
+	Noise float64
+	// MemoryBudget bounds the persistence computation, in bytes; 0 means
+	// the engine's default.
+	MemoryBudget int64
+	// Workers bounds the goroutines of the persistence engine; 0 means
+	// all cores.
+	Workers int
+}
+
+func (o Options) withDefaults() (Options, error) {
+	if o.Window < 0 || o.Landmarks < 0 || o.Subsamples < 0 || o.MaxCoeff < 0 || o.MaxPeriod < 0 {
+		return o, errors.New("window, landmarks, subsamples, max-coeff and max-period must not be negative")
+	}
+	if o.Landmarks == 0 {
+		o.Landmarks = DefaultLandmarks
+	}
+	if o.Landmarks < 8 {
+		return o, fmt.Errorf("landmarks %d: need at least 8", o.Landmarks)
+	}
+	if o.Subsamples == 0 {
+		o.Subsamples = DefaultSubsamples
+	}
+	if o.MaxCoeff == 0 {
+		o.MaxCoeff = DefaultMaxCoeff
+	}
+	if o.MaxPeriod == 0 {
+		o.MaxPeriod = DefaultMaxPeriod
+	}
+	if o.Seed == 0 {
+		o.Seed = DefaultSeed
+	}
+	return o, nil
+}
+
+// Analyze runs the hull analysis of a pattern.
+//
+// The steps, each reported in the Result:
+//
+//  1. Sites that look missing (a spacing near a multiple of the typical
+//     one) or spurious (a spacing far below it) are found; the delay
+//     vectors that contain such spacings are left out of the cloud and the
+//     site indices skip over the missing sites.
+//  2. The spacings are embedded (package embed): the window, the whitened
+//     cloud, its noise level.
+//  3. An exact periodicity test on the spacings (see spacingPeriod) decides
+//     the point and finite classes: their hull is a set of p points.
+//  4. Otherwise Vietoris–Rips barcodes of the landmarks give Betti numbers
+//     by the significance rule (see readBetti), repeated on Subsamples
+//     landmark sets; (1,1,0) is a circle, (1,2,1) a torus, anything else
+//     unresolved.
+//  5. For a circle or torus, circular coordinates from the most persistent
+//     H1 cocycles give the rotation number(s) of the shift, refined by a
+//     least-squares fit of the site positions (see measureAngles).
+//  6. The gap labels follow from the angles.
+func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
+	opt, err := opt.withDefaults()
+	if err != nil {
+		return nil, fmt.Errorf("hull analysis: %w", err)
+	}
+	res := &Result{
+		Schema: Schema, Source: p.Source, Sites: p.Len(), Unit: p.Unit,
+		MeanSpacing: p.MeanSpacing(), Notes: append([]string{}, p.Notes...),
+		Warnings: []string{}, Angles: []float64{}, AngleUncertainty: []float64{},
+	}
+	a, err := newAnalysis(p, opt, res)
+	if err != nil {
+		return nil, fmt.Errorf("hull analysis: %w", err)
+	}
+	if err := a.classify(); err != nil {
+		return nil, fmt.Errorf("hull analysis: %w", err)
+	}
+	if err := a.measureAngles(); err != nil {
+		return nil, fmt.Errorf("hull analysis: %w", err)
+	}
+	a.labels()
+	return res, nil
+}
+
+// analysis carries the state shared by the steps of Analyze.
+type analysis struct {
+	opt Options
+	p   *pattern.Pattern
+	res *Result
+
+	steps     []int     // steps[i]: site-index advance across spacing i (2 for one missing site)
+	index     []int     // index[i]: site index of site i, skipping missing sites
+	u         []float64 // dimensionless spacings
+	em        *embed.Result
+	diagram   *rips.Diagram // barcodes of the main landmark set
+	landmarks [][]float64   // the landmarks behind diagram
+}
+
+func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error) {
+	a := &analysis{opt: opt, p: p, res: res}
+	d := p.Spacings()
+	a.steps, a.index = siteSteps(d, res)
+	mean := p.MeanSpacing()
+	a.u = make([]float64, len(d))
+	for i, v := range d {
+		a.u[i] = v / mean
+	}
+	exclude := make([]bool, len(d))
+	for i, s := range a.steps {
+		exclude[i] = s != 1
+	}
+	em, err := embed.Embed(p, embed.Options{
+		Window: opt.Window, Landmarks: opt.Landmarks, Seed: opt.Seed,
+		Noise: opt.Noise, Exclude: exclude,
+	})
+	if err != nil {
+		return nil, err
+	}
+	a.em = em
+	e := &res.Embedding
+	e.Window = em.Window
+	e.WindowSettled = em.Choice == nil || em.Choice.Settled
+	e.Spectrum = em.Whitened.Spectrum
+	e.Components = em.Whitened.Kept
+	if em.Choice != nil {
+		e.NoiseVariance = em.Choice.NoiseVariance
+	}
+	e.Vectors = len(em.Whitened.Cloud)
+	e.Excluded = em.Excluded
+	e.Landmarks = len(em.Landmarks)
+	e.CoverRadius = em.CoverRadius
+	if em.Choice != nil && !em.Choice.Settled {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("the delay window did not settle up to %d: the spacings keep filling new directions, as independent random spacings do", em.Choice.Cap))
+	}
+	return a, nil
+}
+
+// siteSteps finds spacings that span a missing site or end at a spurious
+// one. A spacing is taken to span s ≥ 2 steps when it is at least 1.6
+// typical spacings and above 1.25 times the 95th percentile of all
+// spacings, with s = round(d/median); it is taken to end at a spurious site
+// when it is below 0.5 typical spacings and below 0.8 times the 5th
+// percentile (steps 0). Both rules only fire on spacings outside the bulk
+// of the distribution, so a periodic cell of unequal spacings or a strong
+// modulation is left alone. Indices then count sites with missing ones
+// skipped over.
+func siteSteps(d []float64, res *Result) (steps, index []int) {
+	sorted := slices.Clone(d)
+	slices.Sort(sorted)
+	q := func(f float64) float64 { return sorted[int(f*float64(len(sorted)-1))] }
+	med, q05, q95 := q(0.5), q(0.05), q(0.95)
+	steps = make([]int, len(d))
+	missing, extra := 0, 0
+	for i, v := range d {
+		steps[i] = 1
+		switch {
+		case v >= 1.6*med && v > 1.25*q95:
+			steps[i] = int(math.Round(v / med))
+			missing += steps[i] - 1
+		case v < 0.5*med && v < 0.8*q05:
+			steps[i] = 0
+			extra++
+		}
+	}
+	// A spurious site shares the index of the site before it; the fit of
+	// the positions leaves it out.
+	index = make([]int, len(d)+1)
+	for i, s := range steps {
+		index[i+1] = index[i] + s
+	}
+	if missing > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d spacing(s) look like missing sites (%d site(s) assumed missing); delay vectors across them are left out", countIf(steps, func(s int) bool { return s > 1 }), missing))
+	}
+	if extra > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d spacing(s) are far shorter than the rest and look like spurious extra sites; delay vectors across them are left out", extra))
+	}
+	return steps, index
+}
+
+func countIf(v []int, f func(int) bool) int {
+	n := 0
+	for _, x := range v {
+		if f(x) {
+			n++
+		}
+	}
+	return n
+}
+
+// labels fills in the gap-label group from the class and angles.
+func (a *analysis) labels() {
+	g := &a.res.GapLabels
+	g.MaxCoeff = a.opt.MaxCoeff
+	g.Generators = []float64{1}
+	switch a.res.Hull.Class {
+	case Finite:
+		p := a.res.Hull.Period
+		g.Generators = append(g.Generators, 1/float64(p))
+		g.Labels = labelsFrom(topology.PeriodicLabels(p))
+	case Circle, Torus:
+		g.Generators = append(g.Generators, a.res.Angles...)
+		g.Labels = labelsFrom(topology.Labels(a.res.Angles, a.opt.MaxCoeff))
+	}
+	if g.Labels == nil {
+		g.Labels = []Label{}
+	}
+}

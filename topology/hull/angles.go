@@ -1,0 +1,247 @@
+package hull
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+
+	"phasonhull/topology"
+	"phasonhull/topology/rips"
+)
+
+// measureAngles measures the effective step angle(s) of a circle or torus
+// hull.
+//
+// Rough value: the most persistent H1 cocycle(s) of the landmark barcode
+// give circular coordinates (de Silva, Morozov & Vejdemo-Johansson 2011),
+// extended to every delay vector; the rotation number of the shift is the
+// mean lifted increment of the coordinate from one vector to the next,
+// weighted as Das & Yorke (2018) prescribe when the chain has no gaps.
+// This is the rotation number on the hull, not any generating parameter:
+// it is what a deformed loop or a nonlinear circle map still has.
+//
+// Refinement: the site positions are fitted by least squares with a
+// harmonic series in the rotation number(s) plus a linear trend (variable
+// projection; topology.RefineFrequencies), the number of harmonics chosen
+// by the Bayesian information criterion. In white position noise this is
+// the maximum-likelihood estimate; its standard error is the reported
+// uncertainty. Where the fit cannot be made, the rough value stands, with
+// its own uncertainty.
+func (a *analysis) measureAngles() error {
+	k := 0
+	switch a.res.Hull.Class {
+	case Point, Finite:
+		a.periodicResiduals()
+		return nil
+	case Circle:
+		k = 1
+	case Torus:
+		k = 2
+	default:
+		return nil
+	}
+	cocycles, err := a.topCocycles(k)
+	if err != nil {
+		return err
+	}
+	rough := make([]float64, k)
+	roughErr := make([]float64, k)
+	for i, c := range cocycles {
+		rough[i], roughErr[i], err = a.roughAngle(c)
+		if err != nil {
+			return err
+		}
+	}
+	n, x := a.fitSites()
+	fit, h, err := bestFit(n, x, rough)
+	if err != nil {
+		// The rough angles stand.
+		a.res.Warnings = append(a.res.Warnings, "the least-squares refinement of the angle failed ("+err.Error()+"); the angle is the circular-coordinate estimate")
+		a.setAngles(rough, roughErr)
+		a.res.AngleMethod = "rotation number of the circular coordinate"
+		return nil
+	}
+	a.setAngles(fit.Freq, fit.StdErr)
+	a.setResiduals(fit.Residuals, fmt.Sprintf("lattice plus %d harmonic(s) of the angle(s)", h))
+	a.res.AngleMethod = fmt.Sprintf("rotation number of the circular coordinate, refined by a least-squares fit of the positions with %d harmonic(s)", h)
+	for i := range rough {
+		if d := math.Abs(topology.Fold(fit.Freq[i]) - topology.Fold(rough[i])); d > 3*roughErr[i]+3*fit.StdErr[i] {
+			a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the refined angle %.6g differs from the circular-coordinate estimate %.6g by more than their uncertainties: check the class", topology.Fold(fit.Freq[i]), topology.Fold(rough[i])))
+		}
+	}
+	return nil
+}
+
+// setAngles folds the angles, puts them in canonical order and stores
+// them with their uncertainties.
+func (a *analysis) setAngles(f, e []float64) {
+	type pair struct{ f, e float64 }
+	ps := make([]pair, len(f))
+	for i := range f {
+		ps[i] = pair{topology.Fold(f[i]), e[i]}
+	}
+	slices.SortFunc(ps, func(x, y pair) int {
+		switch {
+		case x.f < y.f:
+			return -1
+		case x.f > y.f:
+			return 1
+		}
+		return 0
+	})
+	a.res.Angles, a.res.AngleUncertainty = nil, nil
+	for _, p := range ps {
+		a.res.Angles = append(a.res.Angles, p.f)
+		a.res.AngleUncertainty = append(a.res.AngleUncertainty, p.e)
+	}
+}
+
+// topCocycles returns the cocycles of the k most persistent H1 bars.
+func (a *analysis) topCocycles(k int) ([]rips.Cocycle, error) {
+	dg := a.diagram
+	var h1 []int
+	for i, b := range dg.Bars {
+		if b.Dim == 1 {
+			h1 = append(h1, i)
+		}
+	}
+	slices.SortStableFunc(h1, func(i, j int) int {
+		pi, pj := dg.Bars[i].Persistence(), dg.Bars[j].Persistence()
+		switch {
+		case pi > pj:
+			return -1
+		case pi < pj:
+			return 1
+		}
+		return 0
+	})
+	if len(h1) < k {
+		return nil, fmt.Errorf("measuring angles: %d H1 bars, need %d", len(h1), k)
+	}
+	out := make([]rips.Cocycle, 0, k)
+	for _, bi := range h1[:k] {
+		found := false
+		for _, c := range dg.Cocycles {
+			if c.Bar == bi {
+				out = append(out, c)
+				found = true
+				break
+			}
+		}
+		if !found {
+			return nil, fmt.Errorf("measuring angles: no cocycle for H1 bar %d", bi)
+		}
+	}
+	return out, nil
+}
+
+// roughAngle returns the rotation number of the shift read off the circular
+// coordinate of cocycle c, and an uncertainty for it.
+func (a *analysis) roughAngle(c rips.Cocycle) (float64, float64, error) {
+	bar := a.diagram.Bars[c.Bar]
+	r, err := topology.DefaultScale(bar)
+	if err != nil {
+		return 0, 0, err
+	}
+	cm, err := topology.CircularCoordinates(a.landmarks, c, r)
+	if err != nil {
+		return 0, 0, err
+	}
+	coords, err := cm.Extend(a.em.Whitened.Cloud)
+	if err != nil {
+		return 0, 0, err
+	}
+	// Runs of consecutive delay vectors (vectors across missing or
+	// spurious sites were left out of the cloud).
+	rows := a.em.Rows
+	var sum float64
+	var steps int
+	start := 0
+	for i := 1; i <= len(coords); i++ {
+		if i < len(coords) && rows[i] == rows[i-1]+1 {
+			continue
+		}
+		if run := coords[start:i]; len(run) >= 3 {
+			rho, err := topology.WeightedRotationNumber(run)
+			if err != nil {
+				return 0, 0, err
+			}
+			sum += rho * float64(len(run)-1)
+			steps += len(run) - 1
+		}
+		start = i
+	}
+	if steps == 0 {
+		return 0, 0, errors.New("measuring angles: no run of three consecutive delay vectors")
+	}
+	rho := sum / float64(steps)
+	// The lifted rotation number of a run of K steps is off by at most the
+	// coordinate's error at its two ends divided by K; a coordinate is good
+	// to a fraction of a turn, so 1/K bounds it.
+	return rho, 1 / float64(steps), nil
+}
+
+// fitSites returns the site indices and positions to fit: every site but
+// the spurious ones.
+func (a *analysis) fitSites() ([]int, []float64) {
+	var n []int
+	var x []float64
+	for j, pos := range a.p.Positions {
+		if j > 0 && a.steps[j-1] == 0 {
+			continue
+		}
+		n = append(n, a.index[j])
+		x = append(x, pos)
+	}
+	return n, x
+}
+
+// bestFit refines the frequencies from rough values with 1..maxHarmonics
+// harmonics (one frequency) or 1..3 orders with combination tones (two),
+// and keeps the fit with the lowest Bayesian information criterion
+// N log(RSS/N) + P log N (Schwarz, Ann. Stat. 6, 1978).
+func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int, error) {
+	f0 := make([]float64, len(rough))
+	for i, r := range rough {
+		f0[i] = topology.Fold(r)
+	}
+	maxH := maxHarmonics
+	if len(f0) == 2 {
+		maxH = 3
+	}
+	N := float64(len(x))
+	best, bestH, bestBIC := topology.FrequencyFit{}, 0, math.Inf(1)
+	var firstErr error
+	for h := 1; h <= maxH; h++ {
+		opt := topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2}
+		terms := 2 + len(f0)
+		if len(f0) == 1 {
+			terms += 2 * h
+		} else {
+			terms += 2 * (2*h + 2*h*h) // an upper bound on the tones; enough for the criterion
+		}
+		if float64(terms) >= N/4 {
+			break
+		}
+		fit, err := topology.RefineFrequencies(n, x, f0, opt)
+		if err != nil {
+			if firstErr == nil {
+				firstErr = err
+			}
+			continue
+		}
+		rss := fit.RMS * fit.RMS * N
+		bic := N*math.Log(math.Max(rss/N, 1e-300)) + float64(terms)*math.Log(N)
+		if bic < bestBIC {
+			best, bestH, bestBIC = fit, h, bic
+		}
+	}
+	if bestH == 0 {
+		if firstErr == nil {
+			firstErr = errors.New("too few sites for the harmonic model")
+		}
+		return best, 0, firstErr
+	}
+	return best, bestH, nil
+}

@@ -1,0 +1,88 @@
+package hull
+
+import "math"
+
+// periodTest is the outcome of the test for an exactly periodic chain.
+type periodTest struct {
+	Period int     // smallest period that passed, 0 when none did
+	Ratio  float64 // mean squared p-difference over its noise expectation, at Period
+}
+
+// spacingPeriod looks for the smallest p ≤ maxP for which the dimensionless
+// spacings u_n repeat, u_{n+p} = u_n, up to measurement noise.
+//
+// Under position noise of variance σ² (in mean spacings) a spacing carries
+// noise e_{n+1} − e_n of variance ν = 2σ². For p ≥ 2 the difference
+// u_{n+p} − u_n = e_{n+p+1} − e_{n+p} − e_{n+1} + e_n then has variance 2ν,
+// for p = 1 (a second difference) 3ν. A period passes when the mean
+// squared difference, over the M pairs, stays within that expectation times
+// 1 + 5√(2/M) (five standard errors of a χ² mean) plus a rounding floor;
+// nu is the noise variance estimated from the delay spectrum, independent
+// of the periodic hypothesis. Exact data (ν ≈ 0) must repeat to rounding.
+// An irrational modulation fails every p unless ‖pθ‖ is so small that the
+// data cannot tell it from a period.
+//
+// For p ≥ 2 the period must also be resolved: the p windows of the mean
+// cell (its cyclic shifts, the p points of the hull) must lie apart by at
+// least sepFactor times the scatter of a window about them. A chain whose
+// p-step return is merely close (a smooth hull turned by an angle near a
+// fraction, or an estimate of ν inflated by a rough hull) has its p
+// "points" strung along a curve, closer together than that.
+func spacingPeriod(u []float64, nu float64, maxP int) periodTest {
+	const rounding = 1e-20 // squared dimensionless rounding of spacings
+	for p := 1; p <= maxP && 3*p <= len(u); p++ {
+		m := len(u) - p
+		var s float64
+		for n := 0; n < m; n++ {
+			e := u[n+p] - u[n]
+			s += e * e
+		}
+		s /= float64(m)
+		want := 2 * nu
+		if p == 1 {
+			want = 3 * nu
+		}
+		limit := want*(1+5*math.Sqrt(2/float64(m))) + rounding
+		if s <= limit && (p == 1 || resolvedCell(u, p)) {
+			return periodTest{Period: p, Ratio: s / math.Max(want, rounding)}
+		}
+	}
+	return periodTest{}
+}
+
+// sepFactor is how many window scatters apart the points of a finite hull
+// must lie.
+const sepFactor = 6
+
+// resolvedCell reports whether the p cyclic shifts of the mean cell of u
+// are separated by at least sepFactor times the scatter of a window of p
+// spacings about its cell.
+func resolvedCell(u []float64, p int) bool {
+	cell := make([]float64, p)
+	count := make([]int, p)
+	for n, v := range u {
+		cell[n%p] += v
+		count[n%p]++
+	}
+	for j := range cell {
+		cell[j] /= float64(count[j])
+	}
+	var ss float64
+	for n, v := range u {
+		d := v - cell[n%p]
+		ss += d * d
+	}
+	scatter := math.Sqrt(ss / float64(len(u)) * float64(p)) // RMS norm of a window's deviation
+	sep := math.Inf(1)
+	for j := 0; j < p; j++ {
+		for k := j + 1; k < p; k++ {
+			var d2 float64
+			for i := range p {
+				d := cell[(j+i)%p] - cell[(k+i)%p]
+				d2 += d * d
+			}
+			sep = math.Min(sep, math.Sqrt(d2))
+		}
+	}
+	return sep >= sepFactor*scatter
+}

@@ -1,0 +1,148 @@
+package hull
+
+import "phasonhull/topology"
+
+// Schema names the layout of Result in JSON; it changes whenever a field
+// changes meaning.
+const Schema = "phasonhull.analysis/1"
+
+// Class names the kind of hull.
+type Class string
+
+// The classes of hull Analyze can name.
+const (
+	// Point: a periodic chain with one site per period (all spacings
+	// equal up to noise).
+	Point Class = "point"
+	// Finite: a periodic chain with p > 1 sites per period; its hull is p
+	// points.
+	Finite Class = "finite"
+	// Circle: one incommensurate angle.
+	Circle Class = "circle"
+	// Torus: two incommensurate angles (a two-dimensional torus).
+	Torus Class = "torus"
+	// Unresolved: the data cannot decide; Hull.Reason says why and what
+	// would decide it.
+	Unresolved Class = "unresolved"
+)
+
+// Result is everything Analyze found. Its JSON form is documented field by
+// field in the README.
+type Result struct {
+	Schema      string  `json:"schema"`
+	Source      string  `json:"source"`
+	Sites       int     `json:"sites"`
+	Unit        string  `json:"unit"`
+	MeanSpacing float64 `json:"mean_spacing"`
+
+	Hull Hull `json:"hull"`
+
+	// Angles are the effective step angles in turns, folded into [0, ½]:
+	// one for a circle, a canonical basis of two for a torus, none
+	// otherwise. AngleUncertainty holds one standard uncertainty each.
+	Angles           []float64 `json:"angles"`
+	AngleUncertainty []float64 `json:"angle_uncertainty"`
+	// AngleMethod says how the angles were measured.
+	AngleMethod string `json:"angle_method,omitempty"`
+
+	GapLabels GapLabels `json:"gap_labels"`
+
+	// Disorder is the positional scatter the hull does not explain; nil
+	// when no model of the hull was fitted (unresolved).
+	Disorder *Disorder `json:"disorder"`
+	// SiteResiduals holds, for each site, its distance in the pattern's
+	// unit from the fitted model of the hull (NaN for sites left out of
+	// the fit, such as spurious ones); nil when no model was fitted.
+	SiteResiduals []float64 `json:"-"`
+
+	Embedding   Embedding   `json:"embedding"`
+	Persistence Persistence `json:"persistence"`
+
+	// Notes say what was done to the input on the way in; Warnings what
+	// the reader of the result should know before relying on it.
+	Notes    []string `json:"notes"`
+	Warnings []string `json:"warnings"`
+}
+
+// Hull is the classification.
+type Hull struct {
+	Class Class `json:"class"`
+	// Betti are the Betti numbers b0, b1, b2 read off the barcodes.
+	Betti []int `json:"betti"`
+	// Period is the number of sites per period (finite and point only).
+	Period int `json:"period,omitempty"`
+	// Confidence is the fraction of landmark subsamples whose Betti
+	// numbers agree with the ones reported (1 for classes decided by the
+	// exact periodicity test).
+	Confidence float64 `json:"confidence"`
+	// ScaleBand is the range of scales, in whitened units, over which the
+	// reported Betti numbers hold: every significant bar is alive in it.
+	ScaleBand []float64 `json:"scale_band,omitempty"`
+	// Reason explains the decision (always set for unresolved).
+	Reason string `json:"reason"`
+}
+
+// GapLabels is the gap-label group and its small labels.
+type GapLabels struct {
+	// Generators of the group: 1 and the angles (or 1/p for a finite hull).
+	Generators []float64 `json:"generators"`
+	// MaxCoeff bounds the angle coefficients listed.
+	MaxCoeff int `json:"max_coeff"`
+	// Labels are the values the integrated density of states may take in
+	// a spectral gap, inside (0, 1), sorted.
+	Labels []Label `json:"labels"`
+}
+
+// Label is one gap label: IDS = coeffs[0] + Σ coeffs[i]·angles[i−1]; for a
+// finite hull of period p, IDS = coeffs[0]/p.
+type Label struct {
+	IDS    float64 `json:"ids"`
+	Coeffs []int   `json:"coeffs"`
+}
+
+// Embedding reports the delay embedding the analysis ran on.
+type Embedding struct {
+	Window        int       `json:"window"`
+	WindowSettled bool      `json:"window_settled"`
+	Spectrum      []float64 `json:"spectrum"`
+	Components    int       `json:"components"`
+	NoiseVariance float64   `json:"noise_variance"`
+	Vectors       int       `json:"vectors"`
+	Excluded      int       `json:"excluded_vectors"`
+	Landmarks     int       `json:"landmarks"`
+	CoverRadius   float64   `json:"cover_radius"`
+}
+
+// Persistence reports the barcodes behind the class.
+type Persistence struct {
+	// Threshold is the significance threshold τ on persistence, in
+	// whitened units, and what it is made of: the cover radius of the
+	// landmarks, the sampling gap of the trace (half the largest H0 death)
+	// and the noise scale (the longest bar no hull class explains).
+	Threshold   float64 `json:"threshold"`
+	CoverRadius float64 `json:"cover_radius"`
+	SamplingGap float64 `json:"sampling_gap"`
+	NoiseScale  float64 `json:"noise_scale"`
+	// Bars are the bars of dimension ≥ 1 (and H0 bars above the
+	// threshold), most persistent first per dimension; Significant marks
+	// those above Threshold.
+	Bars []Bar `json:"bars"`
+	// Subsamples holds the Betti numbers found on each landmark subsample.
+	Subsamples [][]int `json:"subsamples"`
+}
+
+// Bar is one persistence bar; Death is nil for an essential class.
+type Bar struct {
+	Dim         int      `json:"dim"`
+	Birth       float64  `json:"birth"`
+	Death       *float64 `json:"death"`
+	Significant bool     `json:"significant"`
+}
+
+func labelsFrom(ls []topology.Label) []Label {
+	out := make([]Label, len(ls))
+	for i, l := range ls {
+		out[i] = Label{IDS: l.IDS, Coeffs: l.Coeffs}
+	}
+	return out
+}
