@@ -27,6 +27,9 @@ const (
 	// maxHarmonics is the largest harmonic order tried by the frequency
 	// refinement.
 	maxHarmonics = 8
+	// longWindow is the window the barcodes are computed at when the
+	// window is chosen from the data (see newAnalysis).
+	longWindow = 12
 )
 
 // Options control Analyze. The zero value asks for the defaults.
@@ -152,15 +155,33 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 	for i, s := range a.steps {
 		exclude[i] = s != 1
 	}
-	em, err := embed.Embed(p, embed.Options{
+	eo := embed.Options{
 		Window: opt.Window, Landmarks: opt.Landmarks, Seed: opt.Seed,
 		Noise: opt.Noise, Exclude: exclude,
-	})
+	}
+	em, err := embed.Embed(p, eo)
 	if err != nil {
 		return nil, err
 	}
+	chosen := em.Window
+	// The rules give the shortest window that unfolds the hull. The
+	// analysis then runs at a long window and keeps the significant
+	// components only (singular-spectrum analysis, Broomhead & King,
+	// Physica D 20, 1986): the signal's components grow with the window
+	// while the noise per component does not, so a thin direction of the
+	// trace no longer drowns in noise once whitened.
+	if opt.Window == 0 {
+		if long := min(longWindow, max(chosen, len(d)/6)); long > chosen {
+			eo.Window = long
+			if em2, err := embed.Embed(p, eo); err == nil {
+				em2.Choice = em.Choice
+				em = em2
+			}
+		}
+	}
 	a.em = em
 	e := &res.Embedding
+	e.ChosenWindow = chosen
 	e.Window = em.Window
 	e.WindowSettled = em.Choice == nil || em.Choice.Settled
 	e.Spectrum = em.Whitened.Spectrum

@@ -62,7 +62,11 @@ func (a *analysis) measureAngles() error {
 		a.res.AngleMethod = "rotation number of the circular coordinate"
 		return nil
 	}
-	a.setAngles(fit.Freq, fit.StdErr)
+	freq, se := fit.Freq, fit.StdErr
+	if k == 2 {
+		freq, se = dominantBasis(n, x, freq, se)
+	}
+	a.setAngles(freq, se)
 	a.setResiduals(fit.Residuals, fmt.Sprintf("lattice plus %d harmonic(s) of the angle(s)", h))
 	a.res.AngleMethod = fmt.Sprintf("rotation number of the circular coordinate, refined by a least-squares fit of the positions with %d harmonic(s)", h)
 	for i := range rough {
@@ -244,4 +248,62 @@ func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int,
 		return best, 0, firstErr
 	}
 	return best, bestH, nil
+}
+
+// dominantBasis rewrites two frequencies f (a basis of the module
+// Z + Zf1 + Zf2) in the basis of the two strongest tones of the positions:
+// among the tones m·f with |m_i| ≤ 3, ranked by the periodogram of the
+// detrended positions, the strongest one and the next strongest that
+// completes it to a unimodular basis (det = ±1, so the module is
+// unchanged). Any basis of the module is equally correct; this one names
+// the angles by which the pattern is visibly modulated, so that the same
+// pattern gives the same basis whichever loops the circular coordinates
+// happened to follow. Standard errors are propagated as if independent.
+func dominantBasis(n []int, x []float64, f, se []float64) ([]float64, []float64) {
+	r, ok := cellResiduals(n, x, 1)
+	if !ok {
+		return f, se
+	}
+	type tone struct {
+		m     [2]int
+		power float64
+	}
+	var tones []tone
+	for m1 := 0; m1 <= 3; m1++ {
+		for m2 := -3; m2 <= 3; m2++ {
+			if m1 == 0 && m2 <= 0 {
+				continue // one of ±m
+			}
+			g := float64(m1)*f[0] + float64(m2)*f[1]
+			var re, im float64
+			for i, v := range n {
+				s, c := math.Sincos(2 * math.Pi * g * float64(v))
+				re += r[i] * c
+				im += r[i] * s
+			}
+			tones = append(tones, tone{[2]int{m1, m2}, re*re + im*im})
+		}
+	}
+	slices.SortStableFunc(tones, func(a, b tone) int {
+		switch {
+		case a.power > b.power:
+			return -1
+		case a.power < b.power:
+			return 1
+		}
+		return 0
+	})
+	first := tones[0].m
+	for _, t := range tones[1:] {
+		if det := first[0]*t.m[1] - first[1]*t.m[0]; det == 1 || det == -1 {
+			out := make([]float64, 2)
+			outSE := make([]float64, 2)
+			for i, m := range [2][2]int{first, t.m} {
+				out[i] = float64(m[0])*f[0] + float64(m[1])*f[1]
+				outSE[i] = math.Hypot(float64(m[0])*se[0], float64(m[1])*se[1])
+			}
+			return out, outSE
+		}
+	}
+	return f, se
 }

@@ -66,13 +66,25 @@ func (a *analysis) classify() error {
 		return nil
 	}
 
+	// A trace in four or more directions may be a torus, whose loops and
+	// 2-cycle need a denser cover than a circle's loop.
+	if w.Kept >= 4 && a.opt.Landmarks < torusLandmarks && len(a.em.Landmarks) < len(w.Cloud) {
+		idx, c, err := embed.Landmarks(w.Cloud, torusLandmarks, a.opt.Seed)
+		if err != nil {
+			return err
+		}
+		a.em.Landmarks, a.em.LandmarkCloud, a.em.CoverRadius = idx, pick(w.Cloud, idx), c
+		a.res.Embedding.Landmarks, a.res.Embedding.CoverRadius = len(idx), c
+	}
+	nLandmarks := max(a.opt.Landmarks, len(a.em.Landmarks))
+
 	// Barcodes on Subsamples landmark sets; the first is the main one.
 	var main bettiReading
 	votes := map[[3]int]int{}
 	for s := range a.opt.Subsamples {
 		lm, cover := a.em.LandmarkCloud, a.em.CoverRadius
 		if s > 0 {
-			idx, c, err := embed.Landmarks(w.Cloud, a.opt.Landmarks, a.opt.Seed+uint64(s))
+			idx, c, err := embed.Landmarks(w.Cloud, nLandmarks, a.opt.Seed+uint64(s))
 			if err != nil {
 				return err
 			}
@@ -138,7 +150,11 @@ func (a *analysis) barcodes(lm [][]float64, cover float64, seed uint64, main boo
 	}
 	tau, eps, noise := threshold(dg.Bars, cover)
 	b := count(dg.Bars, tau)
-	if b[1] >= 2 {
+	// Two loops that stand out above noise and sampling gap but not yet
+	// above the cover radius ask for a denser cover too: a torus's loops
+	// are longer than a sparse cover lets them show.
+	loose := count(dg.Bars, math.Max(samplingFactor*eps, noiseFactor*noise))
+	if b[1] >= 2 || loose[1] >= 2 {
 		// A 2-cycle needs a denser cover than a loop: H2 is computed on at
 		// least torusLandmarks landmarks.
 		if want := max(a.opt.Landmarks, torusLandmarks); len(lm) < want && len(lm) < len(a.em.Whitened.Cloud) {
@@ -149,8 +165,7 @@ func (a *analysis) barcodes(lm [][]float64, cover float64, seed uint64, main boo
 			lm, cover = pick(a.em.Whitened.Cloud, idx), c
 		}
 		opt.MaxDim = 2
-		dg, err = rips.VietorisRips(lm, opt)
-		if err != nil {
+		if dg, err = rips.VietorisRips(lm, opt); err != nil {
 			return bettiReading{}, err
 		}
 		tau, eps, noise = threshold(dg.Bars, cover)

@@ -102,6 +102,10 @@ type Label struct {
 
 // Embedding reports the delay embedding the analysis ran on.
 type Embedding struct {
+	// ChosenWindow is the shortest window that unfolds the hull (the
+	// window rules of package embed); Window is the one the analysis ran
+	// at, longer to average noise.
+	ChosenWindow  int       `json:"chosen_window"`
 	Window        int       `json:"window"`
 	WindowSettled bool      `json:"window_settled"`
 	Spectrum      []float64 `json:"spectrum"`

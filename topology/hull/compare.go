@@ -1,0 +1,374 @@
+package hull
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+
+	"phasonhull/pattern/design"
+	"phasonhull/topology"
+)
+
+// compareSigmas is the number of combined standard uncertainties within
+// which two angles agree (common practice: a 3σ test).
+const compareSigmas = 3
+
+// Comparison is the hull-level verdict on a measured sample against its
+// design: whether the two hulls are of the same class and, for a circle or
+// a torus, whether the angles generate the same frequency module within
+// their uncertainties.
+type Comparison struct {
+	DesignClass   Class `json:"design_class"`
+	MeasuredClass Class `json:"measured_class"`
+	SameClass     bool  `json:"same_class"`
+	// Periods of point and finite hulls (0 otherwise).
+	DesignPeriod   int `json:"design_period,omitempty"`
+	MeasuredPeriod int `json:"measured_period,omitempty"`
+	// Angles holds the angle checks, the measured sample against the
+	// design's analysis and, when a Reference fixes the angles, against
+	// the reference.
+	Angles []AngleCheck `json:"angles"`
+	// Agree is the verdict; Verdict says it in a sentence, Notes add what
+	// the reader should know (a design whose own analysis differs from
+	// its spec, say).
+	Agree   bool     `json:"agree"`
+	Verdict string   `json:"verdict"`
+	Notes   []string `json:"notes"`
+}
+
+// AngleCheck is one comparison of angles.
+//
+// For a circle, Difference is |Fold(θ) − Fold(θ′)|. For a torus it is the
+// smallest tolerance at which topology.SameModule accepts the two bases
+// (coefficients up to DefaultMaxCoeff): zero for the same module given in
+// two bases. Allowed is compareSigmas·σ plus ModelTolerance, σ the
+// combined standard uncertainty √(Σσ_i²) of the angles on both sides, and
+// ModelTolerance the distance between the design's analysis and its
+// reference (the analysis's own error on the exact design; 0 without a
+// reference).
+type AngleCheck struct {
+	// Against is "design" (the analysis of the design) or "reference"
+	// (the values a design spec fixes).
+	Against        string    `json:"against"`
+	Expected       []float64 `json:"expected"`
+	ExpectedErr    []float64 `json:"expected_uncertainty"`
+	Measured       []float64 `json:"measured"`
+	MeasuredErr    []float64 `json:"measured_uncertainty"`
+	Difference     float64   `json:"difference"`
+	Sigma          float64   `json:"sigma"`
+	ModelTolerance float64   `json:"model_tolerance"`
+	Allowed        float64   `json:"allowed"`
+	Within         bool      `json:"within"`
+}
+
+// Reference is what a design spec fixes of its hull in closed form.
+type Reference struct {
+	Family string `json:"family"`
+	// Class is the hull class the spec implies, "" when it does not fix
+	// one; Period goes with the point and finite classes.
+	Class  Class `json:"class,omitempty"`
+	Period int   `json:"period,omitempty"`
+	// Angles are the exact angles, folded into [0, ½] and sorted; nil when
+	// the spec does not fix them.
+	Angles []float64 `json:"angles,omitempty"`
+	// Note says why something is not fixed ("" when all is).
+	Note string `json:"note,omitempty"`
+}
+
+// SpecReference returns what a design spec fixes of its hull. The angles
+// are the construction's rotation numbers, exact by construction:
+//
+//   - modulated: g·θ, g the greatest common divisor of the harmonic orders
+//     with a nonzero amplitude (a modulation in harmonics 2, 4, ... of θ
+//     turns with angle 2θ); a circle.
+//   - two-angle: θ and θ2 (a torus), or the one whose amplitude is
+//     nonzero (a circle).
+//   - loop: the arc step (a circle); circle-map with K = 0: Ω, a rigid
+//     rotation (a circle). A circle map with K > 0 has a rotation number
+//     that depends on Ω and K and is not fixed.
+//   - sturmian: the slope θ; substitution "fibonacci": the frequency 1/φ²
+//     of its letter B, the slope of the Fibonacci word. The class of a
+//     tile chain is not fixed: a word of two tile lengths may look like
+//     clusters to the analysis.
+//   - periodic: a point or finite hull with the smallest period of the
+//     cell.
+//
+// An angle within 10⁻⁹ of a rational p/q with q no larger than the number
+// of sites makes the design periodic over its length, and the reference
+// then fixes nothing.
+func SpecReference(s design.Spec) Reference {
+	c := s.WithDefaults()
+	ref := Reference{Family: c.Family}
+	var angles []float64
+	class := Circle
+	switch c.Family {
+	case "periodic":
+		p := cellPeriod(c.Cell)
+		ref.Class, ref.Period = Finite, p
+		if p == 1 {
+			ref.Class = Point
+		}
+		return ref
+	case "modulated":
+		g := 0
+		for k := 1; k <= max(len(c.Sin), len(c.Cos)); k++ {
+			if at(c.Sin, k-1) != 0 || at(c.Cos, k-1) != 0 {
+				g = gcd(g, k)
+			}
+		}
+		if g == 0 {
+			ref.Class, ref.Period = Point, 1
+			return ref
+		}
+		angles = []float64{float64(g) * c.Theta}
+	case "two-angle":
+		switch {
+		case c.Amp != 0 && c.Amp2 != 0:
+			angles, class = []float64{c.Theta, c.Theta2}, Torus
+		case c.Amp != 0:
+			angles = []float64{c.Theta}
+		case c.Amp2 != 0:
+			angles = []float64{c.Theta2}
+		default:
+			ref.Class, ref.Period = Point, 1
+			return ref
+		}
+	case "loop":
+		if c.Amp == 0 {
+			ref.Class, ref.Period = Point, 1
+			return ref
+		}
+		angles = []float64{c.Step}
+	case "circle-map":
+		if c.Amp == 0 {
+			ref.Class, ref.Period = Point, 1
+			return ref
+		}
+		if c.K != 0 {
+			ref.Note = "the rotation number of a circle map with K > 0 depends on Ω and K: the spec does not fix it"
+			return ref
+		}
+		angles = []float64{c.Omega}
+	case "sturmian":
+		angles, class = []float64{c.Theta}, ""
+	case "substitution":
+		if c.Rule != "fibonacci" {
+			ref.Note = "the spec fixes no angle for the substitution rule " + c.Rule
+			return ref
+		}
+		phi := (1 + math.Sqrt(5)) / 2
+		angles, class = []float64{1 / (phi * phi)}, ""
+	default:
+		ref.Note = "the " + c.Family + " family fixes no hull"
+		return ref
+	}
+	for _, a := range angles {
+		if p, q, ok := nearRational(a, c.Sites); ok {
+			ref.Note = fmt.Sprintf("the angle %.10g is the rational %d/%d: the design is periodic over its length, and the spec fixes nothing else", a, p, q)
+			return ref
+		}
+	}
+	ref.Class, ref.Angles = class, topology.CanonicalBasis(angles)
+	return ref
+}
+
+func at(v []float64, i int) float64 {
+	if i < len(v) {
+		return v[i]
+	}
+	return 0
+}
+
+func gcd(a, b int) int {
+	for b != 0 {
+		a, b = b, a%b
+	}
+	return a
+}
+
+// cellPeriod returns the smallest p dividing len(cell) for which the cell
+// repeats itself every p entries.
+func cellPeriod(cell []float64) int {
+	n := len(cell)
+	for p := 1; p < n; p++ {
+		if n%p != 0 {
+			continue
+		}
+		ok := true
+		for i := p; i < n && ok; i++ {
+			ok = cell[i] == cell[i-p]
+		}
+		if ok {
+			return p
+		}
+	}
+	return max(n, 1)
+}
+
+// nearRational reports whether a lies within 10⁻⁹ of p/q for some q ≤ maxQ
+// (the smallest such q).
+func nearRational(a float64, maxQ int) (p, q int, ok bool) {
+	for q = 1; q <= maxQ; q++ {
+		p = int(math.Round(a * float64(q)))
+		if math.Abs(a-float64(p)/float64(q)) <= 1e-9 {
+			return p, q, true
+		}
+	}
+	return 0, 0, false
+}
+
+// Compare compares the hull analysis of a measured sample with that of its
+// design. It is CompareWith without a reference.
+func Compare(design, measured *Result) Comparison {
+	return CompareWith(design, measured, nil)
+}
+
+// CompareWith compares the hull analysis of a measured sample with that of
+// its design and, when ref fixes angles, with those too.
+//
+// The hulls agree when their classes are the same and: for point and
+// finite hulls, the periods are equal; for a circle or a torus, every
+// angle check is within its allowance (see AngleCheck). Two unresolved
+// hulls agree on class, and the verdict says that this confirms little.
+func CompareWith(design, measured *Result, ref *Reference) Comparison {
+	c := Comparison{
+		DesignClass: design.Hull.Class, MeasuredClass: measured.Hull.Class,
+		DesignPeriod: design.Hull.Period, MeasuredPeriod: measured.Hull.Period,
+		Angles: []AngleCheck{}, Notes: []string{},
+	}
+	c.SameClass = c.DesignClass == c.MeasuredClass
+	if ref != nil && ref.Class != "" && (ref.Class != design.Hull.Class || ref.Period != design.Hull.Period) {
+		c.Notes = append(c.Notes, fmt.Sprintf("the analysis of the design itself finds a %s hull where its %s spec implies %s", describeClass(design.Hull.Class, design.Hull.Period), ref.Family, describeClass(ref.Class, ref.Period)))
+	}
+	if ref != nil && ref.Note != "" {
+		c.Notes = append(c.Notes, ref.Note)
+	}
+	if !c.SameClass {
+		c.Verdict = fmt.Sprintf("the sample's hull is %s, the design's %s: the sample does not have the intended hull",
+			describeClass(c.MeasuredClass, c.MeasuredPeriod), describeClass(c.DesignClass, c.DesignPeriod))
+		return c
+	}
+	switch c.DesignClass {
+	case Point, Finite:
+		c.Agree = c.DesignPeriod == c.MeasuredPeriod
+		if c.Agree {
+			c.Verdict = fmt.Sprintf("both hulls are %s", describeClass(c.DesignClass, c.DesignPeriod))
+		} else {
+			c.Verdict = fmt.Sprintf("both hulls are finite, but the sample repeats every %d sites and the design every %d", c.MeasuredPeriod, c.DesignPeriod)
+		}
+		return c
+	case Unresolved:
+		c.Agree = true
+		c.Verdict = "neither hull is resolved: the classes agree, which confirms little; the reasons in the two analyses say what would decide"
+		return c
+	}
+
+	// Circle or torus: angles against the design's analysis, and against
+	// the reference when it fixes them.
+	modelTol := 0.0
+	useRef := ref != nil && len(ref.Angles) == len(design.Angles) && len(ref.Angles) > 0
+	if useRef {
+		modelTol = angleDistance(ref.Angles, design.Angles)
+	}
+	chk := checkAngles("design", design.Angles, design.AngleUncertainty, measured, modelTol)
+	c.Angles = append(c.Angles, chk)
+	c.Agree = chk.Within
+	if useRef {
+		zero := make([]float64, len(ref.Angles))
+		rc := checkAngles("reference", ref.Angles, zero, measured, modelTol)
+		// The design's own uncertainty stays in the allowance: the model
+		// tolerance is measured with it.
+		rc.Sigma = chk.Sigma
+		rc.Allowed = chk.Allowed
+		rc.Within = rc.Difference <= rc.Allowed
+		c.Angles = append(c.Angles, rc)
+		c.Agree = c.Agree && rc.Within
+	}
+	what, plural := "angle", "circles"
+	if c.DesignClass == Torus {
+		what, plural = "frequency module", "two-tori"
+	}
+	var parts []string
+	for _, a := range c.Angles {
+		rel := "within"
+		if !a.Within {
+			rel = "beyond"
+		}
+		parts = append(parts, fmt.Sprintf("differs from the %s's by %.3g, %s the allowed %.3g", a.Against, a.Difference, rel, a.Allowed))
+	}
+	if c.Agree {
+		c.Verdict = fmt.Sprintf("both hulls are %s and the sample's %s %s", plural, what, strings.Join(parts, " and "))
+	} else {
+		c.Verdict = fmt.Sprintf("both hulls are %s, but the sample's %s %s: the sample does not have the intended angle", plural, what, strings.Join(parts, " and "))
+	}
+	return c
+}
+
+// checkAngles compares expected angles (with uncertainties) with the
+// measured ones.
+func checkAngles(against string, exp, expErr []float64, m *Result, modelTol float64) AngleCheck {
+	a := AngleCheck{
+		Against: against, Expected: slices.Clone(exp), ExpectedErr: slices.Clone(expErr),
+		Measured: slices.Clone(m.Angles), MeasuredErr: slices.Clone(m.AngleUncertainty),
+		ModelTolerance: modelTol,
+	}
+	var v float64
+	for _, e := range expErr {
+		v += e * e
+	}
+	for _, e := range m.AngleUncertainty {
+		v += e * e
+	}
+	a.Sigma = math.Sqrt(v)
+	a.Difference = angleDistance(exp, m.Angles)
+	a.Allowed = compareSigmas*a.Sigma + modelTol
+	a.Within = a.Difference <= a.Allowed
+	return a
+}
+
+// angleDistance is |Fold(a) − Fold(b)| for one angle each, and for more
+// the smallest tolerance at which topology.SameModule accepts the two
+// bases with coefficients up to DefaultMaxCoeff, found by bisection
+// (acceptance only grows with the tolerance). Bases of different lengths
+// are ½ apart, the largest distance there is.
+func angleDistance(a, b []float64) float64 {
+	if len(a) != len(b) || len(a) == 0 {
+		return 0.5
+	}
+	if len(a) == 1 {
+		return math.Abs(topology.Fold(a[0]) - topology.Fold(b[0]))
+	}
+	if topology.SameModule(a, b, DefaultMaxCoeff, 0) {
+		return 0
+	}
+	lo, hi := 0.0, 0.5
+	if !topology.SameModule(a, b, DefaultMaxCoeff, hi) {
+		return hi
+	}
+	for range 60 {
+		mid := (lo + hi) / 2
+		if topology.SameModule(a, b, DefaultMaxCoeff, mid) {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return hi
+}
+
+func describeClass(c Class, period int) string {
+	switch c {
+	case Point:
+		return "a point (periodic, one site per period)"
+	case Finite:
+		return fmt.Sprintf("finite (periodic, %d sites per period)", period)
+	case Circle:
+		return "a circle"
+	case Torus:
+		return "a two-torus"
+	case "":
+		return "no class"
+	}
+	return string(c)
+}
