@@ -1,0 +1,30 @@
+// Package register matches the sites of a measured chain to the sites of
+// its design and fits the calibration between them: an offset, a global
+// scale and, optionally, a linear drift of the scale along the chain.
+//
+// Register alternates two steps until the matching no longer changes
+// (the iterative-closest-point scheme of Besl & McKay, IEEE Trans. PAMI 14,
+// 1992, with the closest-point step replaced by an order-preserving
+// alignment):
+//
+//  1. Matching: the design sites, mapped through the current calibration,
+//     and the measured sites, both sorted along the chain, are aligned by
+//     dynamic programming. An alignment is a one-to-one, order-preserving
+//     set of matched pairs; every design site left out is missing, every
+//     measured site left out is extra. Matching a pair costs its squared
+//     residual relative to the pair's gate, leaving a site out costs one,
+//     and a pair may only be matched inside its gate, a fixed fraction of
+//     the smaller design spacing next to the design site.
+//  2. Calibration: the matched pairs are fitted by iteratively reweighted
+//     least squares with Tukey's biweight on residuals scaled by a robust
+//     sigma (1.4826 times the median absolute deviation), so that
+//     displaced sites do not pull the calibration.
+//
+// The first calibration is chosen among the lines through a pair of sites
+// near each end of both chains, so that missing or extra sites at the ends,
+// or a chain measured in the opposite direction, do not derail it.
+//
+// The result lists the matched pairs with their residuals, the missing,
+// extra, merged and swapped sites, robust outliers, and the calibration
+// with its standard errors.
+package register

@@ -1,0 +1,164 @@
+package register
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// maxIRLS bounds the reweighting steps of one fit.
+const maxIRLS = 100
+
+// fit fits the calibration to the matched pairs by iteratively reweighted
+// least squares, starting from start, and returns the model with the
+// covariance of its coefficients and the final weight of each pair.
+//
+// Each step scales the residuals by the robust sigma σ (1.4826·MAD),
+// weights them with Tukey's biweight w(u) = (1 − (u/c)²)² for |u| < c and 0
+// beyond, c = BiweightTuning, and solves the weighted least-squares
+// problem (Holland & Welsch, Commun. Stat. A 6, 1977). It stops when the
+// coefficients no longer move.
+//
+// The covariance is Huber's for an M-estimate (Huber, Robust Statistics,
+// 1981, §7.6):
+//
+//	Cov = K² · [Σψ(u)²/(N−P)] / [Σψ′(u)/N]² · σ² · (AᵀA)⁻¹,
+//	K = 1 + (P/N)·Var ψ′ / (mean ψ′)²,
+//
+// with ψ(u) = u·w(u) the biweight's influence function, A the design
+// matrix, N pairs and P coefficients. Under Gaussian noise without
+// outliers it is the least-squares covariance divided by the biweight's
+// efficiency.
+func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64, error) {
+	n, p := len(pairs), g.params()
+	a := mat.NewDense(n, p, nil)
+	y := make([]float64, n)
+	row := make([]float64, p)
+	for i, pr := range pairs {
+		g.columns(g.d[pr.d], row)
+		a.SetRow(i, row)
+		y[i] = x[pr.k]
+	}
+	// The floor keeps exact data (zero residuals) from dividing by zero:
+	// 10⁻⁹ of the mean spacing in measured units.
+	floor := 1e-9 * math.Abs(start.b[1]) * 2 / float64(len(g.d)-1)
+
+	b := append([]float64(nil), start.b...)
+	r := make([]float64, n)
+	w := make([]float64, n)
+	var sigma float64
+	residuals := func() {
+		for i := range r {
+			r[i] = y[i] - mat.Dot(a.RowView(i), mat.NewVecDense(p, b))
+		}
+		sigma = math.Max(robustSigma(r), floor)
+	}
+	for it := 0; it < maxIRLS; it++ {
+		residuals()
+		used := 0
+		for i := range w {
+			w[i] = biweight(r[i] / sigma)
+			if w[i] > 0 {
+				used++
+			}
+		}
+		if used < p+1 {
+			return model{}, nil, fmt.Errorf("fitting the calibration: only %d matched site(s) carry weight", used)
+		}
+		next, err := weightedSolve(a, y, w)
+		if err != nil {
+			return model{}, nil, fmt.Errorf("fitting the calibration: %w", err)
+		}
+		moved := 0.0
+		for i := range b {
+			moved = math.Max(moved, math.Abs(next[i]-b[i]))
+		}
+		b = next
+		// Coefficients are in measured units (t and u² are
+		// dimensionless): stop at a move below the rounding of a position.
+		if moved <= 1e-12*(math.Abs(b[0])+math.Abs(b[1])) {
+			break
+		}
+	}
+	residuals()
+
+	// Huber's covariance.
+	var sumPsi2, sumDpsi, sumDpsi2 float64
+	for i := range r {
+		u := r[i] / sigma
+		w[i] = biweight(u)
+		psi, dpsi := u*w[i], biweightSlope(u)
+		sumPsi2 += psi * psi
+		sumDpsi += dpsi
+		sumDpsi2 += dpsi * dpsi
+	}
+	N, P := float64(n), float64(p)
+	meanD := sumDpsi / N
+	if !(meanD > 0) || n <= p {
+		return model{}, nil, errors.New("fitting the calibration: too few matched sites near the fit for an uncertainty")
+	}
+	varD := sumDpsi2/N - meanD*meanD
+	k := 1 + P/N*varD/(meanD*meanD)
+	factor := k * k * (sumPsi2 / (N - P)) / (meanD * meanD) * sigma * sigma
+	var ata mat.SymDense
+	ata.SymOuterK(1, a.T())
+	var chol mat.Cholesky
+	if !chol.Factorize(&ata) {
+		return model{}, nil, errors.New("fitting the calibration: the matched design sites do not determine it")
+	}
+	var inv mat.SymDense
+	if err := chol.InverseTo(&inv); err != nil {
+		return model{}, nil, fmt.Errorf("fitting the calibration: %w", err)
+	}
+	cov := make([][]float64, p)
+	for i := range cov {
+		cov[i] = make([]float64, p)
+		for j := range cov[i] {
+			cov[i][j] = factor * inv.At(i, j)
+		}
+	}
+	return model{g: g, b: b, cov: cov}, w, nil
+}
+
+// weightedSolve returns the b minimising Σ w_i (y_i − A_i b)², by QR
+// factorisation of the rows scaled by √w_i.
+func weightedSolve(a *mat.Dense, y, w []float64) ([]float64, error) {
+	n, p := a.Dims()
+	aw := mat.NewDense(n, p, nil)
+	yw := mat.NewVecDense(n, nil)
+	for i := 0; i < n; i++ {
+		s := math.Sqrt(w[i])
+		for j := 0; j < p; j++ {
+			aw.Set(i, j, s*a.At(i, j))
+		}
+		yw.SetVec(i, s*y[i])
+	}
+	var qr mat.QR
+	qr.Factorize(aw)
+	var b mat.VecDense
+	if err := qr.SolveVecTo(&b, false, yw); err != nil {
+		return nil, errors.New("the weighted matched sites do not determine the calibration")
+	}
+	return mat.Col(nil, 0, &b), nil
+}
+
+// biweight is Tukey's weight (1 − (u/c)²)² inside |u| < c, 0 outside.
+func biweight(u float64) float64 {
+	v := u / BiweightTuning
+	if math.Abs(v) >= 1 {
+		return 0
+	}
+	return (1 - v*v) * (1 - v*v)
+}
+
+// biweightSlope is ψ′(u) for ψ(u) = u·biweight(u): (1 − v²)(1 − 5v²),
+// v = u/c, inside |u| < c, 0 outside.
+func biweightSlope(u float64) float64 {
+	v := u / BiweightTuning
+	if math.Abs(v) >= 1 {
+		return 0
+	}
+	return (1 - v*v) * (1 - 5*v*v)
+}

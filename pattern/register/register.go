@@ -1,0 +1,459 @@
+package register
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+	"sort"
+)
+
+// Defaults and fixed factors of the registration.
+const (
+	// DefaultGate is the default match gate: a measured site may match a
+	// design site only within this fraction of the smaller design spacing
+	// next to it. Below ½ the gates of neighbouring design sites never
+	// overlap, and a measured site midway between two design sites
+	// matches neither (see Merge).
+	DefaultGate = 0.4
+	// DefaultMaxIter bounds the alternations of matching and fitting.
+	DefaultMaxIter = 50
+	// OutlierFactor: a matched site is a robust outlier when its residual
+	// exceeds OutlierFactor robust sigmas. Under Gaussian noise a site
+	// passes it with probability 1 − 6·10⁻⁵ (common practice: a 4σ cut).
+	OutlierFactor = 4
+	// BiweightTuning is the tuning constant c of Tukey's biweight, in
+	// robust sigmas: 95% efficiency under Gaussian noise (Beaton & Tukey,
+	// Technometrics 16, 1974; common practice).
+	BiweightTuning = 4.685
+	// MADFactor turns a median absolute deviation into a standard
+	// deviation for Gaussian data: 1/Φ⁻¹(¾) (common practice).
+	MADFactor = 1.482602218505602
+	// endSkips is how many sites at each end of each chain the first
+	// calibration may take as missing or extra.
+	endSkips = 2
+	// scoreSample bounds the measured sites used to score a candidate
+	// first calibration.
+	scoreSample = 2048
+)
+
+// Options control Register. The zero value asks for the defaults.
+type Options struct {
+	// Drift fits a linear drift of the scale along the chain (see
+	// Result.Drift).
+	Drift bool
+	// Gate is the match gate as a fraction of the smaller neighbouring
+	// design spacing, in (0, 1); 0 means DefaultGate.
+	Gate float64
+	// MaxIter bounds the alternations of matching and fitting; 0 means
+	// DefaultMaxIter.
+	MaxIter int
+}
+
+// Result is a registration of measured sites onto design sites.
+//
+// The calibration maps a design coordinate d to the measured coordinate
+//
+//	x(d) = Offset + Scale·d + Scale·Drift·(d − d₀)²/S
+//
+// with d₀ the first (lowest) design site and S the design's span, so that
+// the local scale dx/dd is Scale at the first design site and grows
+// linearly to Scale·(1 + 2·Drift) at the last. Drift is zero unless
+// Options.Drift asked for it. A negative Scale means the measured chain
+// runs opposite to the design.
+//
+// Indices are 0-based positions in the slices given to Register: design
+// indices into the design, measured indices into the measured sites in the
+// order they were given.
+type Result struct {
+	Offset, OffsetErr float64
+	Scale, ScaleErr   float64
+	Drift, DriftErr   float64
+	// DriftFitted says whether the drift was fitted.
+	DriftFitted bool
+
+	// Matches are the matched pairs in design order. Residual is the
+	// measured position minus the calibrated design position, in the
+	// measured unit.
+	Matches []Match
+	// Missing lists the design sites no measured site matched, ascending.
+	Missing []int
+	// Extra lists the measured sites that matched no design site,
+	// ascending.
+	Extra []int
+	// Merged lists extra measured sites that sit midway between two
+	// consecutive missing design sites: two sites fabricated, or
+	// detected, as one.
+	Merged []Merge
+	// Swapped lists consecutive measured entries (in the given order)
+	// that match consecutive design sites in the order opposite to the
+	// entries around them: two neighbours exchanged in a scan listing.
+	// Only input in scan order can show it; sorted input never does.
+	Swapped []Swap
+	// Outliers lists the design indices of matched sites whose residual
+	// exceeds OutlierFactor·Sigma, ascending.
+	Outliers []int
+
+	// Sigma is the robust standard deviation of the residuals (1.4826
+	// times their median absolute deviation), floored at 10⁻⁹ of the mean
+	// measured spacing so that exact data does not flag rounding.
+	Sigma float64
+	// RMS and Max are the root mean square and the largest magnitude of
+	// the residuals of all matched sites.
+	RMS, Max float64
+
+	// Iterations counts the alternations of matching and fitting;
+	// Converged says whether the matching settled before MaxIter.
+	Iterations int
+	Converged  bool
+
+	// fitted model in the normalised coordinates of the fit.
+	m model
+}
+
+// Match is one matched pair.
+type Match struct {
+	Design, Measured int
+	// Residual is the measured position minus the calibrated design
+	// position.
+	Residual float64
+	// Weight is the pair's final biweight weight in the fit, in [0, 1];
+	// 0 means the pair did not pull the calibration.
+	Weight float64
+}
+
+// Merge is one measured site standing for two consecutive design sites.
+type Merge struct {
+	Design   [2]int
+	Measured int
+}
+
+// Swap is a pair of consecutive measured entries listed in the order
+// opposite to their neighbours'.
+type Swap struct {
+	Measured [2]int // consecutive entries k, k+1 of the given order
+	Design   [2]int // the design sites they match
+}
+
+// Predict returns the measured coordinate the calibration gives the design
+// coordinate d.
+func (r *Result) Predict(d float64) float64 { return r.m.predict(d) }
+
+// Register matches measured sites to design sites and fits the
+// calibration between them; see the package documentation for the method.
+// Both slices may be in any order; neither is modified. The design needs
+// at least two distinct sites, and enough sites must match to fit the
+// calibration (two more than its parameters).
+func Register(design, measured []float64, opt Options) (*Result, error) {
+	if opt.Gate == 0 {
+		opt.Gate = DefaultGate
+	}
+	if !(opt.Gate > 0 && opt.Gate < 1) {
+		return nil, fmt.Errorf("registering: gate %v: must lie in (0, 1)", opt.Gate)
+	}
+	if opt.MaxIter == 0 {
+		opt.MaxIter = DefaultMaxIter
+	}
+	if opt.MaxIter < 0 {
+		return nil, fmt.Errorf("registering: max iterations %d: must not be negative", opt.MaxIter)
+	}
+	ds, err := newChain(design, "design")
+	if err != nil {
+		return nil, fmt.Errorf("registering: %w", err)
+	}
+	ms, err := newChain(measured, "measured")
+	if err != nil {
+		return nil, fmt.Errorf("registering: %w", err)
+	}
+	for i := 1; i < len(ds.x); i++ {
+		if ds.x[i] == ds.x[i-1] {
+			return nil, fmt.Errorf("registering: design sites %d and %d are both at %v", ds.order[i-1], ds.order[i], ds.x[i])
+		}
+	}
+	g := newGeometry(ds.x, opt.Drift)
+	gates := g.gateWidths(opt.Gate)
+
+	m := g.firstGuess(ms.x, gates)
+	var pairs []pair
+	res := &Result{}
+	var w []float64
+	for it := 1; it <= opt.MaxIter; it++ {
+		next := align(m, g, ms.x, gates)
+		res.Iterations = it
+		if it > 1 && slices.Equal(next, pairs) {
+			res.Converged = true
+			break
+		}
+		pairs = next
+		if len(pairs) < g.params()+2 {
+			return nil, fmt.Errorf("registering: only %d measured sites lie near a design site; the calibration needs %d", len(pairs), g.params()+2)
+		}
+		if m, w, err = g.fit(pairs, ms.x, m); err != nil {
+			return nil, fmt.Errorf("registering: %w", err)
+		}
+	}
+	res.m = m
+	res.fill(g, ds, ms, pairs, w)
+	return res, nil
+}
+
+// chain is a list of sites sorted ascending, with the original index of
+// each.
+type chain struct {
+	x     []float64 // ascending
+	order []int     // order[i]: index in the caller's slice of x[i]
+}
+
+func newChain(v []float64, what string) (chain, error) {
+	if len(v) < 2 {
+		return chain{}, fmt.Errorf("%s: %d site(s), need at least 2", what, len(v))
+	}
+	c := chain{x: make([]float64, len(v)), order: make([]int, len(v))}
+	for i, x := range v {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return chain{}, fmt.Errorf("%s site %d: %v is not a finite number", what, i, x)
+		}
+		c.order[i] = i
+	}
+	sort.SliceStable(c.order, func(a, b int) bool { return v[c.order[a]] < v[c.order[b]] })
+	for i, j := range c.order {
+		c.x[i] = v[j]
+	}
+	return c, nil
+}
+
+// fill computes everything reported from the final matching and fit.
+func (r *Result) fill(g *geometry, ds, ms chain, pairs []pair, w []float64) {
+	cal := r.m.calibration(g)
+	r.Offset, r.Scale, r.Drift = cal.offset, cal.scale, cal.drift
+	r.OffsetErr, r.ScaleErr, r.DriftErr = cal.offsetErr, cal.scaleErr, cal.driftErr
+	r.DriftFitted = g.drift
+
+	matchedD := make([]bool, len(ds.x))
+	matchedM := make([]int, len(ms.x)) // design index (sorted) + 1, 0 when unmatched
+	resid := make([]float64, len(pairs))
+	var ss float64
+	for i, p := range pairs {
+		matchedD[p.d] = true
+		matchedM[p.k] = p.d + 1
+		resid[i] = ms.x[p.k] - r.m.predict(ds.x[p.d])
+		ss += resid[i] * resid[i]
+		r.Max = math.Max(r.Max, math.Abs(resid[i]))
+	}
+	r.RMS = math.Sqrt(ss / float64(len(pairs)))
+	r.Sigma = math.Max(robustSigma(resid), 1e-9*(ms.x[len(ms.x)-1]-ms.x[0])/float64(len(ms.x)-1))
+
+	r.Matches = make([]Match, len(pairs))
+	for i, p := range pairs {
+		r.Matches[i] = Match{Design: ds.order[p.d], Measured: ms.order[p.k], Residual: resid[i], Weight: w[i]}
+	}
+	slices.SortFunc(r.Matches, func(a, b Match) int { return a.Design - b.Design })
+	r.Outliers = []int{}
+	for _, mt := range r.Matches {
+		if math.Abs(mt.Residual) > OutlierFactor*r.Sigma {
+			r.Outliers = append(r.Outliers, mt.Design)
+		}
+	}
+	r.Missing, r.Extra = []int{}, []int{}
+	for j, ok := range matchedD {
+		if !ok {
+			r.Missing = append(r.Missing, ds.order[j])
+		}
+	}
+	for k, j := range matchedM {
+		if j == 0 {
+			r.Extra = append(r.Extra, ms.order[k])
+		}
+	}
+	slices.Sort(r.Missing)
+	slices.Sort(r.Extra)
+	r.Merged = merges(r.m, ds, ms, matchedD, matchedM)
+	r.Swapped = swaps(ds, ms, matchedM)
+}
+
+// merges finds extra measured sites within a quarter of the spacing of the
+// midpoint between two consecutive design sites that are both missing.
+// Each design site takes part in one merge at most.
+func merges(m model, ds, ms chain, matchedD []bool, matchedM []int) []Merge {
+	out := []Merge{}
+	used := make([]bool, len(ds.x))
+	for k, j := range matchedM {
+		if j != 0 {
+			continue
+		}
+		x := ms.x[k]
+		// The design site just below x in calibrated coordinates; the
+		// prediction is monotone, increasing or decreasing with the scale.
+		lo := sort.Search(len(ds.x), func(i int) bool { return (m.predict(ds.x[i]) > x) == (m.b[1] > 0) }) - 1
+		if lo < 0 || lo+1 >= len(ds.x) {
+			continue
+		}
+		a, b := lo, lo+1
+		if matchedD[a] || matchedD[b] || used[a] || used[b] {
+			continue
+		}
+		ya, yb := m.predict(ds.x[a]), m.predict(ds.x[b])
+		if math.Abs(x-(ya+yb)/2) <= 0.25*math.Abs(yb-ya) {
+			used[a], used[b] = true, true
+			out = append(out, Merge{Design: [2]int{ds.order[a], ds.order[b]}, Measured: ms.order[k]})
+		}
+	}
+	slices.SortFunc(out, func(x, y Merge) int { return x.Design[0] - y.Design[0] })
+	return out
+}
+
+// swaps finds consecutive entries k, k+1 of the measured sites in the
+// given order that match design sites j and j∓1 while the steps into k
+// and out of k+1 both go the other way (j−1, j+1, j, j+2 in an ascending
+// listing). Entries around the pair must be matched for their steps to
+// count; at least one must be.
+func swaps(ds, ms chain, matchedM []int) []Swap {
+	n := len(ms.x)
+	// design[g]: sorted design index matched by given entry g, −1 if none.
+	design := make([]int, n)
+	for k, j := range matchedM {
+		design[ms.order[k]] = j - 1
+	}
+	out := []Swap{}
+	for k := 0; k+1 < n; k++ {
+		a, b := design[k], design[k+1]
+		if a < 0 || b < 0 || (b-a != 1 && b-a != -1) {
+			continue
+		}
+		step := b - a
+		agree, against := 0, 0
+		if k > 0 && design[k-1] >= 0 {
+			if s := a - design[k-1]; s*step < 0 {
+				against++
+			} else {
+				agree++
+			}
+		}
+		if k+2 < n && design[k+2] >= 0 {
+			if s := design[k+2] - b; s*step < 0 {
+				against++
+			} else {
+				agree++
+			}
+		}
+		if against > 0 && agree == 0 {
+			out = append(out, Swap{Measured: [2]int{k, k + 1}, Design: [2]int{ds.order[a], ds.order[b]}})
+		}
+	}
+	return out
+}
+
+// Limits are what an audit allows of a registration.
+type Limits struct {
+	// MaxMissing and MaxExtra are the numbers of missing and extra sites
+	// allowed.
+	MaxMissing, MaxExtra int
+	// Tolerance, when positive, is the largest residual allowed of a
+	// matched site, in the measured unit.
+	Tolerance float64
+}
+
+// OutOfTolerance returns the design indices of matched sites whose
+// residual exceeds tol in magnitude, ascending.
+func (r *Result) OutOfTolerance(tol float64) []int {
+	out := []int{}
+	for _, m := range r.Matches {
+		if math.Abs(m.Residual) > tol {
+			out = append(out, m.Design)
+		}
+	}
+	return out
+}
+
+// Failures returns one sentence per way the registration breaks the
+// limits; none means it passes. unit names the measured unit in the
+// sentences.
+func (r *Result) Failures(l Limits, unit string) []string {
+	var out []string
+	if len(r.Missing) > l.MaxMissing {
+		out = append(out, fmt.Sprintf("%d design site(s) missing, %d allowed", len(r.Missing), l.MaxMissing))
+	}
+	if len(r.Extra) > l.MaxExtra {
+		out = append(out, fmt.Sprintf("%d extra measured site(s), %d allowed", len(r.Extra), l.MaxExtra))
+	}
+	if l.Tolerance > 0 {
+		if bad := r.OutOfTolerance(l.Tolerance); len(bad) > 0 {
+			u := unit
+			if u != "" {
+				u = " " + u
+			}
+			out = append(out, fmt.Sprintf("%d matched site(s) beyond the tolerance of %g%s (largest residual %.4g%s)", len(bad), l.Tolerance, u, r.Max, u))
+		}
+	}
+	return out
+}
+
+// ErrNoResiduals is returned by Screen when no residual is a number.
+var ErrNoResiduals = errors.New("no finite residuals")
+
+// Screening flags sites far from a model fitted to the sites themselves.
+type Screening struct {
+	// Sigma is the robust standard deviation of the finite residuals,
+	// floored as Result.Sigma is; Threshold is OutlierFactor·Sigma.
+	Sigma, Threshold float64
+	// Flagged lists the sites whose residual exceeds Threshold; NotFitted
+	// those whose residual is NaN (left out of the model). Both ascending.
+	Flagged, NotFitted []int
+	// RMS and Max are the root mean square and the largest magnitude of
+	// the finite residuals.
+	RMS, Max float64
+}
+
+// Screen flags, among per-site residuals from a model of the sites (NaN
+// for sites the model left out), those beyond OutlierFactor robust sigmas.
+// floor is the smallest sigma that is taken seriously (rounding).
+func Screen(residuals []float64, floor float64) (Screening, error) {
+	s := Screening{Flagged: []int{}, NotFitted: []int{}}
+	var fin []float64
+	var ss float64
+	for i, r := range residuals {
+		if math.IsNaN(r) {
+			s.NotFitted = append(s.NotFitted, i)
+			continue
+		}
+		fin = append(fin, r)
+		ss += r * r
+		s.Max = math.Max(s.Max, math.Abs(r))
+	}
+	if len(fin) == 0 {
+		return s, ErrNoResiduals
+	}
+	s.RMS = math.Sqrt(ss / float64(len(fin)))
+	s.Sigma = math.Max(robustSigma(fin), floor)
+	s.Threshold = OutlierFactor * s.Sigma
+	for i, r := range residuals {
+		if math.Abs(r) > s.Threshold {
+			s.Flagged = append(s.Flagged, i)
+		}
+	}
+	return s, nil
+}
+
+// robustSigma returns 1.4826 times the median absolute deviation of r from
+// its median.
+func robustSigma(r []float64) float64 {
+	if len(r) == 0 {
+		return 0
+	}
+	med := median(slices.Clone(r))
+	dev := make([]float64, len(r))
+	for i, v := range r {
+		dev[i] = math.Abs(v - med)
+	}
+	return MADFactor * median(dev)
+}
+
+// median returns the median of v, reordering v.
+func median(v []float64) float64 {
+	slices.Sort(v)
+	n := len(v)
+	if n%2 == 1 {
+		return v[n/2]
+	}
+	return (v[n/2-1] + v[n/2]) / 2
+}
