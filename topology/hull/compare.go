@@ -43,10 +43,10 @@ type Comparison struct {
 // smallest tolerance at which topology.SameModule accepts the two bases
 // (coefficients up to DefaultMaxCoeff): zero for the same module given in
 // two bases. Allowed is compareSigmas·σ plus ModelTolerance, σ the
-// combined standard uncertainty √(Σσ_i²) of the angles on both sides, and
-// ModelTolerance the distance between the design's analysis and its
-// reference (the analysis's own error on the exact design; 0 without a
-// reference).
+// combined standard uncertainty √(Σσ_i²) of the angles on both sides (the
+// sample's alone against a reference, which is exact), and ModelTolerance
+// the distance between the design's analysis and its reference: the
+// analysis's own error on the design, 0 without a reference.
 type AngleCheck struct {
 	// Against is "design" (the analysis of the design) or "reference"
 	// (the values a design spec fixes).
@@ -275,13 +275,9 @@ func CompareWith(design, measured *Result, ref *Reference) Comparison {
 	c.Angles = append(c.Angles, chk)
 	c.Agree = chk.Within
 	if useRef {
-		zero := make([]float64, len(ref.Angles))
-		rc := checkAngles("reference", ref.Angles, zero, measured, modelTol)
-		// The design's own uncertainty stays in the allowance: the model
-		// tolerance is measured with it.
-		rc.Sigma = chk.Sigma
-		rc.Allowed = chk.Allowed
-		rc.Within = rc.Difference <= rc.Allowed
+		// The reference is exact: only the sample's uncertainty and the
+		// analysis's own error on the design enter the allowance.
+		rc := checkAngles("reference", ref.Angles, make([]float64, len(ref.Angles)), measured, modelTol)
 		c.Angles = append(c.Angles, rc)
 		c.Agree = c.Agree && rc.Within
 	}
@@ -291,16 +287,20 @@ func CompareWith(design, measured *Result, ref *Reference) Comparison {
 	}
 	var parts []string
 	for _, a := range c.Angles {
-		rel := "within"
-		if !a.Within {
-			rel = "beyond"
+		of := "the design's analysis"
+		if a.Against == "reference" {
+			of = "the exact value of the spec"
 		}
-		parts = append(parts, fmt.Sprintf("differs from the %s's by %.3g, %s the allowed %.3g", a.Against, a.Difference, rel, a.Allowed))
+		rel := "allowed"
+		if !a.Within {
+			rel = "beyond the allowed"
+		}
+		parts = append(parts, fmt.Sprintf("%.3g from %s (%s %.3g)", a.Difference, of, rel, a.Allowed))
 	}
 	if c.Agree {
-		c.Verdict = fmt.Sprintf("both hulls are %s and the sample's %s %s", plural, what, strings.Join(parts, " and "))
+		c.Verdict = fmt.Sprintf("both hulls are %s; the sample's %s is %s", plural, what, strings.Join(parts, " and "))
 	} else {
-		c.Verdict = fmt.Sprintf("both hulls are %s, but the sample's %s %s: the sample does not have the intended angle", plural, what, strings.Join(parts, " and "))
+		c.Verdict = fmt.Sprintf("both hulls are %s, but the sample's %s is %s: the sample does not have the intended angle", plural, what, strings.Join(parts, " and "))
 	}
 	return c
 }
