@@ -5,7 +5,6 @@ import (
 	"math"
 	"slices"
 	"sync"
-	"sync/atomic"
 )
 
 // simplex is a simplex by combinatorial index and diameter rank.
@@ -148,115 +147,6 @@ func (e *engine) parallel(total int, work func(lo, hi int)) {
 	wg.Wait()
 }
 
-// assemble lists the columns of the reduction in dimension dim: the
-// dim-simplices up to the threshold that are neither pivots of the
-// reduction in dimension dim−1 (clearing: such a simplex kills a class, so
-// its column reduces to zero; de Silva, Morozov & Vejdemo-Johansson 2011)
-// nor members of apparent pairs. They come sorted in reduction order:
-// decreasing diameter, then increasing index.
-func (e *engine) assemble(dim int, cleared *pivotTable) []simplex {
-	n := e.n
-	k := dim + 1
-	var next atomic.Int64
-	next.Store(int64(n - 1))
-	parts := make([][]simplex, e.workers)
-	counts := make([][3]int64, e.workers) // simplices, cleared, apparent
-	var wg sync.WaitGroup
-	for w := range e.workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var out []simplex
-			var cnt [3]int64
-			vs := make([]int, k)
-			buf := make([]int, 0, k+2)
-			visit := func(idx uint64, r uint32) {
-				cnt[0]++
-				if cleared.has(idx) {
-					cnt[1]++
-					return
-				}
-				if e.inApparentPair(vs, r, buf) {
-					cnt[2]++
-					return
-				}
-				out = append(out, simplex{idx: idx, rank: r})
-			}
-			for {
-				top := int(next.Add(-1) + 1)
-				if top < k-1 {
-					break
-				}
-				vs[0] = top
-				e.cliques(vs, 1, 0, e.b.c(top, k), visit)
-			}
-			parts[w] = out
-			counts[w] = cnt
-		}()
-	}
-	wg.Wait()
-	total := 0
-	var cnt [3]int64
-	for w := range parts {
-		total += len(parts[w])
-		for i := range cnt {
-			cnt[i] += counts[w][i]
-		}
-	}
-	cols := make([]simplex, 0, total)
-	for _, p := range parts {
-		cols = append(cols, p...)
-	}
-	parts = nil
-	slices.SortFunc(cols, func(a, b simplex) int {
-		if a.rank != b.rank {
-			if a.rank > b.rank {
-				return -1
-			}
-			return 1
-		}
-		if a.idx < b.idx {
-			return -1
-		}
-		if a.idx > b.idx {
-			return 1
-		}
-		return 0
-	})
-	e.stats.Simplices[dim] = cnt[0]
-	e.stats.Cleared[dim] = cnt[1]
-	e.stats.Apparent[dim] = cnt[2]
-	return cols
-}
-
-// cliques enumerates the simplices whose vertices begin with vs[:depth]
-// (decreasing), extending them by smaller vertices adjacent to all of them
-// within the threshold. r is the diameter rank so far and idx the sum of
-// the binomial terms so far.
-func (e *engine) cliques(vs []int, depth int, r uint32, idx uint64, visit func(uint64, uint32)) {
-	n := e.n
-	k := len(vs)
-	rank := e.m.rank
-	bin := e.b.row(k - depth)
-	last := depth == k-1
-	hi := vs[depth-1] - 1
-	for x := hi; x >= k-1-depth; x-- {
-		d := r
-		for i := 0; i < depth; i++ {
-			d = max(d, rank[vs[i]*n+x])
-		}
-		if d == noEdge {
-			continue
-		}
-		vs[depth] = x
-		if last {
-			visit(idx+bin[x], d)
-		} else {
-			e.cliques(vs, depth+1, d, idx+bin[x], visit)
-		}
-	}
-}
-
 // reduce reduces the coboundary columns of dimension dim in order and
 // records the bars they give. It returns the pivots, for clearing the next
 // dimension.
@@ -279,7 +169,7 @@ func (e *engine) reduce(dim int, cols []simplex) (*pivotTable, error) {
 	// simplex (coefficient 1): entries vals[vOff[c]:vOff[c+1]].
 	vOff := make([]uint32, len(cols)+1)
 	var vEntries []entry
-	w := &working{e: e}
+	w := newWorking(e)
 	var chain []entry
 	vs := make([]int, k)
 	us := make([]int, k)
@@ -322,7 +212,7 @@ func (e *engine) reduce(dim int, cols []simplex) (*pivotTable, error) {
 
 		// Full reduction.
 		reduced++
-		w.reset(k)
+		w.reset(k, sigma.rank)
 		w.add(vs, sigma.rank, 1, nil)
 		for {
 			piv, ok := w.pivot()

@@ -1,5 +1,10 @@
 package rips
 
+import (
+	"math/bits"
+	"unsafe"
+)
+
 // The working column of a reduction is the coboundary δc of a chain
 // c = Σ λ_s s of simplices. It is never written out: each simplex s of the
 // chain contributes a stream, the cofacets of s in filtration order,
@@ -78,22 +83,245 @@ type stream struct {
 	r    uint32             // diameter rank of the simplex
 	coef uint32             // coefficient of the simplex in the chain
 	x1   int32              // phase 1: next vertex to test; −1 when done
-	head entry              // the next cofacet, with its coefficient
+	link int32              // next stream waiting in the same bucket
+	head entry              // the next cofacet, with its coefficient; rank noEdge once exhausted
 }
 
-// working is a working column: the chain's streams and the heap of their
-// heads (entry.coef holding the stream number).
+// working is a working column: the chain's streams, waiting for their
+// heads in a bucket queue indexed by diameter rank (the pivot only moves
+// forward, so the queue is monotone and every wait costs O(1)). The
+// entries at the rank being merged are summed in a hash table, and only
+// the simplices whose sums are not zero enter a heap by decreasing index.
 type working struct {
 	e       *engine
 	k       int // vertices per chain simplex
 	streams []stream
-	heap    heap
+	first   []int32  // per rank: the first stream waiting there, or −1
+	bits    []uint64 // per rank: its bucket holds a stream
+	summary []uint64 // per word of bits: the word is not zero
+	cur     uint32   // the rank being merged
+	acc     accumulator
+	alive   []uint64 // max-heap of the indices with a non-zero sum at rank cur
 }
 
-func (w *working) reset(k int) {
+func newWorking(e *engine) *working {
+	ranks := len(e.m.vals)
+	w := &working{e: e, first: make([]int32, ranks), bits: make([]uint64, (ranks+63)/64)}
+	w.summary = make([]uint64, (len(w.bits)+63)/64)
+	for i := range w.first {
+		w.first[i] = -1
+	}
+	w.acc.init(64)
+	return w
+}
+
+// reset empties the column for chain simplices of k vertices whose
+// cofacets all have rank ≥ r.
+func (w *working) reset(k int, r uint32) {
+	for i := range w.streams {
+		if q := w.streams[i].head.rank; q != noEdge {
+			w.first[q] = -1
+			w.bits[q/64] = 0
+			w.summary[q/4096] = 0
+		}
+	}
 	w.k = k
 	w.streams = w.streams[:0]
-	w.heap = w.heap[:0]
+	w.alive = w.alive[:0]
+	w.cur = r
+	w.acc.clear()
+}
+
+// schedule merges the entries of stream sid at the current rank and files
+// it under the rank of its next head.
+func (w *working) schedule(sid int32) {
+	s := &w.streams[sid]
+	for s.head.rank == w.cur {
+		if old, sum := w.acc.add(s.head.idx, s.head.coef, &w.e.f); old == 0 && sum != 0 {
+			w.pushAlive(s.head.idx)
+		}
+		if !w.next(s) {
+			s.head.rank = noEdge
+			return
+		}
+	}
+	q := s.head.rank
+	s.link = w.first[q]
+	w.first[q] = sid
+	w.bits[q/64] |= 1 << (q % 64)
+	w.summary[q/4096] |= 1 << (q / 64 % 64)
+}
+
+// nextRank returns the smallest rank ≥ r with a waiting stream.
+func (w *working) nextRank(r uint32) (uint32, bool) {
+	wi := int(r / 64)
+	if wi >= len(w.bits) {
+		return 0, false
+	}
+	if word := w.bits[wi] &^ (1<<(r%64) - 1); word != 0 {
+		return uint32(wi*64 + bits.TrailingZeros64(word)), true
+	}
+	wi++
+	si := wi / 64
+	if si >= len(w.summary) {
+		return 0, false
+	}
+	sw := w.summary[si] &^ (1<<(wi%64) - 1)
+	for sw == 0 {
+		si++
+		if si >= len(w.summary) {
+			return 0, false
+		}
+		sw = w.summary[si]
+	}
+	wj := si*64 + bits.TrailingZeros64(sw)
+	return uint32(wj*64 + bits.TrailingZeros64(w.bits[wj])), true
+}
+
+// take makes r the current rank and merges the streams waiting there.
+func (w *working) take(r uint32) {
+	w.cur = r
+	w.acc.clear()
+	sid := w.first[r]
+	w.first[r] = -1
+	w.bits[r/64] &^= 1 << (r % 64)
+	if w.bits[r/64] == 0 {
+		w.summary[r/4096] &^= 1 << (r / 64 % 64)
+	}
+	for sid >= 0 {
+		next := w.streams[sid].link
+		w.schedule(sid)
+		sid = next
+	}
+}
+
+// pushAlive and popAlive keep w.alive a binary max-heap.
+func (w *working) pushAlive(idx uint64) {
+	h := append(w.alive, idx)
+	i := len(h) - 1
+	for i > 0 {
+		parent := (i - 1) / 2
+		if h[parent] >= idx {
+			break
+		}
+		h[i] = h[parent]
+		i = parent
+	}
+	h[i] = idx
+	w.alive = h
+}
+
+func (w *working) popAlive() {
+	h := w.alive
+	last := len(h) - 1
+	c := h[last]
+	h = h[:last]
+	w.alive = h
+	if last == 0 {
+		return
+	}
+	i := 0
+	for {
+		l := 2*i + 1
+		if l >= last {
+			break
+		}
+		if r := l + 1; r < last && h[r] > h[l] {
+			l = r
+		}
+		if h[l] <= c {
+			break
+		}
+		h[i] = h[l]
+		i = l
+	}
+	h[i] = c
+}
+
+// accumulator sums coefficients by simplex index at one rank: open
+// addressing with linear probing, emptied in O(1) by a generation stamp.
+type accumulator struct {
+	keys  []uint64
+	sums  []uint32
+	gens  []uint32
+	gen   uint32
+	count int
+	shift uint
+}
+
+func (a *accumulator) init(size int) {
+	a.keys = make([]uint64, size)
+	a.sums = make([]uint32, size)
+	a.gens = make([]uint32, size)
+	a.gen = 1
+	a.count = 0
+	a.shift = 64
+	for s := size; s > 1; s >>= 1 {
+		a.shift--
+	}
+}
+
+func (a *accumulator) clear() {
+	a.gen++
+	a.count = 0
+	if a.gen == 0 { // the stamp wrapped around
+		clear(a.gens)
+		a.gen = 1
+	}
+}
+
+// slot finds idx, or the empty slot where it belongs.
+func (a *accumulator) slot(idx uint64) (int, bool) {
+	mask := len(a.keys) - 1
+	for i := int((idx * 0x9e3779b97f4a7c15) >> a.shift); ; i = (i + 1) & mask {
+		if a.gens[i] != a.gen {
+			return i, false
+		}
+		if a.keys[i] == idx {
+			return i, true
+		}
+	}
+}
+
+// add adds c to the sum of idx and returns the sums before and after.
+func (a *accumulator) add(idx uint64, c uint32, f *field) (old, sum uint32) {
+	i, found := a.slot(idx)
+	if found {
+		old = a.sums[i]
+		sum = f.add(old, c)
+		a.sums[i] = sum
+		return old, sum
+	}
+	if 2*(a.count+1) > len(a.keys) {
+		a.grow()
+		i, _ = a.slot(idx)
+	}
+	a.keys[i], a.sums[i], a.gens[i] = idx, c, a.gen
+	a.count++
+	return 0, c
+}
+
+// take returns the sum of idx and sets it to zero.
+func (a *accumulator) take(idx uint64) uint32 {
+	i, found := a.slot(idx)
+	if !found {
+		return 0
+	}
+	s := a.sums[i]
+	a.sums[i] = 0
+	return s
+}
+
+func (a *accumulator) grow() {
+	keys, sums, gens, gen := a.keys, a.sums, a.gens, a.gen
+	a.init(2 * len(keys))
+	for i, g := range gens {
+		if g == gen {
+			j, _ := a.slot(keys[i])
+			a.keys[j], a.sums[j], a.gens[j] = keys[i], sums[i], a.gen
+			a.count++
+		}
+	}
 }
 
 // add puts λ·δs into the column, for the simplex s with vertices vs and
@@ -119,15 +347,14 @@ func (w *working) add(vs []int, r, lambda uint32, from *entry) {
 	}
 	for {
 		if !w.next(&s) {
-			return
+			return // nothing after from
 		}
 		if from == nil || before(from, &s.head) {
 			break
 		}
 	}
-	id := uint32(len(w.streams))
 	w.streams = append(w.streams, s)
-	w.heap.push(entry{idx: s.head.idx, rank: s.head.rank, coef: id})
+	w.schedule(int32(len(w.streams) - 1))
 }
 
 // next moves s to its next cofacet; false when there is none.
@@ -221,27 +448,20 @@ func (w *working) emit(s *stream, x int, q uint32) {
 // consuming every head up to and including it; ok is false once the column
 // is zero.
 func (w *working) pivot() (piv entry, ok bool) {
-	f := &w.e.f
-	h := w.heap
-	for len(h) > 0 {
-		top := h[0]
-		var sum uint32
-		for len(h) > 0 && h[0].idx == top.idx {
-			s := &w.streams[h[0].coef]
-			sum = f.add(sum, s.head.coef)
-			if w.next(s) {
-				h.replaceTop(entry{idx: s.head.idx, rank: s.head.rank, coef: h[0].coef})
-			} else {
-				h.popTop()
+	for {
+		for len(w.alive) > 0 {
+			idx := w.alive[0]
+			w.popAlive()
+			if c := w.acc.take(idx); c != 0 {
+				return entry{idx: idx, rank: w.cur, coef: c}, true
 			}
 		}
-		if sum != 0 {
-			w.heap = h
-			return entry{idx: top.idx, rank: top.rank, coef: sum}, true
+		r, ok := w.nextRank(w.cur)
+		if !ok {
+			return entry{}, false
 		}
+		w.take(r)
 	}
-	w.heap = h
-	return entry{}, false
 }
 
 // chain returns the simplices of the chain after the first, with their
@@ -261,7 +481,6 @@ func (w *working) chain(dst []entry) []entry {
 
 // bytes is the memory the working column holds.
 func (w *working) bytes() int64 {
-	return int64(cap(w.streams))*int64(sizeofStream) + int64(cap(w.heap))*16
+	return int64(cap(w.streams))*int64(unsafe.Sizeof(stream{})) + int64(cap(w.alive))*8 +
+		int64(len(w.acc.keys))*16 + int64(len(w.first))*4 + int64(len(w.bits)+len(w.summary))*8
 }
-
-const sizeofStream = 4*(MaxDim+1)*2 + 4*3 + 16 + 4
