@@ -1,0 +1,349 @@
+package main
+
+import (
+	"bufio"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"slices"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+
+	"phasonhull/embed"
+	"phasonhull/pattern"
+	"phasonhull/topology/rips"
+)
+
+// barcodeFlags holds the flags of "phasonhull barcode".
+type barcodeFlags struct {
+	in             inputFlags
+	points         string
+	dim            int
+	threshold      float64
+	prime          int
+	memory         string
+	minPersistence float64
+	json           bool
+	window         int
+	landmarks      int
+	seed           uint64
+	tolerance      float64
+}
+
+func (f *barcodeFlags) register(cmd *cobra.Command) {
+	fs := cmd.Flags()
+	fs.StringVar(&f.points, "points", "", "read a point cloud from `FILE` (one point a row) instead of a pattern")
+	fs.IntVar(&f.dim, "dim", 2, "highest homology dimension, 0 to 3")
+	fs.Float64Var(&f.threshold, "threshold", 0, "largest edge length (0: the enclosing radius, where nothing changes any more)")
+	fs.IntVar(&f.prime, "prime", 2, "coefficients in Z/p for this prime p")
+	fs.StringVar(&f.memory, "memory", "", "memory budget, e.g. 2GiB (default 8GiB); larger jobs are refused")
+	fs.Float64Var(&f.minPersistence, "min-persistence", 0, "leave out bars shorter than this")
+	fs.BoolVar(&f.json, "json", false, "print one JSON object")
+	f.in.register(fs)
+	fs.IntVar(&f.window, "window", 0, "for a pattern: delay window (0: choose it from the data)")
+	fs.IntVar(&f.landmarks, "landmarks", embed.DefaultLandmarks, "for a pattern: number of max–min landmarks")
+	fs.Uint64Var(&f.seed, "seed", embed.DefaultSeed, "for a pattern: seed of every random choice")
+	fs.Float64Var(&f.tolerance, "tolerance", embed.DefaultNoise, "for a pattern: position noise tolerated, as a fraction of the mean spacing (0: exact data)")
+}
+
+// newBarcodeCmd builds "phasonhull barcode".
+func newBarcodeCmd() *cobra.Command {
+	var f barcodeFlags
+	cmd := &cobra.Command{
+		Use:   "barcode [FILE]",
+		Short: "Persistence barcode of a pattern's landmark cloud or of a point cloud",
+		Long: `barcode computes the persistent homology of the Vietoris–Rips filtration of a
+point cloud, in dimensions 0 to --dim with coefficients in Z/--prime.
+
+The cloud is either the landmark cloud of a pattern (FILE, or - for standard
+input, read and embedded as "phasonhull embed" does) or, with --points, a
+file of points: one point a row, coordinates separated by commas or white
+space, '#' starting a comment; every row must have the same number of
+coordinates.
+
+A bar [birth, death) is a class born when edges of length birth join the
+complex and killed at length death. Bars of zero persistence are left out.
+Without --threshold the complex is built up to the enclosing radius, where
+it becomes a cone: every bar then ends there or earlier, and the one H0 bar
+that never ends has death "inf". With a smaller --threshold, classes still
+alive at the threshold get death "inf".
+
+The table lists the bars by dimension, longest first. Before a long
+computation the size of the complex is estimated, and a job over the memory
+budget is refused with a hint of what to lower.`,
+		Example: `  phasonhull barcode --points cloud.csv
+  phasonhull barcode --points cloud.csv --dim 1 --threshold 0.8 --json
+  phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
+  phasonhull barcode design.csv --landmarks 200 --min-persistence 0.05`,
+		Args: cobra.MaximumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runBarcode(cmd, args, &f)
+		},
+	}
+	f.register(cmd)
+	return cmd
+}
+
+func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
+	if (f.points == "") == (len(args) == 0) {
+		return errors.New("give either a pattern FILE or --points FILE, not both and not neither")
+	}
+	if f.dim < 0 || f.dim > rips.MaxDim {
+		return fmt.Errorf("--dim %d: must be between 0 and %d", f.dim, rips.MaxDim)
+	}
+	if f.threshold < 0 || math.IsNaN(f.threshold) || math.IsInf(f.threshold, 0) {
+		return fmt.Errorf("--threshold %v: must be a finite length, or 0 for the enclosing radius", f.threshold)
+	}
+	if f.prime < 2 || !isPrime(f.prime) {
+		return fmt.Errorf("--prime %d: not a prime", f.prime)
+	}
+	if f.minPersistence < 0 || math.IsNaN(f.minPersistence) {
+		return fmt.Errorf("--min-persistence %v: must not be negative", f.minPersistence)
+	}
+	var budget int64
+	if f.memory != "" {
+		b, err := parseBytes(f.memory)
+		if err != nil {
+			return fmt.Errorf("--memory: %w", err)
+		}
+		budget = b
+	}
+
+	var pts [][]float64
+	var source string
+	if f.points != "" {
+		var err error
+		if pts, err = readPointsFile(f.points, cmd.InOrStdin()); err != nil {
+			return err
+		}
+		source = f.points
+	} else {
+		if f.window < 0 || f.landmarks < 1 {
+			return fmt.Errorf("--window %d, --landmarks %d: the window must not be negative, the landmarks must be positive", f.window, f.landmarks)
+		}
+		p, err := f.in.load(args[0], cmd.InOrStdin())
+		if err != nil {
+			return err
+		}
+		tol := f.tolerance
+		if tol == 0 {
+			tol = -1 // the flag's 0 means none, not the library's default
+		}
+		res, err := embed.Embed(p, embed.Options{Window: f.window, Landmarks: f.landmarks, Seed: f.seed, Noise: tol})
+		if err != nil {
+			return err
+		}
+		pts, source = res.LandmarkCloud, p.Source
+	}
+
+	opt := rips.Options{MaxDim: f.dim, Threshold: f.threshold, Prime: f.prime, MemoryBudget: budget}
+	if isTerminal(cmd.ErrOrStderr()) {
+		opt.Progress = cmd.ErrOrStderr()
+	}
+	d, err := rips.VietorisRips(pts, opt)
+	if errors.Is(err, rips.ErrBudget) {
+		return fmt.Errorf("barcode of %s: %w (flags: --threshold, --dim, --landmarks, --memory)", source, err)
+	}
+	if err != nil {
+		return fmt.Errorf("barcode of %s: %w", source, err)
+	}
+	rep := newBarcodeReport(source, f.dim, d, f.minPersistence)
+	w := cmd.OutOrStdout()
+	if f.json {
+		return json.NewEncoder(w).Encode(rep)
+	}
+	return rep.print(w)
+}
+
+// isTerminal reports whether w is a terminal (a character device).
+func isTerminal(w io.Writer) bool {
+	file, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := file.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// isPrime reports whether p is prime, by trial division.
+func isPrime(p int) bool {
+	for d := 2; d*d <= p; d++ {
+		if p%d == 0 {
+			return false
+		}
+	}
+	return p >= 2
+}
+
+// barcodeBar is one bar in the JSON report; Death is null for a bar that
+// never ends.
+type barcodeBar struct {
+	Dim   int      `json:"dim"`
+	Birth float64  `json:"birth"`
+	Death *float64 `json:"death"`
+}
+
+// barcodeReport is what "phasonhull barcode" prints.
+type barcodeReport struct {
+	Source          string       `json:"source"`
+	Points          int          `json:"points"`
+	Dim             int          `json:"dim"`
+	Prime           int          `json:"prime"`
+	Threshold       float64      `json:"threshold"`
+	EnclosingRadius float64      `json:"enclosing_radius"`
+	MinPersistence  float64      `json:"min_persistence"`
+	Counts          []int        `json:"counts"`
+	Bars            []barcodeBar `json:"bars"`
+
+	bars []rips.Bar
+}
+
+// newBarcodeReport keeps the bars at least minPersistence long, sorted by
+// dimension, then persistence (longest first), then birth.
+func newBarcodeReport(source string, dim int, d *rips.Diagram, minPersistence float64) *barcodeReport {
+	r := &barcodeReport{
+		Source: source, Points: d.Points, Dim: dim, Prime: d.Prime, Threshold: d.Threshold,
+		EnclosingRadius: d.EnclosingRadius, MinPersistence: minPersistence,
+		Counts: make([]int, dim+1), Bars: []barcodeBar{},
+	}
+	for _, b := range d.Bars {
+		if b.Persistence() >= minPersistence {
+			r.bars = append(r.bars, b)
+		}
+	}
+	slices.SortStableFunc(r.bars, func(a, b rips.Bar) int {
+		switch {
+		case a.Dim != b.Dim:
+			return a.Dim - b.Dim
+		case a.Persistence() > b.Persistence():
+			return -1
+		case a.Persistence() < b.Persistence():
+			return 1
+		case a.Birth < b.Birth:
+			return -1
+		case a.Birth > b.Birth:
+			return 1
+		}
+		return 0
+	})
+	for _, b := range r.bars {
+		r.Counts[b.Dim]++
+		jb := barcodeBar{Dim: b.Dim, Birth: b.Birth}
+		if !b.Essential() {
+			death := b.Death
+			jb.Death = &death
+		}
+		r.Bars = append(r.Bars, jb)
+	}
+	return r
+}
+
+// print writes the report as a table.
+func (r *barcodeReport) print(w io.Writer) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "barcode of %s: %d points, coefficients Z/%d, dimensions 0 to %d\n", r.Source, r.Points, r.Prime, r.Dim)
+	if r.Threshold < r.EnclosingRadius {
+		fmt.Fprintf(bw, "complex up to length %.6g (below the enclosing radius %.6g: bars alive there never end)\n", r.Threshold, r.EnclosingRadius)
+	} else {
+		fmt.Fprintf(bw, "complex up to the enclosing radius %.6g, where it becomes a cone\n", r.EnclosingRadius)
+	}
+	for k, c := range r.Counts {
+		fmt.Fprintf(bw, "H%d: %d bar%s", k, c, plural(c))
+		if k < len(r.Counts)-1 {
+			fmt.Fprint(bw, ", ")
+		}
+	}
+	if r.MinPersistence > 0 {
+		fmt.Fprintf(bw, " (at least %.6g long)", r.MinPersistence)
+	}
+	fmt.Fprintln(bw)
+	fmt.Fprintln(bw)
+	tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "dim\tbirth\tdeath\tpersistence\t")
+	for _, b := range r.bars {
+		death, pers := "inf", "inf"
+		if !b.Essential() {
+			death, pers = fmtLength(b.Death), fmtLength(b.Persistence())
+		}
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t\n", b.Dim, fmtLength(b.Birth), death, pers)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	return bw.Flush()
+}
+
+func fmtLength(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
+
+// readPointsFile reads a point cloud from path ("-": stdin).
+func readPointsFile(path string, stdin io.Reader) ([][]float64, error) {
+	if path == "-" {
+		return readPoints(stdin, "<stdin>")
+	}
+	file, err := os.Open(path)
+	if err != nil {
+		return nil, &pattern.InputError{File: path, Err: err}
+	}
+	defer file.Close()
+	return readPoints(file, path)
+}
+
+// readPoints reads one point a row: coordinates separated by commas (with
+// optional white space around them) or by white space alone; '#' starts a
+// comment; blank lines are skipped. Every row must have as many
+// coordinates as the first. Faults are reported with the line and the
+// field number.
+func readPoints(r io.Reader, name string) ([][]float64, error) {
+	var pts [][]float64
+	sc := bufio.NewScanner(r)
+	sc.Buffer(make([]byte, 64<<10), 16<<20)
+	line := 0
+	for sc.Scan() {
+		line++
+		text := sc.Text()
+		if i := strings.IndexByte(text, '#'); i >= 0 {
+			text = text[:i]
+		}
+		text = strings.TrimSpace(text)
+		if text == "" {
+			continue
+		}
+		var fields []string
+		if strings.Contains(text, ",") {
+			fields = strings.Split(text, ",")
+		} else {
+			fields = strings.Fields(text)
+		}
+		p := make([]float64, len(fields))
+		for k, fld := range fields {
+			fld = strings.TrimSpace(fld)
+			if fld == "" {
+				return nil, &pattern.InputError{File: name, Line: line, Col: k + 1, Err: errors.New("empty coordinate")}
+			}
+			x, err := strconv.ParseFloat(fld, 64)
+			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+				return nil, &pattern.InputError{File: name, Line: line, Col: k + 1, Err: fmt.Errorf("%q is not a finite number", fld)}
+			}
+			p[k] = x
+		}
+		if len(pts) > 0 && len(p) != len(pts[0]) {
+			col := min(len(p), len(pts[0])) + 1
+			return nil, &pattern.InputError{File: name, Line: line, Col: col,
+				Err: fmt.Errorf("%d coordinates, but the first point has %d", len(p), len(pts[0]))}
+		}
+		pts = append(pts, p)
+	}
+	if err := sc.Err(); err != nil {
+		return nil, &pattern.InputError{File: name, Line: line + 1, Err: err}
+	}
+	if len(pts) == 0 {
+		return nil, &pattern.InputError{File: name, Err: errors.New("no points")}
+	}
+	return pts, nil
+}
