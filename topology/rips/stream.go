@@ -101,8 +101,16 @@ type working struct {
 	summary []uint64 // per word of bits: the word is not zero
 	cur     uint32   // the rank being merged
 	acc     accumulator
-	alive   []uint64 // max-heap of the indices with a non-zero sum at rank cur
+	// The pivots at rank cur are found by scanning acc for the largest
+	// index with a non-zero sum; after scanScans pivots at one rank the
+	// survivors go into the max-heap alive instead.
+	scans int
+	alive []uint64
 }
+
+// scanPivots is the number of pivots found by scanning at one rank before
+// the rank's survivors are put in a heap.
+const scanPivots = 4
 
 func newWorking(e *engine) *working {
 	ranks := len(e.m.vals)
@@ -128,6 +136,7 @@ func (w *working) reset(k int, r uint32) {
 	w.k = k
 	w.streams = w.streams[:0]
 	w.alive = w.alive[:0]
+	w.scans = 0
 	w.cur = r
 	w.acc.clear()
 }
@@ -137,7 +146,7 @@ func (w *working) reset(k int, r uint32) {
 func (w *working) schedule(sid int32) {
 	s := &w.streams[sid]
 	for s.head.rank == w.cur {
-		if old, sum := w.acc.add(s.head.idx, s.head.coef, &w.e.f); old == 0 && sum != 0 {
+		if old, sum := w.acc.add(s.head.idx, s.head.coef, &w.e.f); old == 0 && sum != 0 && w.scans > scanPivots {
 			w.pushAlive(s.head.idx)
 		}
 		if !w.next(s) {
@@ -181,6 +190,8 @@ func (w *working) nextRank(r uint32) (uint32, bool) {
 // take makes r the current rank and merges the streams waiting there.
 func (w *working) take(r uint32) {
 	w.cur = r
+	w.scans = 0
+	w.alive = w.alive[:0]
 	w.acc.clear()
 	sid := w.first[r]
 	w.first[r] = -1
@@ -244,8 +255,8 @@ type accumulator struct {
 	keys  []uint64
 	sums  []uint32
 	gens  []uint32
+	used  []int32 // the slots filled in this generation
 	gen   uint32
-	count int
 	shift uint
 }
 
@@ -254,7 +265,7 @@ func (a *accumulator) init(size int) {
 	a.sums = make([]uint32, size)
 	a.gens = make([]uint32, size)
 	a.gen = 1
-	a.count = 0
+	a.used = a.used[:0]
 	a.shift = 64
 	for s := size; s > 1; s >>= 1 {
 		a.shift--
@@ -263,7 +274,7 @@ func (a *accumulator) init(size int) {
 
 func (a *accumulator) clear() {
 	a.gen++
-	a.count = 0
+	a.used = a.used[:0]
 	if a.gen == 0 { // the stamp wrapped around
 		clear(a.gens)
 		a.gen = 1
@@ -292,13 +303,25 @@ func (a *accumulator) add(idx uint64, c uint32, f *field) (old, sum uint32) {
 		a.sums[i] = sum
 		return old, sum
 	}
-	if 2*(a.count+1) > len(a.keys) {
+	if 2*(len(a.used)+1) > len(a.keys) {
 		a.grow()
 		i, _ = a.slot(idx)
 	}
 	a.keys[i], a.sums[i], a.gens[i] = idx, c, a.gen
-	a.count++
+	a.used = append(a.used, int32(i))
 	return 0, c
+}
+
+// largest returns the largest index with a non-zero sum.
+func (a *accumulator) largest() (uint64, bool) {
+	var best uint64
+	found := false
+	for _, i := range a.used {
+		if a.sums[i] != 0 && (!found || a.keys[i] > best) {
+			best, found = a.keys[i], true
+		}
+	}
+	return best, found
 }
 
 // take returns the sum of idx and sets it to zero.
@@ -313,14 +336,13 @@ func (a *accumulator) take(idx uint64) uint32 {
 }
 
 func (a *accumulator) grow() {
-	keys, sums, gens, gen := a.keys, a.sums, a.gens, a.gen
+	keys, sums, used := a.keys, a.sums, a.used
 	a.init(2 * len(keys))
-	for i, g := range gens {
-		if g == gen {
-			j, _ := a.slot(keys[i])
-			a.keys[j], a.sums[j], a.gens[j] = keys[i], sums[i], a.gen
-			a.count++
-		}
+	a.used = make([]int32, 0, 2*cap(used))
+	for _, i := range used {
+		j, _ := a.slot(keys[i])
+		a.keys[j], a.sums[j], a.gens[j] = keys[i], sums[i], a.gen
+		a.used = append(a.used, int32(j))
 	}
 }
 
@@ -449,11 +471,28 @@ func (w *working) emit(s *stream, x int, q uint32) {
 // is zero.
 func (w *working) pivot() (piv entry, ok bool) {
 	for {
-		for len(w.alive) > 0 {
-			idx := w.alive[0]
-			w.popAlive()
-			if c := w.acc.take(idx); c != 0 {
-				return entry{idx: idx, rank: w.cur, coef: c}, true
+		if w.scans < scanPivots {
+			if idx, ok := w.acc.largest(); ok {
+				w.scans++
+				return entry{idx: idx, rank: w.cur, coef: w.acc.take(idx)}, true
+			}
+		} else {
+			if w.scans == scanPivots {
+				// Many pivots at this rank: heap the survivors.
+				w.scans++
+				a := &w.acc
+				for _, i := range a.used {
+					if a.sums[i] != 0 {
+						w.pushAlive(a.keys[i])
+					}
+				}
+			}
+			for len(w.alive) > 0 {
+				idx := w.alive[0]
+				w.popAlive()
+				if c := w.acc.take(idx); c != 0 {
+					return entry{idx: idx, rank: w.cur, coef: c}, true
+				}
 			}
 		}
 		r, ok := w.nextRank(w.cur)
