@@ -21,8 +21,9 @@
 //     displaced sites do not pull the calibration.
 //
 // The first calibration is chosen among the lines through a pair of sites
-// near each end of both chains, so that missing or extra sites at the ends,
-// or a chain measured in the opposite direction, do not derail it.
+// near each end of both chains, so that missing or extra sites at the ends
+// do not derail it; both directions are tried, so that a chain measured
+// from its other end is registered too (with a negative scale).
 //
 // The result lists the matched pairs with their residuals, the missing,
 // extra, merged and swapped sites, robust outliers, and the calibration

@@ -140,31 +140,29 @@ func (m model) calibration(g *geometry) calib {
 	return c
 }
 
-// firstGuess chooses the first calibration among the lines through one
-// design/measured pair near the start of both chains and one near their
-// end — up to endSkips sites skipped at each end of each chain, and
-// both directions — keeping the line under which most measured sites fall
-// inside a gate, closest to its centre (see score).
-func (g *geometry) firstGuess(x []float64, gates []float64) model {
+// firstGuess chooses the first calibration, for one direction, among the
+// lines through one design/measured pair near the start of both chains and
+// one near their end — up to endSkips sites skipped at each end of each
+// chain — keeping the line under which most measured sites fall inside a
+// gate, closest to its centre (see score).
+func (g *geometry) firstGuess(x []float64, gates []float64, reversed bool) model {
 	n, m := len(g.d), len(x)
 	best, bestScore := g.lineModel(0, 1), math.Inf(-1)
 	sa, sb := min(endSkips, n-1), min(endSkips, m-1)
-	for _, reversed := range []bool{false, true} {
-		for a := 0; a <= sa; a++ {
-			for c := 0; c <= sa && n-1-c > a; c++ {
-				for b := 0; b <= sb; b++ {
-					for e := 0; e <= sb && m-1-e > b; e++ {
-						// Design a pairs with measured b (or m−1−b when
-						// reversed), design n−1−c with measured m−1−e (or e).
-						xa, xc := x[b], x[m-1-e]
-						if reversed {
-							xa, xc = x[m-1-b], x[e]
-						}
-						scale := (xc - xa) / (g.d[n-1-c] - g.d[a])
-						cand := g.lineModel(xa-scale*g.d[a], scale)
-						if s := score(cand, g, x, gates); s > bestScore {
-							best, bestScore = cand, s
-						}
+	for a := 0; a <= sa; a++ {
+		for c := 0; c <= sa && n-1-c > a; c++ {
+			for b := 0; b <= sb; b++ {
+				for e := 0; e <= sb && m-1-e > b; e++ {
+					// Design a pairs with measured b (or m−1−b when
+					// reversed), design n−1−c with measured m−1−e (or e).
+					xa, xc := x[b], x[m-1-e]
+					if reversed {
+						xa, xc = x[m-1-b], x[e]
+					}
+					scale := (xc - xa) / (g.d[n-1-c] - g.d[a])
+					cand := g.lineModel(xa-scale*g.d[a], scale)
+					if s := score(cand, g, x, gates); s > bestScore {
+						best, bestScore = cand, s
 					}
 				}
 			}

@@ -1,6 +1,7 @@
 package register
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -48,7 +49,22 @@ type Options struct {
 	// MaxIter bounds the alternations of matching and fitting; 0 means
 	// DefaultMaxIter.
 	MaxIter int
+	// Direction says which way the measured chain may run relative to
+	// the design; the zero value, Auto, tries both.
+	Direction Direction
 }
+
+// Direction is the orientation of the measured chain relative to the
+// design.
+type Direction int
+
+// The directions. Auto fits both and keeps the forward one unless the
+// reversed one is clearly better (see Register).
+const (
+	Auto     Direction = iota
+	Forward            // the measured coordinate grows with the design's
+	Reversed           // the measured chain runs from the design's last site
+)
 
 // Result is a registration of measured sites onto design sites.
 //
@@ -141,6 +157,11 @@ func (r *Result) Predict(d float64) float64 { return r.m.predict(d) }
 
 // Register matches measured sites to design sites and fits the
 // calibration between them; see the package documentation for the method.
+// Under Direction Auto both directions are fitted, and the reversed one is
+// kept only when it matches more than 5% more design sites, or at least as
+// many with less than half the robust sigma: a design that is nearly its
+// own mirror image fits both ways, and the forward direction is then the
+// answer unless Direction says otherwise.
 // Both slices may be in any order; neither is modified. The design needs
 // at least two distinct sites, and enough sites must match to fit the
 // calibration (two more than its parameters).
@@ -156,6 +177,9 @@ func Register(design, measured []float64, opt Options) (*Result, error) {
 	}
 	if opt.MaxIter < 0 {
 		return nil, fmt.Errorf("registering: max iterations %d: must not be negative", opt.MaxIter)
+	}
+	if opt.Direction < Auto || opt.Direction > Reversed {
+		return nil, fmt.Errorf("registering: unknown direction %d", opt.Direction)
 	}
 	ds, err := newChain(design, "design")
 	if err != nil {
@@ -173,28 +197,84 @@ func Register(design, measured []float64, opt Options) (*Result, error) {
 	g := newGeometry(ds.x, opt.Drift)
 	gates := g.gateWidths(opt.Gate)
 
-	m := g.firstGuess(ms.x, gates)
-	var pairs []pair
-	res := &Result{}
-	var w []float64
-	for it := 1; it <= opt.MaxIter; it++ {
-		next := align(m, g, ms.x, gates)
-		res.Iterations = it
-		if it > 1 && slices.Equal(next, pairs) {
-			res.Converged = true
+	var runs []*run
+	var firstErr error
+	for _, rev := range []bool{false, true} {
+		if (rev && opt.Direction == Forward) || (!rev && opt.Direction == Reversed) {
+			continue
+		}
+		r, err := g.solve(g.firstGuess(ms.x, gates, rev), ms.x, gates, opt.MaxIter)
+		if err != nil {
+			firstErr = cmp.Or(firstErr, err)
+			continue
+		}
+		runs = append(runs, r)
+	}
+	if len(runs) == 0 {
+		return nil, fmt.Errorf("registering: %w", firstErr)
+	}
+	best := runs[0]
+	if len(runs) == 2 && runs[1].clearlyBetter(runs[0], len(ds.x)) {
+		best = runs[1]
+	}
+	res := &Result{m: best.m, Iterations: best.iterations, Converged: best.converged}
+	res.fill(g, ds, ms, best.pairs, best.w)
+	return res, nil
+}
+
+// run is one alternation of matching and fitting to convergence.
+type run struct {
+	m          model
+	pairs      []pair
+	w          []float64
+	sigma      float64 // robust sigma of the residuals
+	iterations int
+	converged  bool
+}
+
+// solve alternates matching and fitting from the calibration start until
+// the matching repeats itself or maxIter alternations have run.
+func (g *geometry) solve(start model, x []float64, gates []float64, maxIter int) (*run, error) {
+	r := &run{m: start}
+	for it := 1; it <= maxIter; it++ {
+		next := align(r.m, g, x, gates)
+		r.iterations = it
+		if it > 1 && slices.Equal(next, r.pairs) {
+			r.converged = true
 			break
 		}
-		pairs = next
-		if len(pairs) < g.params()+2 {
-			return nil, fmt.Errorf("registering: only %d measured sites lie near a design site; the calibration needs %d", len(pairs), g.params()+2)
+		r.pairs = next
+		if len(r.pairs) < g.params()+2 {
+			return nil, fmt.Errorf("only %d measured sites lie near a design site; the calibration needs %d", len(r.pairs), g.params()+2)
 		}
-		if m, w, err = g.fit(pairs, ms.x, m); err != nil {
-			return nil, fmt.Errorf("registering: %w", err)
+		var err error
+		if r.m, r.w, err = g.fit(r.pairs, x, r.m); err != nil {
+			return nil, err
 		}
 	}
-	res.m = m
-	res.fill(g, ds, ms, pairs, w)
-	return res, nil
+	res := make([]float64, len(r.pairs))
+	for i, p := range r.pairs {
+		res[i] = x[p.k] - r.m.predict(g.d[p.d])
+	}
+	r.sigma = robustSigma(res)
+	return r, nil
+}
+
+// clearlyBetter reports whether run r (the reversed direction) beats the
+// forward run f by a margin that noise does not produce: more than 5% of
+// the n design sites more matched, or as many matched (at least) with less
+// than half the robust sigma. Designs that are nearly mirror images of
+// themselves — a lattice, or a modulated chain whose length times its
+// angle is close to an integer — fit both ways about equally well; the
+// forward direction wins those, and Options.Direction decides them.
+func (r *run) clearlyBetter(f *run, n int) bool {
+	switch more := len(r.pairs) - len(f.pairs); {
+	case float64(more) > 0.05*float64(n):
+		return true
+	case more >= 0:
+		return r.sigma < f.sigma/2
+	}
+	return false
 }
 
 // chain is a list of sites sorted ascending, with the original index of
