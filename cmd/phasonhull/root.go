@@ -31,6 +31,8 @@ homology.`,
 		newEmbedCmd(),
 		newBarcodeCmd(),
 		newAnalyzeCmd(),
+		newAuditCmd(),
+		newBatchCmd(),
 	// commands are added here as they land
 	)
 	return root
