@@ -237,7 +237,7 @@ var (
 
 // prototype builds the representative case of a class at a size and noise:
 // the cases of the breakdown sweeps.
-func prototype(class hull.Class, sites int, noise float64) (Case, error) {
+func prototype(class hull.Class, sites int, noise float64) Case {
 	c := Case{Class: class, Noise: noise}
 	switch class {
 	case hull.Point:
@@ -258,7 +258,7 @@ func prototype(class hull.Class, sites int, noise float64) (Case, error) {
 	}
 	c.Spec.Sites, c.Spec.Noise = sites, noise
 	c.Name = fmt.Sprintf("%s/N%d/%s", class, sites, noiseLabel(noise))
-	return c, nil
+	return c
 }
 
 // modulated is x_n = n + Σ_k a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ); its
@@ -332,10 +332,7 @@ func Grid(cfg Config) ([]Case, error) {
 				continue
 			}
 			for _, n := range ns {
-				c, err := prototype(class, n, noise)
-				if err != nil {
-					return nil, err
-				}
+				c := prototype(class, n, noise)
 				c.SizeSweep = true
 				c.NoiseSweep = n == nSweep
 				add(c, "")
@@ -348,10 +345,7 @@ func Grid(cfg Config) ([]Case, error) {
 			if noise == 0 || noise == sweepNoise {
 				continue // in the size sweeps
 			}
-			c, err := prototype(class, nSweep, noise)
-			if err != nil {
-				return nil, err
-			}
+			c := prototype(class, nSweep, noise)
 			c.NoiseSweep = true
 			add(c, "")
 		}
@@ -360,12 +354,12 @@ func Grid(cfg Config) ([]Case, error) {
 	if cfg.Quick {
 		// One noise-free circle of 2000 sites for the exact-angle check,
 		// one chain each through the missing-site and centroid routes.
-		c, _ := prototype(hull.Circle, 2000, 0)
+		c := prototype(hull.Circle, 2000, 0)
 		add(c, "")
-		c, _ = prototype(hull.Circle, 500, 0.01)
+		c = prototype(hull.Circle, 500, 0.01)
 		c.Spec.Missing = 0.01
 		add(c, "circle/missing1%/N500/σ1%")
-		c, _ = prototype(hull.Circle, 500, 0.01)
+		c = prototype(hull.Circle, 500, 0.01)
 		c.Centroids = true
 		add(c, "circle/centroids/N500/σ1%")
 		return cases, nil
@@ -442,12 +436,12 @@ func Grid(cfg Config) ([]Case, error) {
 
 	// Every prototype with 1% of its sites missing, and through centroids.
 	for _, class := range trueClasses {
-		c, _ := prototype(class, 2000, 0.01)
+		c := prototype(class, 2000, 0.01)
 		c.Spec.Missing = 0.01
 		add(c, fmt.Sprintf("%s/missing1%%/N2000/σ1%%", class))
 	}
 	for _, class := range trueClasses {
-		c, _ := prototype(class, 2000, 0.01)
+		c := prototype(class, 2000, 0.01)
 		c.Centroids = true
 		add(c, fmt.Sprintf("%s/centroids/N2000/σ1%%", class))
 	}
@@ -959,7 +953,7 @@ type TimingCheck struct {
 
 func timingCheck(seed uint64, runs int) (TimingCheck, error) {
 	tc := TimingCheck{Sites: 2000, Goal: timeGoal}
-	c, _ := prototype(hull.Circle, 2000, 0.01)
+	c := prototype(hull.Circle, 2000, 0.01)
 	c.Spec.Seed = caseSeed(seed, "timing")
 	p, err := design.Generate(c.Spec)
 	if err != nil {
