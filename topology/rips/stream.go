@@ -76,10 +76,19 @@ func (nb *neighbours) firstAtLeast(u int, r uint32) uint32 {
 	return lo
 }
 
+// key returns the entry at position p of u's list, or ^0 past its end.
+func (nb *neighbours) key(u int, p uint32) uint64 {
+	if p < nb.off[u+1] {
+		return nb.keys[p]
+	}
+	return ^uint64(0)
+}
+
 // stream is the coboundary of one chain simplex, with its next entry.
 type stream struct {
 	v    [MaxDim + 1]int32  // vertices, decreasing
 	pos  [MaxDim + 1]uint32 // phase 2: cursors into the neighbour lists
+	hk   [MaxDim + 1]uint64 // the keys at the cursors; ^0 past the end
 	r    uint32             // diameter rank of the simplex
 	coef uint32             // coefficient of the simplex in the chain
 	x1   int32              // phase 1: next vertex to test; −1 when done
@@ -366,6 +375,7 @@ func (w *working) add(vs []int, r, lambda uint32, from *entry) {
 	}
 	for i := range w.k {
 		s.pos[i] = e.nb.firstAtLeast(vs[i], start)
+		s.hk[i] = e.nb.key(vs[i], s.pos[i])
 	}
 	for {
 		if !w.next(&s) {
@@ -414,18 +424,17 @@ func (w *working) next(s *stream) bool {
 	}
 	nb := &e.nb
 	for {
-		best, bi := ^uint64(0), -1
-		for i := 0; i < k; i++ {
-			if p := s.pos[i]; p < nb.off[s.v[i]+1] {
-				if key := nb.keys[p]; key < best {
-					best, bi = key, i
-				}
+		best, bi := s.hk[0], 0
+		for i := 1; i < k; i++ {
+			if s.hk[i] < best {
+				best, bi = s.hk[i], i
 			}
 		}
-		if bi < 0 {
+		if best == ^uint64(0) {
 			return false
 		}
 		s.pos[bi]++
+		s.hk[bi] = nb.key(int(s.v[bi]), s.pos[bi])
 		q := uint32(best >> 32)
 		x := int(0xffffffff - uint32(best))
 		ok := true
