@@ -35,10 +35,8 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 	n, p := len(pairs), g.params()
 	a := mat.NewDense(n, p, nil)
 	y := make([]float64, n)
-	row := make([]float64, p)
 	for i, pr := range pairs {
-		g.columns(g.d[pr.d], row)
-		a.SetRow(i, row)
+		g.columns(g.d[pr.d], a.RawRowView(i))
 		y[i] = x[pr.k]
 	}
 	// The floor keeps exact data (zero residuals) from dividing by zero:
@@ -48,12 +46,17 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 	b := append([]float64(nil), start.b...)
 	r := make([]float64, n)
 	w := make([]float64, n)
+	scratch := make([]float64, n)
 	var sigma float64
 	residuals := func() {
 		for i := range r {
-			r[i] = y[i] - mat.Dot(a.RowView(i), mat.NewVecDense(p, b))
+			row := a.RawRowView(i)
+			r[i] = y[i]
+			for j, v := range row {
+				r[i] -= v * b[j]
+			}
 		}
-		sigma = math.Max(robustSigma(r), floor)
+		sigma = math.Max(robustSigmaInto(r, scratch), floor)
 	}
 	for it := 0; it < maxIRLS; it++ {
 		residuals()
@@ -67,18 +70,22 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 		if used < p+1 {
 			return model{}, nil, fmt.Errorf("fitting the calibration: only %d matched site(s) carry weight", used)
 		}
-		next, err := weightedSolve(a, y, w)
+		// Solve for the change of b from the current residuals rather
+		// than for b from the positions: the residuals are small, so the
+		// sums of the normal equations lose nothing to rounding.
+		step, err := weightedSolve(a, r, w)
 		if err != nil {
 			return model{}, nil, fmt.Errorf("fitting the calibration: %w", err)
 		}
 		moved := 0.0
 		for i := range b {
-			moved = math.Max(moved, math.Abs(next[i]-b[i]))
+			b[i] += step[i]
+			moved = math.Max(moved, math.Abs(step[i]))
 		}
-		b = next
-		// Coefficients are in measured units (t and u² are
-		// dimensionless): stop at a move below the rounding of a position.
-		if moved <= 1e-12*(math.Abs(b[0])+math.Abs(b[1])) {
+		// The coefficients are in measured units (t and u² are
+		// dimensionless) and their standard errors about σ/√N: stop when
+		// they move by less than 10⁻⁴ of that, or by the rounding of b.
+		if moved <= max(1e-4*sigma/math.Sqrt(float64(n)), 4e-16*(math.Abs(b[0])+math.Abs(b[1]))) {
 			break
 		}
 	}
@@ -122,23 +129,32 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 	return model{g: g, b: b, cov: cov}, w, nil
 }
 
-// weightedSolve returns the b minimising Σ w_i (y_i − A_i b)², by QR
-// factorisation of the rows scaled by √w_i.
+// weightedSolve returns the b minimising Σ w_i (y_i − A_i b)² from the
+// normal equations AᵀWA b = AᵀWy, by Cholesky factorisation. The columns
+// (1, t, u²) are bounded by 1 and far from collinear, so the P×P system is
+// well conditioned and one pass over the rows suffices.
 func weightedSolve(a *mat.Dense, y, w []float64) ([]float64, error) {
 	n, p := a.Dims()
-	aw := mat.NewDense(n, p, nil)
-	yw := mat.NewVecDense(n, nil)
+	ata := mat.NewSymDense(p, nil)
+	aty := mat.NewVecDense(p, nil)
 	for i := 0; i < n; i++ {
-		s := math.Sqrt(w[i])
-		for j := 0; j < p; j++ {
-			aw.Set(i, j, s*a.At(i, j))
+		if w[i] == 0 {
+			continue
 		}
-		yw.SetVec(i, s*y[i])
+		row := a.RawRowView(i)
+		for j := 0; j < p; j++ {
+			aty.SetVec(j, aty.AtVec(j)+w[i]*row[j]*y[i])
+			for k := j; k < p; k++ {
+				ata.SetSym(j, k, ata.At(j, k)+w[i]*row[j]*row[k])
+			}
+		}
 	}
-	var qr mat.QR
-	qr.Factorize(aw)
+	var chol mat.Cholesky
+	if !chol.Factorize(ata) {
+		return nil, errors.New("the weighted matched sites do not determine the calibration")
+	}
 	var b mat.VecDense
-	if err := qr.SolveVecTo(&b, false, yw); err != nil {
+	if err := chol.SolveVecTo(&b, aty); err != nil {
 		return nil, errors.New("the weighted matched sites do not determine the calibration")
 	}
 	return mat.Col(nil, 0, &b), nil

@@ -35,7 +35,7 @@ const (
 	endSkips = 2
 	// scoreSample bounds the measured sites used to score a candidate
 	// first calibration.
-	scoreSample = 2048
+	scoreSample = 512
 )
 
 // Options control Register. The zero value asks for the defaults.
@@ -517,23 +517,71 @@ func Screen(residuals []float64, floor float64) (Screening, error) {
 // robustSigma returns 1.4826 times the median absolute deviation of r from
 // its median.
 func robustSigma(r []float64) float64 {
+	return robustSigmaInto(r, make([]float64, len(r)))
+}
+
+// robustSigmaInto is robustSigma using scratch (of len(r)) for its work.
+func robustSigmaInto(r, scratch []float64) float64 {
 	if len(r) == 0 {
 		return 0
 	}
-	med := median(slices.Clone(r))
-	dev := make([]float64, len(r))
+	copy(scratch, r)
+	med := median(scratch)
 	for i, v := range r {
-		dev[i] = math.Abs(v - med)
+		scratch[i] = math.Abs(v - med)
 	}
-	return MADFactor * median(dev)
+	return MADFactor * median(scratch)
 }
 
-// median returns the median of v, reordering v.
+// median returns the median of v, reordering v. It selects in linear
+// expected time (Hoare's FIND, Commun. ACM 4, 1961) rather than sorting.
 func median(v []float64) float64 {
-	slices.Sort(v)
 	n := len(v)
+	hi := selectKth(v, n/2)
 	if n%2 == 1 {
-		return v[n/2]
+		return hi
 	}
-	return (v[n/2-1] + v[n/2]) / 2
+	// The lower middle value is the largest of the lower half, which
+	// selectKth left below position n/2.
+	lo := v[0]
+	for _, x := range v[1 : n/2] {
+		lo = math.Max(lo, x)
+	}
+	return (lo + hi) / 2
+}
+
+// selectKth reorders v so that v[k] is the value a sort would put there,
+// with no larger value before it and no smaller one after it, and returns
+// it.
+func selectKth(v []float64, k int) float64 {
+	lo, hi := 0, len(v)-1
+	for lo < hi {
+		// Median of three as the pivot, then a Hoare partition.
+		mid := lo + (hi-lo)/2
+		a, b, c := v[lo], v[mid], v[hi]
+		pivot := math.Max(math.Min(a, b), math.Min(math.Max(a, b), c))
+		i, j := lo, hi
+		for i <= j {
+			for v[i] < pivot {
+				i++
+			}
+			for v[j] > pivot {
+				j--
+			}
+			if i <= j {
+				v[i], v[j] = v[j], v[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return v[k]
+		}
+	}
+	return v[k]
 }

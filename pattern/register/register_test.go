@@ -534,3 +534,24 @@ func TestNearMirrorDesign(t *testing.T) {
 		t.Errorf("Direction Forward: scale %v, error %v", r.Scale, err)
 	}
 }
+
+// The linear-time median equals the middle of the sorted values (the
+// mean of the two middle ones for an even count), duplicates included.
+func TestMedianMatchesSort(t *testing.T) {
+	rng := rand.New(rand.NewPCG(15, 0))
+	for n := 1; n < 200; n++ {
+		v := make([]float64, n)
+		for i := range v {
+			v[i] = math.Round(rng.NormFloat64() * 3) // many ties
+		}
+		s := slices.Clone(v)
+		slices.Sort(s)
+		want := s[n/2]
+		if n%2 == 0 {
+			want = (s[n/2-1] + s[n/2]) / 2
+		}
+		if got := median(v); got != want {
+			t.Fatalf("n = %d: median %v, sorted middle %v", n, got, want)
+		}
+	}
+}
