@@ -1,6 +1,7 @@
 package hull
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -182,4 +183,27 @@ func analyzeForCompare(t *testing.T, p *pattern.Pattern) *Result {
 		t.Fatal(err)
 	}
 	return r
+}
+
+// A two-angle design fixes its frequency module exactly: the two angles,
+// folded and sorted.
+func ExampleSpecReference() {
+	s := design.NewSpec("two-angle")
+	s.Theta, s.Amp, s.Theta2, s.Amp2 = 0.4142136, 0.1, 0.7320508, 0.06
+	ref := SpecReference(s)
+	fmt.Printf("%s %.7f\n", ref.Class, ref.Angles)
+	// Output: torus [0.2679492 0.4142136]
+}
+
+// Two circle hulls whose angles differ by 2·10⁻⁶ with uncertainties of
+// 10⁻⁶ each agree: 3·√2·10⁻⁶ is allowed.
+func ExampleCompare() {
+	design := &Result{Hull: Hull{Class: Circle}, Angles: []float64{0.2763}, AngleUncertainty: []float64{1e-6}}
+	sample := &Result{Hull: Hull{Class: Circle}, Angles: []float64{0.276302}, AngleUncertainty: []float64{1e-6}}
+	c := Compare(design, sample)
+	fmt.Println(c.Agree)
+	fmt.Println(c.Verdict)
+	// Output:
+	// true
+	// both hulls are circles; the sample's angle is 2e-06 from the design's analysis (allowed 4.24e-06)
 }
