@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -37,8 +38,8 @@ func newBatchCmd() *cobra.Command {
 		Short: "Analyse (or audit against one design) many files into one summary table",
 		Long: `batch runs analyze over many files — or, with --design, audit against one
 design — and writes one summary table with a row per file, in the order
-the files were given (the files of a DIR in name order, hidden files
-skipped). Files are processed on all cores (--jobs bounds the workers); the
+the files were given (the files of a DIR in name order, leaving out hidden
+files, the design and the summary files). Files are processed on all cores (--jobs bounds the workers); the
 summary is the same whatever the number of workers.
 
 A file that cannot be read or analysed does not stop the batch: its row
@@ -117,11 +118,6 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	if err := f.audit.validate(); err != nil {
 		return err
 	}
-	files, err := batchFiles(args)
-	if err != nil {
-		return err
-	}
-	inputs := append(append([]string(nil), files...), f.audit.designPath)
 	outs := []string{f.out}
 	if f.jsonOut != "" {
 		outs = append(outs, f.jsonOut)
@@ -129,6 +125,13 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 			return fmt.Errorf("--out and --json name the same file %s", f.out)
 		}
 	}
+	// A folder's files leave out the design and the outputs (a summary
+	// from an earlier run, say); files named one by one do not.
+	files, err := batchFiles(args, append(slices.Clone(outs), f.audit.designPath))
+	if err != nil {
+		return err
+	}
+	inputs := append(slices.Clone(files), f.audit.designPath)
 	for _, o := range outs {
 		if err := refuseOverwrite(o, inputs); err != nil {
 			return err
@@ -218,8 +221,9 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 }
 
 // batchFiles expands the arguments: a folder stands for its regular,
-// non-hidden files in name order; a file stands for itself.
-func batchFiles(args []string) ([]string, error) {
+// non-hidden files in name order, except those in skip; a file stands for
+// itself.
+func batchFiles(args, skip []string) ([]string, error) {
 	var files []string
 	for _, a := range args {
 		if a == "-" {
@@ -248,7 +252,10 @@ func batchFiles(args []string) ([]string, error) {
 		}
 		sort.Strings(names)
 		for _, n := range names {
-			files = append(files, filepath.Join(a, n))
+			path := filepath.Join(a, n)
+			if !slices.ContainsFunc(skip, func(s string) bool { return s != "" && samePath(s, path) }) {
+				files = append(files, path)
+			}
 		}
 	}
 	if len(files) == 0 {

@@ -138,6 +138,38 @@ func TestBatchAudit(t *testing.T) {
 	}
 }
 
+// A folder's files leave out the design and an earlier summary written
+// into the folder, so that running a batch twice gives the same rows.
+func TestBatchFolderSkipsDesignAndOutputs(t *testing.T) {
+	dir := t.TempDir()
+	for _, name := range []string{"a_clean.csv", "b_clean.csv"} {
+		data, err := os.ReadFile(filepath.Join(batchFolder, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		os.WriteFile(filepath.Join(dir, name), data, 0o644)
+	}
+	spec, _ := os.ReadFile(auditPath("design.json"))
+	os.WriteFile(filepath.Join(dir, "design.json"), spec, 0o644)
+	out := filepath.Join(dir, "summary.csv")
+	var first string
+	for run := range 2 {
+		code, _, stderr := runCmd("batch", dir, "--design", filepath.Join(dir, "design.json"), "--out", out)
+		if code != exitOK {
+			t.Fatalf("run %d: exit %d: %s", run, code, stderr)
+		}
+		data, _ := os.ReadFile(out)
+		if run == 0 {
+			first = string(data)
+		} else if string(data) != first {
+			t.Errorf("second run differs:\n%s\n%s", first, data)
+		}
+	}
+	if _, rows := readSummary(t, out); len(rows) != 2 {
+		t.Errorf("%d rows, want the two samples", len(rows))
+	}
+}
+
 // The summary does not depend on the number of workers.
 func TestBatchDeterministic(t *testing.T) {
 	dir := t.TempDir()
