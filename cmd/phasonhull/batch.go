@@ -39,8 +39,9 @@ func newBatchCmd() *cobra.Command {
 		Long: `batch runs analyze over many files — or, with --design, audit against one
 design — and writes one summary table with a row per file, in the order
 the files were given (the files of a DIR in name order, leaving out hidden
-files, the design and the summary files). Files are processed on all cores (--jobs bounds the workers); the
-summary is the same whatever the number of workers.
+files, the design and the summary files). Files are processed on all
+cores (--jobs bounds the workers); the summary is the same whatever the
+number of workers.
 
 A file that cannot be read or analysed does not stop the batch: its row
 holds the error and the other files are finished.
