@@ -88,13 +88,15 @@ iteratively reweighted least squares with Tukey's biweight, alternating
 with the matching until it settles; the uncertainties are standard errors
 of that fit. A sample that runs from the design's last site has a negative
 scale; --direction auto keeps the forward fit unless the reversed one is
-clearly better, which a design that is nearly its own mirror image never
-is: say --direction reversed for such a sample. Reported: residual of every matched site (measured minus
-calibrated design position, in the sample's unit), RMS and max; outliers,
-sites beyond 4 robust sigmas (sigma = 1.4826 × median absolute deviation);
-merged sites (one measured site midway between two missing design sites);
-swapped sites (two neighbours listed in exchanged order; needs the file's
-row order, which the readers do not keep, so it shows only in the library).
+clearly better, which for a design that is nearly its own mirror image it
+never is: say --direction reversed for such a sample.
+
+Reported: residual of every matched site (measured minus calibrated design
+position, in the sample's unit), RMS and max; outliers, sites beyond 4
+robust sigmas (sigma = 1.4826 × median absolute deviation); merged sites
+(one measured site midway between two missing design sites). Swapped
+sites (two neighbours listed in exchanged order) need the file's row
+order, which the readers do not keep: audit cannot report them yet.
 
 Hull. The hull of the design and of the sample are analysed as analyze does
 and compared: same class, same period, and for a circle or torus the
