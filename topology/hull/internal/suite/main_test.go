@@ -46,6 +46,13 @@ func TestQuickCases(t *testing.T) {
 			t.Errorf("%s: reported %s period %d (%s), want %s period %d", name, o.Reported, o.Period, o.Reason, o.Case.Class, o.Case.Period)
 			continue
 		}
+		// The scatter about the fitted hull is the position noise (common
+		// practice: the residual RMS estimates σ, to about 1/√(2N)).
+		if o.Case.Noise > 0 {
+			if o.Residual == nil || math.Abs(*o.Residual/o.Case.Noise-1) > 0.2 {
+				t.Errorf("%s: residual %v, want the noise %g within 20%%", name, o.Residual, o.Case.Noise)
+			}
+		}
 		switch {
 		case o.Case.Class != hull.Circle:
 			if o.AngleError != nil {
