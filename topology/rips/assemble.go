@@ -45,6 +45,10 @@ func (e *engine) assemble(dim int, cleared *pivotTable) []simplex {
 				if top < k-1 {
 					break
 				}
+				if w == 0 {
+					// Only one goroutine writes progress.
+					e.prog.report("dimension %d: listing simplices, %d of %d top vertices left", dim, top, n)
+				}
 				if k == 3 {
 					out = e.triangles(top, cleared, out, &cnt)
 					continue

@@ -214,7 +214,14 @@ func (e *engine) reduce(dim int, cols []simplex) (*pivotTable, error) {
 		reduced++
 		w.reset(k, sigma.rank)
 		w.add(vs, sigma.rank, 1, nil)
-		for {
+		for steps := 1; ; steps++ {
+			if steps%4096 == 0 {
+				// A single column can run long and grow large.
+				e.prog.report("dimension %d: column %d of %d, its chain holds %d simplices", dim, ci, len(cols), len(w.streams))
+				if err := e.checkMemory(dim, int64(len(cols))*16+int64(len(vOff))*4+pivots.bytes()+int64(cap(vEntries))*16+w.bytes()); err != nil {
+					return nil, err
+				}
+			}
 			piv, ok := w.pivot()
 			if !ok {
 				chain = w.chain(chain)
@@ -259,11 +266,6 @@ func (e *engine) reduce(dim int, cols []simplex) (*pivotTable, error) {
 			}
 			e.pair(dim, birth, e.value(piv.rank), sigma, merged)
 			break
-		}
-		if w.bytes() > e.budget/2 {
-			if err := e.checkMemory(dim, w.bytes()+int64(cap(vEntries))*16+pivots.bytes()); err != nil {
-				return nil, err
-			}
 		}
 	}
 	vOff[len(cols)] = uint32(len(vEntries))

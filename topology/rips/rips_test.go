@@ -364,3 +364,12 @@ func TestTinyClouds(t *testing.T) {
 		t.Errorf("two points: %v, want %v", d.Bars, want)
 	}
 }
+
+// A quick computation writes no progress lines.
+func TestProgressQuiet(t *testing.T) {
+	var b strings.Builder
+	compute(t, clouds.Cube(30, 3, 111), rips.Options{MaxDim: 2, Progress: &b})
+	if b.Len() != 0 {
+		t.Errorf("progress on a quick job: %q", b.String())
+	}
+}

@@ -2,6 +2,7 @@ package rips
 
 import (
 	"math/bits"
+	"slices"
 	"unsafe"
 )
 
@@ -111,10 +112,12 @@ type working struct {
 	cur     uint32   // the rank being merged
 	acc     accumulator
 	// The pivots at rank cur are found by scanning acc for the largest
-	// index with a non-zero sum; after scanScans pivots at one rank the
-	// survivors go into the max-heap alive instead.
-	scans int
-	alive []uint64
+	// index with a non-zero sum. After scanPivots pivots at one rank the
+	// survivors are sorted into sorted (consumed from its end), and
+	// simplices that become non-zero later go into the max-heap alive.
+	scans  int
+	sorted []uint64
+	alive  []uint64
 }
 
 // scanPivots is the number of pivots found by scanning at one rank before
@@ -145,6 +148,7 @@ func (w *working) reset(k int, r uint32) {
 	w.k = k
 	w.streams = w.streams[:0]
 	w.alive = w.alive[:0]
+	w.sorted = w.sorted[:0]
 	w.scans = 0
 	w.cur = r
 	w.acc.clear()
@@ -201,6 +205,7 @@ func (w *working) take(r uint32) {
 	w.cur = r
 	w.scans = 0
 	w.alive = w.alive[:0]
+	w.sorted = w.sorted[:0]
 	w.acc.clear()
 	sid := w.first[r]
 	w.first[r] = -1
@@ -487,18 +492,25 @@ func (w *working) pivot() (piv entry, ok bool) {
 			}
 		} else {
 			if w.scans == scanPivots {
-				// Many pivots at this rank: heap the survivors.
+				// Many pivots at this rank: sort the survivors.
 				w.scans++
 				a := &w.acc
 				for _, i := range a.used {
 					if a.sums[i] != 0 {
-						w.pushAlive(a.keys[i])
+						w.sorted = append(w.sorted, a.keys[i])
 					}
 				}
+				slices.Sort(w.sorted)
 			}
-			for len(w.alive) > 0 {
-				idx := w.alive[0]
-				w.popAlive()
+			for len(w.sorted) > 0 || len(w.alive) > 0 {
+				var idx uint64
+				if len(w.alive) == 0 || (len(w.sorted) > 0 && w.sorted[len(w.sorted)-1] > w.alive[0]) {
+					idx = w.sorted[len(w.sorted)-1]
+					w.sorted = w.sorted[:len(w.sorted)-1]
+				} else {
+					idx = w.alive[0]
+					w.popAlive()
+				}
 				if c := w.acc.take(idx); c != 0 {
 					return entry{idx: idx, rank: w.cur, coef: c}, true
 				}
@@ -529,6 +541,6 @@ func (w *working) chain(dst []entry) []entry {
 
 // bytes is the memory the working column holds.
 func (w *working) bytes() int64 {
-	return int64(cap(w.streams))*int64(unsafe.Sizeof(stream{})) + int64(cap(w.alive))*8 +
+	return int64(cap(w.streams))*int64(unsafe.Sizeof(stream{})) + int64(cap(w.alive)+cap(w.sorted))*8 +
 		int64(len(w.acc.keys))*16 + int64(len(w.first))*4 + int64(len(w.bits)+len(w.summary))*8
 }
