@@ -299,7 +299,7 @@ func (s *sortedSpacings) firstAbove(t float64) int {
 }
 func (s *sortedSpacings) firstAtLeast(t float64) int { return sort.SearchFloat64s(s.x, t) }
 
-// moments returns the mean and standard deviation of x[lo:hi], two-pass.
+// moments returns the mean and standard deviation of x (two passes).
 func moments(x []float64) (mean, std float64) {
 	if len(x) == 0 {
 		return math.NaN(), math.NaN()

@@ -304,6 +304,17 @@ func TestDetectSumTile(t *testing.T) {
 	}
 }
 
+// A lattice is a tiling of one tile: position noise of 3% gives it the
+// scatter 4.2%, below the 5% a tile may have.
+func TestDetectLattice(t *testing.T) {
+	d, _ := generate(t, design.Spec{Family: "periodic", Cell: []float64{1}, Sites: 5000, Noise: 0.03, Seed: 1})
+	tl := detect(t, d, Options{})
+	if tl.Letters != "A" || strings.Count(tl.Word, "A") != len(d) || !math.IsInf(tl.Separation, 1) {
+		t.Fatalf("letters %q, %d of %d spacings A, separation %v", tl.Letters, strings.Count(tl.Word, "A"), len(d), tl.Separation)
+	}
+	checkLengths(t, tl, []float64{1}, 0.03)
+}
+
 // The separation factor F = 6 exceeds the ratio of the difference of the
 // two cluster means to their larger scatter for the best split in two of a
 // Gaussian (2√(2/π)/√(1−2/π) ≈ 2.65), a uniform (√12 ≈ 3.46) and an
