@@ -3,6 +3,7 @@ package rips
 import (
 	"math/bits"
 	"math/rand/v2"
+	"slices"
 	"time"
 )
 
@@ -19,9 +20,10 @@ type Cost struct {
 	// Work estimates the cofacet visits of the reduction: every simplex of
 	// dimension 1 to MaxDim looks at every vertex once.
 	Work float64
-	// Bytes bounds the memory the computation holds from above, assuming
-	// every simplex of dimensions 1 to MaxDim becomes a column. The
-	// working column is not counted; it is watched while it grows.
+	// Bytes estimates the memory the computation holds: the distances,
+	// and the columns of the reduction, counted as twice the share of the
+	// sampled simplices outside apparent pairs. The working column is not
+	// counted; it is watched while it grows.
 	Bytes int64
 }
 
@@ -59,13 +61,19 @@ func metricPeak(n int) int64 {
 // estimate counts edges exactly and estimates the number of k-simplices
 // with Knuth's estimator for the size of a search tree (Knuth, "Estimating
 // the efficiency of backtrack programs", Math. Comp. 29, 1975): a random
-// walk v0, v1, … picks each next vertex uniformly among the common
-// neighbours c_i of the vertices so far, and n·c_1⋯c_k is an unbiased
-// estimate of the number of ordered (k+1)-cliques, (k+1)!·S_k.
+// walk v0, v1, … picks each next vertex uniformly among the c_i common
+// neighbours of the vertices so far, and n·c_1⋯c_k is an unbiased
+// estimate of the number of ordered (k+1)-cliques, (k+1)!·S_k. The same
+// walks, weighted by those products, estimate the share of k-simplices
+// outside apparent pairs: the columns the reduction will hold.
 func (e *engine) estimate() Cost {
 	n := e.n
 	top := e.maxDim + 1
 	s := make([]float64, top+1)
+	share := make([]float64, top+1) // of simplices that become columns
+	for k := range share {
+		share[k] = 1
+	}
 	s[0] = float64(n)
 	if top >= 1 {
 		s[1] = float64(len(e.m.order))
@@ -83,10 +91,15 @@ func (e *engine) estimate() Cost {
 		}
 		rng := rand.New(rand.NewPCG(0x9e3779b97f4a7c15, uint64(n)))
 		sums := make([]float64, top+1)
+		cols := make([]float64, top+1)
 		cand := make([]uint64, words)
+		walk := make([]int, 0, top+1)
+		vs := make([]int, top+1)
+		buf := make([]int, 0, top+2)
 		for range estimateSamples {
 			v := rng.IntN(n)
 			w := float64(n)
+			walk = append(walk[:0], v)
 			copy(cand, adj[v*words:(v+1)*words])
 			for k := 1; k <= top; k++ {
 				c := 0
@@ -97,11 +110,7 @@ func (e *engine) estimate() Cost {
 					break
 				}
 				w *= float64(c)
-				sums[k] += w
-				if k == top {
-					break
-				}
-				// Pick the pick-th set bit of cand and keep its neighbours.
+				// Pick the pick-th set bit of cand.
 				pick := rng.IntN(c)
 				u := -1
 				for wi, x := range cand {
@@ -115,6 +124,26 @@ func (e *engine) estimate() Cost {
 					u = wi*64 + bits.TrailingZeros64(x)
 					break
 				}
+				walk = append(walk, u)
+				sums[k] += w
+				if k <= e.maxDim {
+					// Is the simplex of the walk a column?
+					copy(vs, walk)
+					simplex := vs[:k+1]
+					slices.SortFunc(simplex, func(a, b int) int { return b - a })
+					var r uint32
+					for i, a := range simplex {
+						for _, b := range simplex[i+1:] {
+							r = max(r, e.m.rank[a*n+b])
+						}
+					}
+					if !e.inApparentPair(simplex, r, buf) {
+						cols[k] += w
+					}
+				}
+				if k == top {
+					break
+				}
 				for wi := range cand {
 					cand[wi] &= adj[u*words+wi]
 				}
@@ -125,21 +154,32 @@ func (e *engine) estimate() Cost {
 			fact *= float64(k + 1)
 			s[k] = sums[k] / estimateSamples / fact
 		}
+		for k := 1; k <= e.maxDim; k++ {
+			if sums[k] > 0 {
+				// Twice the estimate, and at least a share that the
+				// samples could miss.
+				share[k] = min(1, 2*cols[k]/sums[k]+8.0/estimateSamples)
+			}
+		}
 	}
 	c := Cost{Points: n, Threshold: e.m.threshold, Simplices: s}
 	var peak int64
 	for d := 1; d <= e.maxDim; d++ {
 		c.Work += s[d] * float64(n)
-		// Reduction: columns, offsets, pivots.
-		red := int64(s[d] * (16 + 4 + 32))
-		// Assembly of the next dimension: pivots, columns twice.
+		cols := s[d] * share[d]
+		// Reduction: columns (16 bytes), offsets (4), pivot table (32),
+		// reduction matrix (16).
+		red := int64(cols * (16 + 4 + 32 + 16))
+		// Assembly of the next dimension: the pivots, and its columns
+		// twice while they are gathered.
 		var asm int64
 		if d < e.maxDim {
-			asm = int64(s[d]*32 + s[d+1]*32)
+			asm = int64(cols*32 + s[d+1]*share[d+1]*32)
 		}
 		peak = max(peak, red, asm)
 	}
-	// The neighbour lists: two keys per edge.
-	c.Bytes = e.metricBytes() + 16*int64(len(e.m.order)) + peak
+	// The neighbour lists (two keys per edge) and the working column's
+	// buckets (one per edge length).
+	c.Bytes = e.metricBytes() + 16*int64(len(e.m.order)) + 4*int64(len(e.m.vals)) + peak
 	return c
 }

@@ -267,7 +267,11 @@ func TestWorkersDoNotChangeResult(t *testing.T) {
 
 func TestBudgetRefused(t *testing.T) {
 	pts := clouds.Cube(200, 3, 91)
-	for _, budget := range []int64{1 << 10, 3 << 20} {
+	c, err := rips.Estimate(pts, rips.Options{MaxDim: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, budget := range []int64{1 << 10, c.Bytes / 2} {
 		_, err := rips.VietorisRips(pts, rips.Options{MaxDim: 2, MemoryBudget: budget})
 		if !errors.Is(err, rips.ErrBudget) {
 			t.Fatalf("budget %d: error %v, want one wrapping ErrBudget", budget, err)
@@ -278,8 +282,8 @@ func TestBudgetRefused(t *testing.T) {
 			}
 		}
 	}
-	// The same job fits the default budget.
-	if _, err := rips.VietorisRips(pts, rips.Options{MaxDim: 2}); err != nil {
+	// The same job fits twice its estimate.
+	if _, err := rips.VietorisRips(pts, rips.Options{MaxDim: 2, MemoryBudget: 2 * c.Bytes}); err != nil {
 		t.Fatal(err)
 	}
 }
