@@ -134,8 +134,9 @@ type analysis struct {
 	p   *pattern.Pattern
 	res *Result
 
-	steps     []int     // steps[i]: site-index advance across spacing i (2 for one missing site)
-	index     []int     // index[i]: site index of site i, skipping missing sites
+	spurious  []bool    // spurious[j]: site j looks spurious
+	index     []int     // index[j]: site index of site j, skipping missing sites
+	clean     []bool    // clean[i]: spacing i joins two kept sites one step apart
 	u         []float64 // dimensionless spacings
 	em        *embed.Result
 	diagram   *rips.Diagram // barcodes of the main landmark set
@@ -145,15 +146,15 @@ type analysis struct {
 func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error) {
 	a := &analysis{opt: opt, p: p, res: res}
 	d := p.Spacings()
-	a.steps, a.index = siteSteps(d, res)
+	a.spurious, a.index, a.clean = siteSteps(d, res)
 	mean := p.MeanSpacing()
 	a.u = make([]float64, len(d))
 	for i, v := range d {
 		a.u[i] = v / mean
 	}
 	exclude := make([]bool, len(d))
-	for i, s := range a.steps {
-		exclude[i] = s != 1
+	for i, c := range a.clean {
+		exclude[i] = !c
 	}
 	eo := embed.Options{
 		Window: opt.Window, Landmarks: opt.Landmarks, Seed: opt.Seed,
@@ -199,52 +200,107 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 	return a, nil
 }
 
-// siteSteps finds spacings that span a missing site or end at a spurious
-// one. A spacing is taken to span s ≥ 2 steps when it is at least 1.6
-// typical spacings and above 1.25 times the 95th percentile of all
-// spacings, with s = round(d/median); it is taken to end at a spurious site
-// when it is below 0.5 typical spacings and below 0.8 times the 5th
-// percentile (steps 0). Both rules only fire on spacings outside the bulk
-// of the distribution, so a periodic cell of unequal spacings or a strong
-// modulation is left alone. Indices then count sites with missing ones
-// skipped over.
-func siteSteps(d []float64, res *Result) (steps, index []int) {
+// siteSteps finds sites that look spurious and spacings that look like
+// missing sites, with the spacing distribution's median and its 5th and
+// 95th percentiles as the yardsticks:
+//
+//   - a spacing below 0.7 median and 0.8 × the 5th percentile ends at a
+//     spurious site: of its two sites, the one whose removal leaves a
+//     merged spacing closer to a whole number of medians is taken as
+//     spurious (a whole number, since a missing site may sit next to it);
+//   - between two kept sites, a gap of at least 1.6 median and above 1.25
+//     × the 95th percentile spans round(gap/median) steps: the sites in
+//     between are missing.
+//
+// Both rules fire only on spacings outside the bulk of the distribution, so
+// a periodic cell of unequal spacings or a strong modulation is left alone.
+// It returns the spurious sites, the site index of every site (kept sites
+// count up with missing ones skipped over; a spurious site takes the index
+// of the kept site before it), and for each spacing whether it is clean:
+// between two kept sites one step apart, and not touching either site of a
+// short spacing (the choice of which one is spurious can be wrong).
+func siteSteps(d []float64, res *Result) (spurious []bool, index []int, clean []bool) {
 	sorted := slices.Clone(d)
 	slices.Sort(sorted)
 	q := func(f float64) float64 { return sorted[int(f*float64(len(sorted)-1))] }
 	med, q05, q95 := q(0.5), q(0.05), q(0.95)
-	steps = make([]int, len(d))
-	missing, extra := 0, 0
+	n := len(d) + 1
+	spurious = make([]bool, n)
+	near := make([]bool, len(d)) // spacings touching either site of a short one
 	for i, v := range d {
-		steps[i] = 1
-		switch {
-		case v >= 1.6*med && v > 1.25*q95:
-			steps[i] = int(math.Round(v / med))
-			missing += steps[i] - 1
-		case v < 0.5*med && v < 0.8*q05:
-			steps[i] = 0
-			extra++
+		if v < 0.7*med && v < 0.8*q05 {
+			for k := max(i-1, 0); k <= min(i+1, len(d)-1); k++ {
+				near[k] = true
+			}
+		}
+		if !(v < 0.7*med && v < 0.8*q05) || spurious[i] || spurious[i+1] {
+			continue
+		}
+		// Remove site i (merging d[i-1] and d[i]) or site i+1 (merging
+		// d[i] and d[i+1]), whichever lands nearer the median.
+		before, after := math.Inf(1), math.Inf(1)
+		if i > 0 {
+			before = offLattice(d[i-1]+v, med)
+		}
+		if i+1 < len(d) {
+			after = offLattice(v+d[i+1], med)
+		}
+		if before < after {
+			spurious[i] = true
+		} else {
+			spurious[i+1] = true
 		}
 	}
-	// A spurious site shares the index of the site before it; the fit of
-	// the positions leaves it out.
-	index = make([]int, len(d)+1)
-	for i, s := range steps {
-		index[i+1] = index[i] + s
+	index = make([]int, n)
+	clean = make([]bool, len(d))
+	prev, missing, gaps := -1, 0, 0
+	x := 0.0 // position relative to site 0, summed from the spacings
+	var xPrev float64
+	for j := 0; j < n; j++ {
+		if j > 0 {
+			x += d[j-1]
+		}
+		if spurious[j] {
+			if prev >= 0 {
+				index[j] = index[prev]
+			}
+			continue
+		}
+		if prev >= 0 {
+			gap := x - xPrev
+			steps := 1
+			if gap >= 1.6*med && gap > 1.25*q95 {
+				steps = int(math.Round(gap / med))
+				missing += steps - 1
+				gaps++
+			}
+			index[j] = index[prev] + steps
+			if steps == 1 && prev == j-1 && !near[j-1] {
+				clean[j-1] = true
+			}
+		}
+		prev, xPrev = j, x
 	}
 	if missing > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d spacing(s) look like missing sites (%d site(s) assumed missing); delay vectors across them are left out", countIf(steps, func(s int) bool { return s > 1 }), missing))
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d spacing(s) look like missing sites (%d site(s) assumed missing); delay vectors across them are left out", gaps, missing))
 	}
-	if extra > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d spacing(s) are far shorter than the rest and look like spurious extra sites; delay vectors across them are left out", extra))
+	if k := countTrue(spurious); k > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d site(s) sit far closer to a neighbour than the rest and look spurious; they are left out of the fit and the delay vectors across them", k))
 	}
-	return steps, index
+	return spurious, index, clean
 }
 
-func countIf(v []int, f func(int) bool) int {
+// offLattice returns how far a gap is from a whole number (≥ 1) of
+// spacings med, in units of med.
+func offLattice(gap, med float64) float64 {
+	k := max(1, math.Round(gap/med))
+	return math.Abs(gap/med - k)
+}
+
+func countTrue(v []bool) int {
 	n := 0
 	for _, x := range v {
-		if f(x) {
+		if x {
 			n++
 		}
 	}

@@ -55,6 +55,9 @@ func (a *analysis) measureAngles() error {
 	}
 	n, x := a.fitSites()
 	fit, h, err := bestFit(n, x, rough)
+	if err == nil {
+		fit, n, x = a.dropOutliers(fit, h, n, x)
+	}
 	if err != nil {
 		// The rough angles stand.
 		a.res.Warnings = append(a.res.Warnings, "the least-squares refinement of the angle failed ("+err.Error()+"); the angle is the circular-coordinate estimate")
@@ -192,7 +195,7 @@ func (a *analysis) fitSites() ([]int, []float64) {
 	var n []int
 	var x []float64
 	for j, pos := range a.p.Positions {
-		if j > 0 && a.steps[j-1] == 0 {
+		if a.spurious[j] {
 			continue
 		}
 		n = append(n, a.index[j])
@@ -306,4 +309,54 @@ func dominantBasis(n []int, x []float64, f, se []float64) ([]float64, []float64)
 		}
 	}
 	return f, se
+}
+
+// outlierFactor is how many robust standard deviations (1.4826 × the
+// median absolute residual) a site must lie from the fitted model to be
+// left out of the angle fit; maxOutliers the largest fraction left out.
+const (
+	outlierFactor = 6
+	maxOutliers   = 0.05
+)
+
+// dropOutliers refits without the sites that lie far from the fitted model
+// (displaced sites, a spurious site the spacing rules missed), when they
+// are few. The residuals of the sites left out stay those of the first fit,
+// so they still show in the per-site residuals.
+func (a *analysis) dropOutliers(fit topology.FrequencyFit, h int, n []int, x []float64) (topology.FrequencyFit, []int, []float64) {
+	abs := make([]float64, len(fit.Residuals))
+	for i, r := range fit.Residuals {
+		abs[i] = math.Abs(r)
+	}
+	slices.Sort(abs)
+	sigma := 1.4826 * abs[len(abs)/2]
+	var keepN []int
+	var keepX []float64
+	var keep []int
+	for i, r := range fit.Residuals {
+		if math.Abs(r) <= outlierFactor*sigma || sigma == 0 {
+			keepN, keepX, keep = append(keepN, n[i]), append(keepX, x[i]), append(keep, i)
+		}
+	}
+	dropped := len(x) - len(keepX)
+	if dropped == 0 || float64(dropped) > maxOutliers*float64(len(x)) {
+		return fit, n, x
+	}
+	f0 := make([]float64, len(fit.Freq))
+	for i, f := range fit.Freq {
+		f0[i] = topology.Fold(f)
+	}
+	refit, err := topology.RefineFrequencies(keepN, keepX, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2})
+	if err != nil {
+		return fit, n, x
+	}
+	// Residuals for every input site: the refit's for the kept ones, the
+	// first fit's for those left out.
+	res := slices.Clone(fit.Residuals)
+	for k, i := range keep {
+		res[i] = refit.Residuals[k]
+	}
+	refit.Residuals = res
+	a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("%d site(s) lie more than %d robust standard deviations from the fitted hull model and were left out of the angle fit", dropped, outlierFactor))
+	return refit, n, x
 }

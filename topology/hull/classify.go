@@ -126,7 +126,7 @@ func (a *analysis) classify() error {
 func (a *analysis) cleanSpacings() []float64 {
 	out := make([]float64, 0, len(a.u))
 	for i, v := range a.u {
-		if a.steps[i] == 1 {
+		if a.clean[i] {
 			out = append(out, v)
 		}
 	}

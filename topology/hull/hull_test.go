@@ -213,3 +213,19 @@ func TestDeterministic(t *testing.T) {
 		t.Error("two runs gave different JSON")
 	}
 }
+
+// Spurious extra sites and missing ones together (1% and 0.75%) must leave
+// the class and, within its uncertainty, the angle intact.
+func TestExtraAndMissingSites(t *testing.T) {
+	const theta = 0.381966
+	for seed := uint64(1); seed <= 4; seed++ {
+		p := generate(t, design.Spec{Family: "modulated", Sites: 400, Theta: theta, Sin: []float64{0.1}, Noise: 0.004, Extra: 0.01, Missing: 0.0075, Seed: seed})
+		r := analyze(t, p)
+		if r.Hull.Class != Circle {
+			t.Fatalf("seed %d: class %s (%s), want circle", seed, r.Hull.Class, r.Hull.Reason)
+		}
+		if d := math.Abs(r.Angles[0] - theta); d > 4*r.AngleUncertainty[0] {
+			t.Errorf("seed %d: angle error %.3g exceeds 4 × uncertainty %.3g", seed, d, r.AngleUncertainty[0])
+		}
+	}
+}
