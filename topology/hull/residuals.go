@@ -57,7 +57,7 @@ func (a *analysis) setResiduals(r []float64, model string) {
 	k := 0
 	var ss float64
 	for j := range out {
-		if j > 0 && a.steps[j-1] == 0 {
+		if a.spurious[j] {
 			out[j] = math.NaN()
 			continue
 		}
