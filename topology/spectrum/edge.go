@@ -1,0 +1,340 @@
+package spectrum
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+
+	"phasonhull/pattern"
+	"phasonhull/pattern/design"
+)
+
+// Sweep returns the pattern at phase offset s (in turns) along a loop in
+// the hull; s and s+1 must give the same pattern.
+type Sweep func(s float64) (*pattern.Pattern, error)
+
+// PhaseSweep returns the sweep of a design through one turn of its phase:
+// the field Phase (φ of modulated and two-angle, ψ_0 of circle-map, the
+// starting arc fraction of loop) or, for the sturmian family, Intercept,
+// advanced by s from the spec's own value. Other families have no phase
+// and are refused.
+func PhaseSweep(spec design.Spec) (Sweep, error) {
+	if err := spec.Validate(); err != nil {
+		return nil, fmt.Errorf("spectrum: %w", err)
+	}
+	var field *float64
+	s0 := spec
+	switch spec.Family {
+	case "modulated", "two-angle", "circle-map", "loop":
+		field = &s0.Phase
+	case "sturmian":
+		field = &s0.Intercept
+	default:
+		return nil, fmt.Errorf("spectrum: the %s family has no phase to sweep (modulated, two-angle, circle-map, loop and sturmian have one)", spec.Family)
+	}
+	base := *field
+	return func(s float64) (*pattern.Pattern, error) {
+		c := s0
+		u := base + s
+		c.Phase, c.Intercept = spec.Phase, spec.Intercept
+		if spec.Family == "sturmian" {
+			c.Intercept = u - math.Floor(u) // the intercept lies in [0, 1)
+		} else {
+			c.Phase = u - math.Floor(u)
+		}
+		return design.Generate(c)
+	}, nil
+}
+
+// Defaults of EdgeOptions.
+const (
+	DefaultSamples   = 96
+	DefaultEdgeGaps  = 6
+	maxSweepRefine   = 8 // halvings of a sweep step that is not resolved
+	edgeInnerDivisor = 8 // the inner band of a gap leaves out 1/8 at each edge
+)
+
+// EdgeOptions control EdgeModes.
+type EdgeOptions struct {
+	// Options find and label the gaps of the chain at the sweep's start.
+	Options
+	// Samples is the number of phases of the first pass over the turn;
+	// steps whose changes cannot be told apart are halved again, up to
+	// 8 times. 0 means DefaultSamples.
+	Samples int
+	// Gaps is the number of widest gaps followed; 0 means
+	// DefaultEdgeGaps.
+	Gaps int
+}
+
+// EdgeResult is what EdgeModes found.
+type EdgeResult struct {
+	// Start is the gap analysis of the chain at the sweep's start.
+	Start *Result `json:"start"`
+	// Phases is the number of phases evaluated.
+	Phases int `json:"phases"`
+	// Gaps are the followed gaps, widest first.
+	Gaps []EdgeGap `json:"gaps"`
+}
+
+// EdgeGap is the spectral flow across one gap over the sweep.
+type EdgeGap struct {
+	// Gap is the gap at the sweep's start.
+	Gap Gap `json:"gap"`
+	// First and Last are the signed crossings of the gap's middle by
+	// states on the first and on the last end of the chain over one turn:
+	// +1 for a level moving up through the middle, −1 down.
+	First int `json:"first"`
+	Last  int `json:"last"`
+	// Agrees reports, for a labelled gap, whether First = +m and
+	// Last = −m, m the label's (first) angle coefficient: the
+	// bulk–boundary relation (see the package documentation).
+	Agrees bool `json:"agrees"`
+	// Unresolved counts sweep steps whose changes stayed ambiguous after
+	// the last halving; they add nothing to First and Last.
+	Unresolved int `json:"unresolved"`
+}
+
+// gapLevels are the levels in the inner band of one gap at one phase, by
+// end (first, last), ascending.
+type gapLevels [2][]float64
+
+// EdgeModes follows the levels inside the widest gaps of an open chain as
+// the sweep moves the pattern through one turn, and counts the signed
+// crossings of each gap's middle by states on each end.
+//
+// The gaps are those of the chain at s = 0, found and labelled by Analyze
+// with opt.Options. At each phase, the boundary states inside a gap's
+// inner band (the gap less an eighth of its width at each edge) are
+// located, and each is put on the end that holds more of its weight. Between two phases the
+// counts below and above the middle change; a level moving from below to
+// above is +1 for its end, the reverse −1, and a level entering or leaving
+// the inner band changes only one count. A step whose changes do not read
+// as at most one such event per end is halved.
+func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
+	if sweep == nil {
+		return nil, errors.New("spectrum: no sweep")
+	}
+	if m.Ends == Periodic {
+		return nil, errors.New("spectrum: edge modes live on the ends of an open chain; periodic ends have none")
+	}
+	if opt.Samples < 0 || opt.Gaps < 0 {
+		return nil, fmt.Errorf("spectrum: samples %d and gaps %d must not be negative", opt.Samples, opt.Gaps)
+	}
+	if opt.Samples == 0 {
+		opt.Samples = DefaultSamples
+	}
+	if opt.Gaps == 0 {
+		opt.Gaps = DefaultEdgeGaps
+	}
+	build := func(s float64) (*Operator, error) {
+		p, err := sweep(s)
+		if err != nil {
+			return nil, fmt.Errorf("spectrum: phase %.6g: %w", s, err)
+		}
+		return New(p, m)
+	}
+	op0, err := build(0)
+	if err != nil {
+		return nil, err
+	}
+	start, err := Analyze(op0, opt.Options)
+	if err != nil {
+		return nil, err
+	}
+	// The widest gaps, widest first.
+	order := make([]int, len(start.Gaps))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int {
+		return -cmpFloat(start.Gaps[a].Width, start.Gaps[b].Width)
+	})
+	order = order[:min(opt.Gaps, len(order))]
+	res := &EdgeResult{Start: start, Gaps: make([]EdgeGap, len(order))}
+	for i, g := range order {
+		res.Gaps[i].Gap = start.Gaps[g]
+	}
+	if len(order) == 0 {
+		return res, nil
+	}
+	sample := func(s float64) ([]gapLevels, error) {
+		op, err := build(s)
+		if err != nil {
+			return nil, err
+		}
+		if op.Len() != op0.Len() {
+			return nil, fmt.Errorf("spectrum: phase %.6g: the sweep changed the number of sites from %d to %d", s, op0.Len(), op.Len())
+		}
+		res.Phases++
+		return bandLevels(op, res.Gaps, opt.Method, opt.Workers)
+	}
+	c0, err := sample(0)
+	if err != nil {
+		return nil, err
+	}
+	// step accumulates the crossings between phases s0 and s1 of the gaps
+	// listed in which, halving the step for those where it is ambiguous.
+	var step func(s0, s1 float64, a, b []gapLevels, which []int, depth int) error
+	step = func(s0, s1 float64, a, b []gapLevels, which []int, depth int) error {
+		var again []int
+		for _, g := range which {
+			lo, hi, mid := innerBand(res.Gaps[g].Gap)
+			var f [2]int
+			ok := true
+			for end := range 2 {
+				var okEnd bool
+				f[end], okEnd = flowStep(a[g][end], b[g][end], lo, hi, mid)
+				ok = ok && okEnd
+			}
+			switch {
+			case ok:
+				res.Gaps[g].First += f[0]
+				res.Gaps[g].Last += f[1]
+			case depth < maxSweepRefine:
+				again = append(again, g)
+			default:
+				res.Gaps[g].Unresolved++
+			}
+		}
+		if len(again) == 0 {
+			return nil
+		}
+		mid := s0 + (s1-s0)/2
+		cm, err := sample(mid)
+		if err != nil {
+			return err
+		}
+		if err := step(s0, mid, a, cm, again, depth+1); err != nil {
+			return err
+		}
+		return step(mid, s1, cm, b, again, depth+1)
+	}
+	all := make([]int, len(res.Gaps))
+	for i := range all {
+		all[i] = i
+	}
+	prev := c0
+	for j := 1; j <= opt.Samples; j++ {
+		s0, s1 := float64(j-1)/float64(opt.Samples), float64(j)/float64(opt.Samples)
+		next := c0 // s = 1 is the start again
+		if j < opt.Samples {
+			if next, err = sample(s1); err != nil {
+				return nil, err
+			}
+		}
+		if err := step(s0, s1, prev, next, all, 0); err != nil {
+			return nil, err
+		}
+		prev = next
+	}
+	for i := range res.Gaps {
+		g := &res.Gaps[i]
+		if l := g.Gap.Label; l != nil && len(l.Coeffs) > 1 {
+			mm := l.Coeffs[1]
+			g.Agrees = g.Unresolved == 0 && g.First == mm && g.Last == -mm
+		}
+	}
+	return res, nil
+}
+
+// innerBand returns the part of a gap where levels are followed — the gap
+// less an eighth of its width at each edge, where the finite chain's bulk
+// edges wander with the phase — and the gap's middle.
+func innerBand(g Gap) (lo, hi, mid float64) {
+	inset := g.Width / edgeInnerDivisor
+	return g.Lower + inset, g.Upper - inset, (g.Lower + g.Upper) / 2
+}
+
+// bandLevels returns, for each followed gap, the boundary states of op in
+// the gap's inner band (levels with more than half their weight on the
+// first and last tenth of the chain, as Analyze has them), each put on the
+// end that holds more of its weight.
+func bandLevels(op *Operator, gaps []EdgeGap, method Method, workers int) ([]gapLevels, error) {
+	lv, err := newLevels(op, method, workers)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]gapLevels, len(gaps))
+	for i, eg := range gaps {
+		lo, hi, _ := innerBand(eg.Gap)
+		k0, k1 := lv.count(lo), lv.count(hi)
+		for k := k0; k < k1; k++ {
+			e := lv.level(k, lo, hi)
+			x := op.eigenvector(e, uint64(k))
+			f, l := endWeights(x)
+			if f+l <= 0.5 {
+				continue // a bulk level wandering into the band
+			}
+			end := 0
+			if l > f {
+				end = 1
+			}
+			out[i][end] = append(out[i][end], e)
+		}
+	}
+	return out, nil
+}
+
+// flowStep reads the signed crossings of mid between two phases from the
+// ascending levels a (before) and b (after) of one end in the band
+// [lo, hi]. The step reads unambiguously (ok) when the levels pair up in
+// order, each moving less than a quarter of the band, with at most one
+// level left over that sits within a quarter band of an edge: a level
+// entering or leaving the band there. A pair on opposite sides of mid is a
+// crossing: +1 upward, −1 downward.
+func flowStep(a, b []float64, lo, hi, mid float64) (flow int, ok bool) {
+	lim := (hi - lo) / 4
+	pair := func(a, b []float64) (int, bool) {
+		f := 0
+		for i := range a {
+			if math.Abs(a[i]-b[i]) >= lim {
+				return 0, false
+			}
+			switch {
+			case a[i] < mid && b[i] >= mid:
+				f++
+			case a[i] >= mid && b[i] < mid:
+				f--
+			}
+		}
+		return f, true
+	}
+	switch len(a) - len(b) {
+	case 0:
+		return pair(a, b)
+	case 1, -1:
+		long, short, sign := a, b, 1
+		if len(b) > len(a) {
+			long, short, sign = b, a, -1
+		}
+		for r, e := range long {
+			if e-lo >= lim && hi-e >= lim {
+				continue // not at an edge: it cannot have entered or left here
+			}
+			rest := append(append([]float64(nil), long[:r]...), long[r+1:]...)
+			if f, ok := pair(rest, short); ok {
+				return sign * f, true
+			}
+		}
+	}
+	return 0, false
+}
+
+func abs(v int) int {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+func cmpFloat(a, b float64) int {
+	switch {
+	case a < b:
+		return -1
+	case a > b:
+		return 1
+	}
+	return 0
+}

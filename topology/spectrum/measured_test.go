@@ -1,0 +1,106 @@
+package spectrum
+
+import (
+	"math"
+	"math/rand/v2"
+	"slices"
+	"strings"
+	"testing"
+)
+
+// Measured levels — here the exact levels of an almost-Mathieu chain,
+// given in shuffled order — give the same gaps, IDS and labels as the
+// operator's own analysis, apart from gaps that boundary states split (the
+// operator tells them by their eigenvectors; a list of levels cannot).
+func TestMeasuredMatchesOperator(t *testing.T) {
+	op := harper(t, 800, 1.5, golden, 0.3, Open)
+	want := analyze(t, op, Options{Angles: []float64{golden}, Method: Values})
+	v := slices.Clone(want.Values)
+	rng := rand.New(rand.NewPCG(3, 0))
+	rng.Shuffle(len(v), func(i, j int) { v[i], v[j] = v[j], v[i] })
+	got, err := AnalyzeMeasured(v, Options{Angles: []float64{golden}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Method != Measured {
+		t.Errorf("method %s", got.Method)
+	}
+	byBelow := map[int]Gap{}
+	for _, g := range got.Gaps {
+		byBelow[g.Below] = g
+	}
+	compared := 0
+	for _, w := range want.Gaps {
+		if len(w.Boundary) > 0 {
+			continue
+		}
+		g, ok := byBelow[w.Below]
+		if !ok || g.Lower != w.Lower || g.Upper != w.Upper || g.IDS != w.IDS || (g.Label == nil) != (w.Label == nil) ||
+			(g.Label != nil && !slices.Equal(g.Label.Coeffs, w.Label.Coeffs)) {
+			t.Errorf("operator gap %+v: measured %+v (found %v)", w, g, ok)
+		}
+		compared++
+	}
+	if compared < 6 {
+		t.Errorf("only %d gaps without boundary states compared", compared)
+	}
+	// And no measured gap is missing from the operator's list, unless a
+	// boundary state splits an operator gap there.
+	for _, g := range got.Gaps {
+		found := false
+		for _, w := range want.Gaps {
+			found = found || (w.Below == g.Below && w.Lower == g.Lower) || (len(w.Boundary) > 0 && g.Lower >= w.Lower && g.Upper <= w.Upper)
+		}
+		if !found {
+			t.Errorf("measured gap %+v has no operator gap", g)
+		}
+	}
+}
+
+func TestReadValues(t *testing.T) {
+	v, err := ReadValues(strings.NewReader("# resonances\nfrequency_GHz,q\n1.5,200\n\n2.5 100\n0.5\n"), "f.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(v, []float64{1.5, 2.5, 0.5}) {
+		t.Errorf("read %v", v)
+	}
+	for _, c := range []struct{ in, want string }{
+		{"1\n", "at least two"},
+		{"1\nx\n", "line 2"},
+		{"1\n2\nInf\n", "finite"},
+		{"", "at least two"},
+	} {
+		if _, err := ReadValues(strings.NewReader(c.in), "f.csv"); err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "f.csv") {
+			t.Errorf("ReadValues(%q): %v, want an error naming the file and %q", c.in, err, c.want)
+		}
+	}
+	if _, err := AnalyzeMeasured([]float64{1, math.NaN()}, Options{}); err == nil {
+		t.Error("NaN level accepted")
+	}
+}
+
+// Bad options are refused with the reason.
+func TestOptionsRefused(t *testing.T) {
+	op := harper(t, 50, 1, golden, 0, Open)
+	for _, c := range []struct {
+		o    Options
+		want string
+	}{
+		{Options{MinGap: -1}, "minimum gap"},
+		{Options{MinGap: 1}, "minimum gap"},
+		{Options{Angles: []float64{0}}, "angle"},
+		{Options{Angles: []float64{0.3}, Period: 3}, "not both"},
+		{Options{Angles: []float64{0.1, 0.2, 0.3}}, "at most two"},
+		{Options{MaxCoeff: -1}, "coefficient"},
+		{Options{Method: "magic"}, "method"},
+	} {
+		if _, err := Analyze(op, c.o); err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("Analyze with %+v: %v, want an error about %q", c.o, err, c.want)
+		}
+	}
+	nnn := build(t, lattice(t, DenseLimit+1), Model{NNN: 0.1})
+	if _, err := Analyze(nnn, Options{}); err == nil || !strings.Contains(err.Error(), "next-nearest") {
+		t.Errorf("next-nearest bonds on %d sites: %v, want a refusal", DenseLimit+1, err)
+	}
+}
