@@ -124,6 +124,12 @@ func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
 	if err := a.measureAngles(); err != nil {
 		return nil, fmt.Errorf("hull analysis: %w", err)
 	}
+	a.decideDisorder()
+	if res.Disorder != nil && res.Tiles == nil && (res.Hull.Class == Circle || res.Hull.Class == Torus) {
+		if mi, dim, ok := a.disorderFigures(); ok {
+			res.Disorder.MutualInformation, res.Disorder.IntrinsicDimension = mi, dim
+		}
+	}
 	a.labels()
 	return res, nil
 }
@@ -134,19 +140,21 @@ type analysis struct {
 	p   *pattern.Pattern
 	res *Result
 
-	spurious  []bool    // spurious[j]: site j looks spurious
-	index     []int     // index[j]: site index of site j, skipping missing sites
-	clean     []bool    // clean[i]: spacing i joins two kept sites one step apart
-	u         []float64 // dimensionless spacings
-	em        *embed.Result
-	diagram   *rips.Diagram // barcodes of the main landmark set
-	landmarks [][]float64   // the landmarks behind diagram
+	spurious     []bool    // spurious[j]: site j looks spurious
+	index        []int     // index[j]: site index of site j, skipping missing sites
+	clean        []bool    // clean[i]: spacing i joins two kept sites one step apart
+	siteWarnings []string  // what siteSteps found, reported unless the tiling route decides
+	u            []float64 // dimensionless spacings
+	em           *embed.Result
+	diagram      *rips.Diagram    // barcodes of the main landmark set
+	landmarks    [][]float64      // the landmarks behind diagram
+	module       *topology.Module // the group of factor frequencies of an aperiodic tiling
 }
 
 func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error) {
 	a := &analysis{opt: opt, p: p, res: res}
 	d := p.Spacings()
-	a.spurious, a.index, a.clean = siteSteps(d, res)
+	a.spurious, a.index, a.clean, a.siteWarnings = siteSteps(d)
 	mean := p.MeanSpacing()
 	a.u = make([]float64, len(d))
 	for i, v := range d {
@@ -194,9 +202,6 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 	e.Excluded = em.Excluded
 	e.Landmarks = len(em.Landmarks)
 	e.CoverRadius = em.CoverRadius
-	if em.Choice != nil && !em.Choice.Settled {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("the delay window did not settle up to %d: the spacings keep filling new directions, as independent random spacings do", em.Choice.Cap))
-	}
 	return a, nil
 }
 
@@ -218,8 +223,9 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 // count up with missing ones skipped over; a spurious site takes the index
 // of the kept site before it), and for each spacing whether it is clean:
 // between two kept sites one step apart, and not touching either site of a
-// short spacing (the choice of which one is spurious can be wrong).
-func siteSteps(d []float64, res *Result) (spurious []bool, index []int, clean []bool) {
+// short spacing (the choice of which one is spurious can be wrong); and the
+// warnings to give when the analysis relies on them.
+func siteSteps(d []float64) (spurious []bool, index []int, clean []bool, warn []string) {
 	sorted := slices.Clone(d)
 	slices.Sort(sorted)
 	q := func(f float64) float64 { return sorted[int(f*float64(len(sorted)-1))] }
@@ -282,12 +288,12 @@ func siteSteps(d []float64, res *Result) (spurious []bool, index []int, clean []
 		prev, xPrev = j, x
 	}
 	if missing > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d spacing(s) look like missing sites (%d site(s) assumed missing); delay vectors across them are left out", gaps, missing))
+		warn = append(warn, fmt.Sprintf("%d spacing(s) look like missing sites (%d site(s) assumed missing); delay vectors across them are left out", gaps, missing))
 	}
 	if k := countTrue(spurious); k > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d site(s) sit far closer to a neighbour than the rest and look spurious; they are left out of the fit and the delay vectors across them", k))
+		warn = append(warn, fmt.Sprintf("%d site(s) sit far closer to a neighbour than the rest and look spurious; they are left out of the fit and the delay vectors across them", k))
 	}
-	return spurious, index, clean
+	return spurious, index, clean, warn
 }
 
 // offLattice returns how far a gap is from a whole number (≥ 1) of
@@ -320,6 +326,22 @@ func (a *analysis) labels() {
 	case Circle, Torus:
 		g.Generators = append(g.Generators, a.res.Angles...)
 		g.Labels = labelsFrom(topology.Labels(a.res.Angles, a.opt.MaxCoeff))
+	case Cantor:
+		switch m := a.module; {
+		case len(a.res.Angles) > 0:
+			g.Generators = append(g.Generators, a.res.Angles...)
+			g.Labels = labelsFrom(topology.Labels(a.res.Angles, a.opt.MaxCoeff))
+		case m != nil && m.Rank == 1:
+			g.Generators = []float64{1, m.Basis[0]}
+			g.Labels = labelsFrom(topology.PeriodicLabels(m.Denominator))
+		case m != nil:
+			gens := m.Basis[1:]
+			if m.Denominator > 1 {
+				gens = m.Basis
+			}
+			g.Generators = append(g.Generators, gens...)
+			g.Labels = labelsFrom(topology.Labels(gens, a.opt.MaxCoeff))
+		}
 	}
 	if g.Labels == nil {
 		g.Labels = []Label{}

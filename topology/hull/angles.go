@@ -32,7 +32,9 @@ func (a *analysis) measureAngles() error {
 	k := 0
 	switch a.res.Hull.Class {
 	case Point, Finite:
-		a.periodicResiduals()
+		if a.res.Disorder == nil {
+			a.periodicResiduals()
+		}
 		return nil
 	case Circle:
 		k = 1

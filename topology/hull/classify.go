@@ -48,10 +48,15 @@ func (a *analysis) classify() error {
 	// An exact period decides the point and finite classes outright.
 	maxP := min(a.opt.MaxPeriod, len(a.u)/3)
 	if pt := spacingPeriod(a.cleanSpacings(), nu, maxP); pt.Period > 0 {
+		a.res.Warnings = append(a.res.Warnings, a.siteWarnings...)
 		h.Period = pt.Period
 		h.Betti = []int{pt.Period, 0, 0}
 		h.Confidence = 1
 		if pt.Period == 1 {
+			if classifyNoise(a.cleanSpacings()) == independentSpacings {
+				a.setIndependent()
+				return nil
+			}
 			h.Class = Point
 			h.Reason = "all spacings are equal up to the measured noise: a periodic chain with one site per period"
 		} else {
@@ -60,7 +65,20 @@ func (a *analysis) classify() error {
 		}
 		return nil
 	}
+	// A chain of a few tile lengths is read through its word, which
+	// accounts for missing sites itself.
+	if done, err := a.tiles(); err != nil || done {
+		return err
+	}
+	a.res.Warnings = append(a.res.Warnings, a.siteWarnings...)
+	if c := a.em.Choice; c != nil && !c.Settled {
+		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the delay window did not settle up to %d: the spacings keep filling new directions, as independent random spacings do", c.Cap))
+	}
 	if w.Kept == 0 {
+		if classifyNoise(a.cleanSpacings()) == independentSpacings {
+			a.setIndependent()
+			return nil
+		}
 		h.Class, h.Betti, h.Period, h.Confidence = Point, []int{1, 0, 0}, 1, 1
 		h.Reason = "the delay vectors show no direction above the noise floor: all windows of spacings agree up to noise"
 		return nil

@@ -14,8 +14,17 @@ type Disorder struct {
 	// mean spacing.
 	RMS      float64 `json:"rms"`
 	Relative float64 `json:"relative"`
-	// Model names the model the residuals are taken from.
+	// Model names the model the residuals are taken from ("none" for a
+	// disordered chain, whose figure is then the spread of the spacings).
 	Model string `json:"model"`
+	// MutualInformation is the Kraskov–Stögbauer–Grassberger estimate,
+	// in nats, of the information one spacing carries about the next: 0
+	// for independent spacings, large for a smooth hull.
+	MutualInformation float64 `json:"mutual_information"`
+	// IntrinsicDimension is the Levina–Bickel estimate of the dimension
+	// of the delay cloud at small scales: about 1 for a circle, 2 for a
+	// torus, the window for independent spacings.
+	IntrinsicDimension float64 `json:"intrinsic_dimension"`
 }
 
 // cellResiduals fits the sites with a periodic cell of p sites on a
@@ -67,6 +76,17 @@ func (a *analysis) setResiduals(r []float64, model string) {
 	}
 	a.res.SiteResiduals = out
 	rms := math.Sqrt(ss / float64(k))
+	a.res.Disorder = &Disorder{RMS: rms, Relative: rms / a.res.MeanSpacing, Model: model}
+}
+
+// setAllResiduals stores residuals given for every site.
+func (a *analysis) setAllResiduals(r []float64, model string) {
+	var ss float64
+	for _, v := range r {
+		ss += v * v
+	}
+	a.res.SiteResiduals = r
+	rms := math.Sqrt(ss / float64(len(r)))
 	a.res.Disorder = &Disorder{RMS: rms, Relative: rms / a.res.MeanSpacing, Model: model}
 }
 

@@ -21,6 +21,11 @@ const (
 	Circle Class = "circle"
 	// Torus: two incommensurate angles (a two-dimensional torus).
 	Torus Class = "torus"
+	// Cantor: a tiling of a few tile lengths with an aperiodic word of
+	// low complexity (Sturmian, substitution): its hull is a Cantor set.
+	Cantor Class = "cantor"
+	// Disordered: no low-dimensional hull at the resolution of the data.
+	Disordered Class = "disordered"
 	// Unresolved: the data cannot decide; Hull.Reason says why and what
 	// would decide it.
 	Unresolved Class = "unresolved"
@@ -46,6 +51,10 @@ type Result struct {
 	AngleMethod string `json:"angle_method,omitempty"`
 
 	GapLabels GapLabels `json:"gap_labels"`
+
+	// Tiles describes the tiling when the chain is made of a few tile
+	// lengths; nil otherwise.
+	Tiles *TileReport `json:"tiles"`
 
 	// Disorder is the positional scatter the hull does not explain; nil
 	// when no model of the hull was fitted (unresolved).

@@ -1,0 +1,169 @@
+package hull
+
+import (
+	"fmt"
+	"math"
+
+	"phasonhull/embed"
+)
+
+// estimatorSample bounds the points the nearest-neighbour estimators see:
+// the first estimatorSample delay vectors (and spacing pairs) in chain
+// order, so the cost stays bounded and the result deterministic.
+const estimatorSample = 4000
+
+// disorderFigures estimates, on the clean spacings and the delay cloud, the
+// mutual information of consecutive spacings (Kraskov, Stögbauer &
+// Grassberger, Phys. Rev. E 69, 066138, 2004) and the intrinsic dimension
+// of the cloud (Levina & Bickel, NIPS 17, 2004), with k = 4 neighbours and
+// k = 5..15.
+func (a *analysis) disorderFigures() (mi, dim float64, ok bool) {
+	u := a.cleanSpacings()
+	var x, y [][]float64
+	for i := 0; i+1 < len(u) && len(x) < estimatorSample; i++ {
+		x = append(x, []float64{u[i]})
+		y = append(y, []float64{u[i+1]})
+	}
+	mi, err := embed.MutualInformation(x, y, 4)
+	if err != nil {
+		return 0, 0, false
+	}
+	cloud := a.em.Whitened.Cloud
+	if len(cloud) > estimatorSample {
+		cloud = cloud[:estimatorSample]
+	}
+	dim, err = embed.IntrinsicDimension(cloud, 5, 15)
+	if err != nil {
+		return mi, 0, false
+	}
+	return mi, dim, true
+}
+
+// Thresholds of the disorder rules.
+const (
+	// independentMI is the mutual information, in nats, below which
+	// consecutive spacings count as independent: the KSG estimator's
+	// bias for independent samples of a few thousand is a few hundredths.
+	independentMI = 0.1
+	// acfLags is the number of autocorrelation lags the jitter test
+	// examines.
+	acfLags = 8
+)
+
+// noiseKind tells apart the ways a chain of nearly equal spacings can
+// scatter, from the autocorrelation of its spacings at lags 1 to acfLags,
+// each judged within four standard errors 1/√N (Bartlett's formula for
+// white noise; common practice):
+//
+//   - exact: the spacings agree to rounding;
+//   - jittered: a uniform lattice with independent position noise — the
+//     spacing noise e_{n+1} − e_n is a moving average, with autocorrelation
+//     −½ at lag 1 and 0 beyond; jitter of any size passes;
+//   - independent: no correlation at any lag — independent spacings, whose
+//     positions wander like a random walk away from any lattice;
+//   - other: neither, or too few spacings (fewer than 50) to tell.
+type noiseKind int
+
+const (
+	otherNoise noiseKind = iota
+	exactLattice
+	jitteredLattice
+	independentSpacings
+)
+
+func classifyNoise(u []float64) noiseKind {
+	n := len(u)
+	var m float64
+	for _, v := range u {
+		m += v
+	}
+	m /= float64(n)
+	var s0 float64
+	for _, v := range u {
+		s0 += (v - m) * (v - m)
+	}
+	if math.Sqrt(s0/float64(n)) <= 1e-9*math.Abs(m) {
+		return exactLattice
+	}
+	if n < 50 {
+		return otherNoise
+	}
+	acf := func(k int) float64 {
+		var s float64
+		for i := 0; i+k < n; i++ {
+			s += (u[i] - m) * (u[i+k] - m)
+		}
+		return s / s0
+	}
+	tol := 4 / math.Sqrt(float64(n))
+	rest := true
+	for k := 2; k <= acfLags; k++ {
+		rest = rest && math.Abs(acf(k)) <= tol
+	}
+	switch r1 := acf(1); {
+	case rest && math.Abs(r1+0.5) <= tol:
+		return jitteredLattice
+	case rest && math.Abs(r1) <= tol:
+		return independentSpacings
+	}
+	return otherNoise
+}
+
+// spacingSpread sets the disorder figure of a chain without a hull model:
+// the standard deviation of its spacings.
+func (a *analysis) spacingSpread() {
+	u := a.cleanSpacings()
+	var m, s float64
+	for _, v := range u {
+		m += v
+	}
+	m /= float64(len(u))
+	for _, v := range u {
+		s += (v - m) * (v - m)
+	}
+	rel := math.Sqrt(s / float64(len(u)))
+	a.res.Disorder = &Disorder{RMS: rel * a.res.MeanSpacing, Relative: rel, Model: "none: the spread of the spacings"}
+}
+
+// decideDisorder revisits an unresolved chain: a lattice with position
+// noise beyond the embedding's tolerance is a point hull; spacings that
+// carry no information about their neighbours, with delay vectors filling
+// every direction of the window, are disordered.
+func (a *analysis) decideDisorder() {
+	h := &a.res.Hull
+	if h.Class != Unresolved {
+		return
+	}
+	u := a.cleanSpacings()
+	if classifyNoise(u) == jitteredLattice {
+		a.setPoint("the spacings are those of a uniform lattice with independent position noise (autocorrelation −1/2 at lag 1, none beyond): a periodic chain with one site per period, shaken")
+		return
+	}
+	a.spacingSpread()
+	mi, dim, ok := a.disorderFigures()
+	if !ok {
+		return
+	}
+	a.res.Disorder.MutualInformation, a.res.Disorder.IntrinsicDimension = mi, dim
+	c := a.em.Choice
+	if c != nil && !c.Settled && a.em.Whitened.Kept == a.em.Window && mi < independentMI {
+		h.Class, h.Betti = Disordered, []int{}
+		h.Reason = fmt.Sprintf("consecutive spacings share almost no information (%.3f nats) and the delay vectors fill every direction of the window (dimension %.1f of %d): no low-dimensional hull at the resolution of the data", mi, dim, a.em.Window)
+	}
+}
+
+// setPoint names a point hull.
+func (a *analysis) setPoint(reason string) {
+	h := &a.res.Hull
+	h.Class, h.Period, h.Betti, h.Confidence, h.Reason = Point, 1, []int{1, 0, 0}, 1, reason
+	a.periodicResiduals()
+}
+
+// setIndependent names the hull of independent spacings that are nearly
+// equal: small enough to pass for noise, but with no trace of a lattice.
+func (a *analysis) setIndependent() {
+	h := &a.res.Hull
+	h.Class, h.Betti, h.Confidence = Disordered, []int{}, 1
+	h.Reason = "the spacings vary independently of one another (no autocorrelation at any lag): the positions wander from any lattice like a random walk, so there is no hull at all; the spread of the spacings is the disorder"
+	a.spacingSpread()
+}
