@@ -28,14 +28,26 @@ type periodTest struct {
 // p-step return is merely close (a smooth hull turned by an angle near a
 // fraction, or an estimate of ν inflated by a rough hull) has its p
 // "points" strung along a curve, closer together than that.
+//
+// u is indexed by site index: u[k] is the spacing from the site of index k
+// to the next, NaN where that spacing is unknown (across a missing or
+// spurious site), so that a cell keeps its phase across gaps; pairs with
+// an unknown member are skipped.
 func spacingPeriod(u []float64, nu float64, maxP int) periodTest {
 	const rounding = 1e-20 // squared dimensionless rounding of spacings
 	for p := 1; p <= maxP && 3*p <= len(u); p++ {
-		m := len(u) - p
+		m := 0
 		var s float64
-		for n := 0; n < m; n++ {
+		for n := 0; n+p < len(u); n++ {
 			e := u[n+p] - u[n]
+			if math.IsNaN(e) {
+				continue
+			}
 			s += e * e
+			m++
+		}
+		if m < 2*p {
+			continue
 		}
 		s /= float64(m)
 		want := 2 * nu
@@ -52,7 +64,7 @@ func spacingPeriod(u []float64, nu float64, maxP int) periodTest {
 
 // sepFactor is how many window scatters apart the points of a finite hull
 // must lie.
-const sepFactor = 6
+const sepFactor = 4
 
 // resolvedCell reports whether the p cyclic shifts of the mean cell of u
 // are separated by at least sepFactor times the scatter of a window of p
@@ -61,18 +73,27 @@ func resolvedCell(u []float64, p int) bool {
 	cell := make([]float64, p)
 	count := make([]int, p)
 	for n, v := range u {
-		cell[n%p] += v
-		count[n%p]++
+		if !math.IsNaN(v) {
+			cell[n%p] += v
+			count[n%p]++
+		}
 	}
 	for j := range cell {
+		if count[j] == 0 {
+			return false
+		}
 		cell[j] /= float64(count[j])
 	}
 	var ss float64
+	var m int
 	for n, v := range u {
-		d := v - cell[n%p]
-		ss += d * d
+		if !math.IsNaN(v) {
+			d := v - cell[n%p]
+			ss += d * d
+			m++
+		}
 	}
-	scatter := math.Sqrt(ss / float64(len(u)) * float64(p)) // RMS norm of a window's deviation
+	scatter := math.Sqrt(ss / float64(m) * float64(p)) // RMS norm of a window's deviation
 	sep := math.Inf(1)
 	for j := 0; j < p; j++ {
 		for k := j + 1; k < p; k++ {
