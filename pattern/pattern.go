@@ -35,6 +35,11 @@ type Pattern struct {
 	// Scan describes the removed geometry when the input was two- or
 	// three-dimensional centroids; nil otherwise.
 	Scan *Scan
+	// Rows maps each site to the data row it came from: Rows[i] is the
+	// 0-based position, in the input's own order, of the site now at
+	// Positions[i] (the identity when the input was already in ascending
+	// order). It lets a report name sites in the order a file lists them.
+	Rows []int
 	// Word is the tile word when the pattern was built from tile letters
 	// (read or generated); empty otherwise. Word[i] is the tile between
 	// Positions[i] and Positions[i+1].
@@ -76,8 +81,15 @@ func New(positions []float64, unit, source string) (*Pattern, error) {
 	if len(p.Positions) < MinSites {
 		return nil, fmt.Errorf("%w: %d, need at least %d", ErrTooFew, len(p.Positions), MinSites)
 	}
+	p.Rows = make([]int, len(p.Positions))
+	for i := range p.Rows {
+		p.Rows[i] = i
+	}
 	if !sort.Float64sAreSorted(p.Positions) {
-		sort.Float64s(p.Positions)
+		sort.SliceStable(p.Rows, func(a, b int) bool { return positions[p.Rows[a]] < positions[p.Rows[b]] })
+		for i, r := range p.Rows {
+			p.Positions[i] = positions[r]
+		}
 		p.Notes = append(p.Notes, "positions were not in ascending order and have been sorted")
 	}
 	if err := p.checkDuplicates(); err != nil {

@@ -128,5 +128,6 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 		return nil, err
 	}
 	p.Scan = scan
+	p.Rows = order
 	return p, nil
 }

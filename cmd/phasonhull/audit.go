@@ -114,9 +114,10 @@ Verdict: pass when no more sites are missing (--allow-missing) or extra
 Outliers are reported but decide nothing unless --tolerance is given.
 
 Indices are 0-based: design indices count design sites in ascending
-position; measured indices count the sample's sites in ascending position
-along the chain, which is the file's row order for a column of positions
-in ascending order (the report says when it is not).
+position; measured indices count the data rows of the measured file in the
+order the file lists them (comments and header not counted), whatever the
+scan order, so a flagged site can be found in the file. Swapped neighbours
+show only when the file lists the sites in chain order.
 
 --json prints one object (schema phasonhull.audit/1): verdict, reasons,
 offset, scale, drift (with --drift) and their uncertainties, rms, max,
@@ -380,9 +381,8 @@ type auditReport struct {
 	Unit          string   `json:"unit"`
 	MeasuredSites int      `json:"measured_sites"`
 	DesignSites   int      `json:"design_sites,omitempty"`
-	// MeasuredOrder says what measured indices count: "file" (the file's
-	// row order) or "ascending" (ascending position along the chain, which
-	// differs from the file's rows).
+	// MeasuredOrder says what measured indices count: "file", the file's
+	// row order (0-based data rows, comments and header not counted).
 	MeasuredOrder string `json:"measured_order"`
 	Matched       int    `json:"matched"`
 
@@ -451,11 +451,7 @@ func auditSample(d *loadedDesign, p *pattern.Pattern, f *auditFlags, opt hull.Op
 		Schema: auditSchema, Measured: p.Source, Unit: p.Unit, MeasuredSites: p.Len(),
 		MeasuredOrder: "file", Reasons: []string{}, Missing: []int{}, Extra: []int{},
 		Merged: []auditMerge{}, Swapped: []auditSwap{}, Outliers: []int{}, Sites: []auditSite{},
-		Notes: []string{}, measuredPos: p.Positions,
-	}
-	if p.Scan != nil || slices.ContainsFunc(p.Notes, func(n string) bool { return strings.Contains(n, "sorted") }) {
-		rep.MeasuredOrder = "ascending"
-		rep.Notes = append(rep.Notes, "measured indices count the sample's sites in ascending position along the chain: the reader sorted them, and the file's row order is not kept, so they differ from the file's rows and swapped neighbours cannot be seen")
+		Notes: []string{}, measuredPos: fileOrder(p),
 	}
 	tol := 0.0
 	if f.tolerance != "" {
@@ -513,7 +509,7 @@ func registerOnDesign(rep *auditReport, d *loadedDesign, p *pattern.Pattern, f *
 	if err != nil {
 		return err
 	}
-	reg, err := register.Register(rep.designPos, p.Positions, register.Options{Drift: f.drift, Gate: f.gate, Direction: dir})
+	reg, err := register.Register(rep.designPos, rep.measuredPos, register.Options{Drift: f.drift, Gate: f.gate, Direction: dir})
 	if err != nil {
 		rep.Reasons = append(rep.Reasons, fmt.Sprintf("the sample could not be registered on the design: %v", err))
 	} else {
@@ -588,20 +584,20 @@ func screenOwnHull(rep *auditReport, p *pattern.Pattern, mres *hull.Result, f *a
 		return
 	}
 	rep.Sigma, rep.OutlierThreshold, rep.RMS, rep.Max = s.Sigma, s.Threshold, s.RMS, s.Max
-	rep.Extra = s.NotFitted
+	rep.Extra = rowsOf(p, s.NotFitted)
 	rep.Matched = p.Len() - len(s.NotFitted)
-	outliers := slices.Clone(s.Flagged)
+	outliers := rowsOf(p, s.Flagged)
 	beyond := 0
 	for i, r := range mres.SiteResiduals {
 		if math.IsNaN(r) {
 			continue
 		}
-		site := auditSite{Measured: i, Position: p.Positions[i], Residual: r, Outlier: math.Abs(r) > s.Threshold}
+		site := auditSite{Measured: p.Rows[i], Position: p.Positions[i], Residual: r, Outlier: math.Abs(r) > s.Threshold}
 		if tol > 0 {
 			ok := math.Abs(r) <= tol
 			site.WithinTolerance = &ok
 			if !ok {
-				outliers = append(outliers, i)
+				outliers = append(outliers, p.Rows[i])
 				beyond++
 			}
 		}
@@ -788,4 +784,30 @@ func floats(v []float64) string {
 		s[i] = strconv.FormatFloat(x, 'g', 10, 64)
 	}
 	return strings.Join(s, ", ")
+}
+
+// fileOrder returns the sample's positions in the order its file lists
+// them, so that measured indices name file rows.
+func fileOrder(p *pattern.Pattern) []float64 {
+	if len(p.Rows) != p.Len() {
+		return p.Positions
+	}
+	out := make([]float64, p.Len())
+	for i, r := range p.Rows {
+		out[r] = p.Positions[i]
+	}
+	return out
+}
+
+// rowsOf maps indices of sites in ascending order to file rows, sorted.
+func rowsOf(p *pattern.Pattern, idx []int) []int {
+	out := make([]int, len(idx))
+	for k, i := range idx {
+		out[k] = i
+		if len(p.Rows) == p.Len() {
+			out[k] = p.Rows[i]
+		}
+	}
+	slices.Sort(out)
+	return out
 }
