@@ -94,9 +94,9 @@ never is: say --direction reversed for such a sample.
 Reported: residual of every matched site (measured minus calibrated design
 position, in the sample's unit), RMS and max; outliers, sites beyond 4
 robust sigmas (sigma = 1.4826 × median absolute deviation); merged sites
-(one measured site midway between two missing design sites). Swapped
-sites (two neighbours listed in exchanged order) need the file's row
-order, which the readers do not keep: audit cannot report them yet.
+(one measured site midway between two missing design sites); swapped
+sites (two consecutive rows of the file that match neighbouring design
+sites in the order opposite to the rows around them).
 
 Hull. The hull of the design and of the sample are analysed as analyze does
 and compared: same class, same period, and for a circle or torus the
