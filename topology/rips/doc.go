@@ -49,8 +49,12 @@
 //
 // The working column is the merge of one lazily produced stream of cofacets
 // per simplex of its chain, in filtration order, drawn from neighbour lists
-// sorted by edge length; its memory grows with the chain, not with the
-// coboundaries, and no cofacet beyond the final pivot is ever visited.
+// sorted by edge length. Streams wait in a bucket queue indexed by the
+// diameter rank of their next cofacet (the pivot only moves forward), and
+// the cofacets of one rank are summed in a hash table, so that most of
+// them cancel without ever being ordered. Its memory grows with the chain,
+// not with the coboundaries, and no cofacet beyond the final pivot is ever
+// visited.
 //
 // The distances, the assembly of the columns of each dimension (with the
 // apparent-pair tests) and the H1 candidates are computed in parallel;

@@ -70,6 +70,7 @@ func referenceBattery() []refCase {
 		{name: "lattice-ties", pts: lattice(5, 4, 3), dim: 2},
 		{name: "cube3-H3", pts: q(clouds.Cube(40, 3, 12)), dim: 3},
 		{name: "polygon-12", pts: q(clouds.RegularPolygon(12)), dim: 2},
+		{name: "repeated-points", pts: repeated(q(clouds.Sphere(60, 17)), 20), dim: 2},
 	}
 	// Threshold below the enclosing radius: halfway between two
 	// consecutive distinct lengths, so that both programs admit the same
@@ -85,6 +86,11 @@ func referenceBattery() []refCase {
 		refCase{name: "cube3-Z5", pts: q(clouds.Cube(80, 3, 16)), dim: 2, prime: 5},
 	)
 	return cases
+}
+
+// repeated returns pts followed by copies of its first k points.
+func repeated(pts [][]float64, k int) [][]float64 {
+	return append(slices.Clone(pts), pts[:k]...)
 }
 
 // lattice returns the integer points of an a×b×c box: many equal lengths,

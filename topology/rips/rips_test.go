@@ -377,3 +377,15 @@ func TestProgressQuiet(t *testing.T) {
 		t.Errorf("progress on a quick job: %q", b.String())
 	}
 }
+
+// A repeated point joins at length 0, so its H0 bar has no length and is
+// left out: repeating points changes no bar.
+func TestDuplicatePoints(t *testing.T) {
+	pts := clouds.Torus(60, 2, 1, 121)
+	twice := append(slices.Clone(pts), pts[:25]...)
+	a := sortedBars(compute(t, pts, rips.Options{MaxDim: 2}))
+	b := sortedBars(compute(t, twice, rips.Options{MaxDim: 2}))
+	if !reflect.DeepEqual(a, b) {
+		t.Errorf("repeating 25 of 60 points changed the barcode:\n%v\n%v", a, b)
+	}
+}

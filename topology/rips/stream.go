@@ -9,10 +9,11 @@ import (
 // The working column of a reduction is the coboundary δc of a chain
 // c = Σ λ_s s of simplices. It is never written out: each simplex s of the
 // chain contributes a stream, the cofacets of s in filtration order,
-// produced on demand, and the column is the merge of the streams. A heap
-// holds the next cofacet of each stream; the pivot is found by summing the
-// heads that name the same simplex. Memory grows with the chain, not with
-// the coboundaries, and cofacets beyond the final pivot are never visited.
+// produced on demand, and the column is the merge of the streams. Each
+// stream waits under the diameter rank of its next cofacet; the pivot is
+// found rank by rank by summing the waiting cofacets that name the same
+// simplex. Memory grows with the chain, not with the coboundaries, and
+// cofacets beyond the final pivot are never visited.
 //
 // The cofacets of s (vertices v_0 > … > v_{k−1}, diameter rank r) come in
 // two phases:
