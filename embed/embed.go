@@ -82,8 +82,9 @@ type Result struct {
 	// given.
 	Choice *WindowChoice
 	// NoiseFloor is the eigenvalue below which a component counts as
-	// noise (see ChooseWindow).
-	NoiseFloor float64
+	// noise (see ChooseWindow), three times NoiseVariance, the estimated
+	// noise variance of one dimensionless spacing.
+	NoiseFloor, NoiseVariance float64
 	// Whitened is the whitened cloud of all delay vectors, with the full
 	// spectrum, the number of kept components and the threshold.
 	Whitened *Whitened
@@ -137,6 +138,7 @@ func Embed(p *pattern.Pattern, opt Options) (*Result, error) {
 			return nil, fmt.Errorf("embedding: %w", err)
 		}
 	}
+	res.NoiseVariance = res.NoiseFloor / noiseMargin
 	all, err := Delay(d, res.Window)
 	if err != nil {
 		return nil, fmt.Errorf("embedding: %w", err)

@@ -30,6 +30,8 @@ const (
 	// longWindow is the window the barcodes are computed at when the
 	// window is chosen from the data (see newAnalysis).
 	longWindow = 12
+	// windowSample bounds the clean spacings the window rules see.
+	windowSample = 1500
 )
 
 // Options control Analyze. The zero value asks for the defaults.
@@ -164,30 +166,34 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 	for i, c := range a.clean {
 		exclude[i] = !c
 	}
-	eo := embed.Options{
-		Window: opt.Window, Landmarks: opt.Landmarks, Seed: opt.Seed,
-		Noise: opt.Noise, Exclude: exclude,
+	// The window rules give the shortest window that unfolds the hull;
+	// they run on the first windowSample clean spacings, which is plenty
+	// to see the hull and bounds their cost. The analysis then runs at a
+	// long window and keeps the significant components only
+	// (singular-spectrum analysis, Broomhead & King, Physica D 20, 1986):
+	// the signal's components grow with the window while the noise per
+	// component does not, so a thin direction of the trace no longer
+	// drowns in noise once whitened.
+	eo := embed.Options{Window: opt.Window, Landmarks: opt.Landmarks, Seed: opt.Seed, Noise: opt.Noise, Exclude: exclude}
+	var choice *embed.WindowChoice
+	chosen := opt.Window
+	if opt.Window == 0 {
+		cs := a.cleanSpacings()
+		if len(cs) > windowSample {
+			cs = cs[:windowSample]
+		}
+		ch, err := embed.ChooseWindow(cs, embed.Options{Noise: opt.Noise, Seed: opt.Seed})
+		if err != nil {
+			return nil, err
+		}
+		choice, chosen = ch, ch.Window
+		eo.Window = max(chosen, min(longWindow, len(d)/6))
 	}
 	em, err := embed.Embed(p, eo)
 	if err != nil {
 		return nil, err
 	}
-	chosen := em.Window
-	// The rules give the shortest window that unfolds the hull. The
-	// analysis then runs at a long window and keeps the significant
-	// components only (singular-spectrum analysis, Broomhead & King,
-	// Physica D 20, 1986): the signal's components grow with the window
-	// while the noise per component does not, so a thin direction of the
-	// trace no longer drowns in noise once whitened.
-	if opt.Window == 0 {
-		if long := min(longWindow, max(chosen, len(d)/6)); long > chosen {
-			eo.Window = long
-			if em2, err := embed.Embed(p, eo); err == nil {
-				em2.Choice = em.Choice
-				em = em2
-			}
-		}
-	}
+	em.Choice = choice
 	a.em = em
 	e := &res.Embedding
 	e.ChosenWindow = chosen
@@ -195,9 +201,7 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 	e.WindowSettled = em.Choice == nil || em.Choice.Settled
 	e.Spectrum = em.Whitened.Spectrum
 	e.Components = em.Whitened.Kept
-	if em.Choice != nil {
-		e.NoiseVariance = em.Choice.NoiseVariance
-	}
+	e.NoiseVariance = em.NoiseVariance
 	e.Vectors = len(em.Whitened.Cloud)
 	e.Excluded = em.Excluded
 	e.Landmarks = len(em.Landmarks)

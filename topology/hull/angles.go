@@ -209,7 +209,8 @@ func (a *analysis) fitSites() ([]int, []float64) {
 // bestFit refines the frequencies from rough values with 1..maxHarmonics
 // harmonics (one frequency) or 1..3 orders with combination tones (two),
 // and keeps the fit with the lowest Bayesian information criterion
-// N log(RSS/N) + P log N (Schwarz, Ann. Stat. 6, 1978).
+// N log(RSS/N) + P log N (Schwarz, Ann. Stat. 6, 1978), stopping once two
+// orders past the best have not lowered it.
 func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int, error) {
 	f0 := make([]float64, len(rough))
 	for i, r := range rough {
@@ -244,6 +245,8 @@ func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int,
 		bic := N*math.Log(math.Max(rss/N, 1e-300)) + float64(terms)*math.Log(N)
 		if bic < bestBIC {
 			best, bestH, bestBIC = fit, h, bic
+		} else if bestH > 0 && h >= bestH+2 {
+			break // two more harmonics did not help: the criterion has turned
 		}
 	}
 	if bestH == 0 {
