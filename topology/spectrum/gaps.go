@@ -128,14 +128,15 @@ func (r rawGap) upper() float64 { return (r.hi0 + r.hi1) / 2 }
 //
 // Boundary states: an open chain's ends (or the seam of a periodic chain)
 // can hold levels inside a bulk gap, splitting it. Levels between two
-// empty intervals of at least MinGap/3 each are examined, up to
+// empty intervals of at least w/3 each are examined (w the smaller of
+// MinGap and DefaultMinGap), up to
 // 2·Bandwidth() of them in one gap (a nearest-neighbour chain's two ends
 // hold at most one state each in a gap): when every such level has more
 // than half its weight on the first and last tenth of the chain, they are
 // boundary states, and the gap is reported whole, from the bulk level
 // below to the bulk level above, with the boundary states listed and not
 // counted. This is the bulk counting convention: IDS = (levels at or below
-// the gap's lower edge)/N. A boundary state closer than MinGap/3 to a bulk
+// the gap's lower edge)/N. A boundary state closer than w/3 to a bulk
 // edge is taken as part of the band; the gap is then reported narrower by
 // that much, and its IDS off by one level.
 func Analyze(op *Operator, opt Options) (*Result, error) {
@@ -188,8 +189,13 @@ func (o Options) minGap() float64 {
 	return o.MinGap
 }
 
-// rawGaps finds every empty interval at least a third of the reported
-// minimum wide.
+// isolation is the width, relative to the spectrum's, of the empty
+// intervals the gap search starts from: a third of the smaller of MinGap
+// and DefaultMinGap, so that a boundary state splitting a wide gap is
+// recognised however large MinGap is.
+func (o Options) isolation() float64 { return min(o.minGap(), DefaultMinGap) / 3 }
+
+// rawGaps finds every empty interval at least isolation() wide.
 func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 	res := &Result{Sites: lv.n, Method: Values}
 	if lv.values != nil {
@@ -197,7 +203,7 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 		res.Values = v
 		res.Lowest, res.Highest = v[0], v[len(v)-1]
 		res.MinGap = opt.minGap() * (res.Highest - res.Lowest)
-		iso := res.MinGap / 3
+		iso := opt.isolation() * (res.Highest - res.Lowest)
 		var raws []rawGap
 		for k := 0; k+1 < len(v); k++ {
 			if v[k+1]-v[k] >= iso && v[k+1] > v[k] {
@@ -213,7 +219,7 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 	res.Lowest, res.Highest = lo, hi
 	w := hi - lo
 	res.MinGap = opt.minGap() * w
-	iso := res.MinGap / 3
+	iso := opt.isolation() * w
 	if w <= 0 {
 		return res, nil
 	}
@@ -240,12 +246,31 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 		raws = append(raws, rawGap{below: c[i], lo0: es[i-1], lo1: es[i], hi0: es[j], hi1: es[j+1]})
 		i = j + 1
 	}
+	// Only raw gaps that could be part of a gap of MinGap matter: those
+	// in a run, within the levels a merge may skip, whose grid span can
+	// reach MinGap (merge applies the same reach).
+	maxCluster := 2 * lv.op.Bandwidth()
+	need := make([]bool, len(raws))
+	for i := range raws {
+		reach := i
+		for reach+1 < len(raws) && raws[reach+1].below-raws[i].below <= maxCluster {
+			reach++
+		}
+		if raws[reach].hi1-raws[i].lo0 >= res.MinGap {
+			for j := i; j <= reach; j++ {
+				need[j] = true
+			}
+		}
+	}
 	// Bracket both edges to a hundredth of iso, enough to tell whether
 	// the empty interval reaches iso, in parallel.
 	tol := iso / 100
 	keep := make([]bool, len(raws))
 	parallel(len(raws), 1, opt.Workers, func(a, b int) {
 		for r := a; r < b; r++ {
+			if !need[r] {
+				continue
+			}
 			g := &raws[r]
 			g.lo0, g.lo1 = lv.bracket(g.below-1, g.lo0, g.lo1, tol)
 			g.hi0, g.hi1 = lv.bracket(g.below, g.hi0, g.hi1, tol)
@@ -261,6 +286,12 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 	return res, out
 }
 
+// edgeTol is the accuracy to which the counting method locates gap edges
+// and the levels inverse iteration starts from: 1e-10 of the operator's
+// scale, far below any width reported and enough for inverse iteration to
+// converge in its three steps.
+func (lv *levels) edgeTol() float64 { return max(lv.tol, 1e-10*lv.op.scale) }
+
 // bracket narrows [lo, hi], which holds level k, to width tol.
 func (lv *levels) bracket(k int, lo, hi, tol float64) (float64, float64) {
 	if lv.values != nil {
@@ -275,54 +306,82 @@ func (lv *levels) bracket(k int, lo, hi, tol float64) (float64, float64) {
 
 // merge joins raw gaps separated only by boundary states into bulk gaps
 // and keeps those at least MinGap wide, with their edges located to full
-// accuracy.
+// accuracy. The levels between neighbouring raw gaps are examined, and the
+// edges located, in parallel.
 func (lv *levels) merge(raws []rawGap, res *Result, opt Options) []Gap {
 	maxCluster := 2 * lv.op.Bandwidth()
-	var gaps []Gap
-	for i := 0; i < len(raws); {
-		first := raws[i]
-		// The farthest raw gap a merge could reach; when even that
-		// leaves the gap narrower than MinGap, no level need be examined.
-		reach := i
-		for reach+1 < len(raws) && raws[reach+1].below-first.below <= maxCluster {
-			reach++
+	// reach[i] is the farthest raw gap a merge starting at i could take
+	// in; a start whose reach spans less than MinGap needs nothing.
+	reach := make([]int, len(raws))
+	useful := make([]bool, len(raws))
+	for i := range raws {
+		r := i
+		for r+1 < len(raws) && raws[r+1].below-raws[i].below <= maxCluster {
+			r++
 		}
-		if raws[reach].upper()-first.lower() < res.MinGap {
+		reach[i] = r
+		useful[i] = raws[r].upper()-raws[i].lower() >= res.MinGap
+	}
+	// The levels between raw gaps j and j+1, where a useful start could
+	// merge across them.
+	examine := make([]bool, len(raws))
+	for i := range raws {
+		if useful[i] {
+			for j := i; j < reach[i]; j++ {
+				examine[j] = true
+			}
+		}
+	}
+	clusters := make([][]BoundaryState, len(raws))
+	isBoundary := make([]bool, len(raws))
+	parallel(len(raws), 1, opt.Workers, func(a, b int) {
+		for j := a; j < b; j++ {
+			if examine[j] {
+				clusters[j], isBoundary[j] = lv.boundaryCluster(raws[j].below, raws[j+1].below, raws[j], raws[j+1])
+			}
+		}
+	})
+	type span struct{ first, last int }
+	var spans []span
+	var boundary [][]BoundaryState
+	for i := 0; i < len(raws); {
+		if !useful[i] {
 			i++
 			continue
 		}
-		var boundary []BoundaryState
+		var states []BoundaryState
 		j := i
-		for j+1 < len(raws) {
-			k0, k1 := raws[j].below, raws[j+1].below
-			if k1-first.below > maxCluster {
-				break
-			}
-			states, ok := lv.boundaryCluster(k0, k1, raws[j], raws[j+1])
-			if !ok {
-				break
-			}
-			boundary = append(boundary, states...)
+		for j < reach[i] && isBoundary[j] {
+			states = append(states, clusters[j]...)
 			j++
 		}
-		last := raws[j]
+		if raws[j].upper()-raws[i].lower() >= res.MinGap {
+			spans = append(spans, span{i, j})
+			boundary = append(boundary, states)
+		}
 		i = j + 1
-		if last.upper()-first.lower() < res.MinGap {
-			continue
-		}
-		lower := lv.level(first.below-1, first.lo0, first.lo1)
-		upper := lv.level(last.below, last.hi0, last.hi1)
-		if upper-lower < res.MinGap {
-			continue
-		}
-		gaps = append(gaps, Gap{
-			Lower: lower, Upper: upper, Width: upper - lower,
-			RelWidth: (upper - lower) / (res.Highest - res.Lowest),
-			Below:    first.below, IDS: float64(first.below) / float64(lv.n),
-			Boundary: boundary,
-		})
 	}
-	return gaps
+	gaps := make([]Gap, len(spans))
+	parallel(len(spans), 1, opt.Workers, func(a, b int) {
+		for s := a; s < b; s++ {
+			first, last := raws[spans[s].first], raws[spans[s].last]
+			lower := lv.levelTo(first.below-1, first.lo0, first.lo1, lv.edgeTol())
+			upper := lv.levelTo(last.below, last.hi0, last.hi1, lv.edgeTol())
+			gaps[s] = Gap{
+				Lower: lower, Upper: upper, Width: upper - lower,
+				RelWidth: (upper - lower) / (res.Highest - res.Lowest),
+				Below:    first.below, IDS: float64(first.below) / float64(lv.n),
+				Boundary: boundary[s],
+			}
+		}
+	})
+	out := gaps[:0]
+	for _, g := range gaps {
+		if g.Width >= res.MinGap {
+			out = append(out, g)
+		}
+	}
+	return out
 }
 
 // boundaryCluster examines the levels k0..k1−1 between raw gaps a and b;
@@ -330,9 +389,15 @@ func (lv *levels) merge(raws []rawGap, res *Result, opt Options) []Gap {
 func (lv *levels) boundaryCluster(k0, k1 int, a, b rawGap) ([]BoundaryState, bool) {
 	states := make([]BoundaryState, 0, k1-k0)
 	for k := k0; k < k1; k++ {
-		// Inverse iteration needs the level to about 1e-10 of the
-		// scale, not to the last digit.
-		e := lv.levelTo(k, a.hi0, b.lo1, max(lv.tol, 1e-10*lv.op.scale))
+		// The raw gaps' brackets hold the first and the last level.
+		lo, hi := a.hi1, b.lo0
+		switch k {
+		case k0:
+			lo, hi = a.hi0, a.hi1
+		case k1 - 1:
+			lo, hi = b.lo0, b.lo1
+		}
+		e := lv.levelTo(k, lo, hi, lv.edgeTol())
 		x := lv.op.eigenvector(e, uint64(k))
 		f, l := endWeights(x)
 		if f+l <= 0.5 {

@@ -14,8 +14,8 @@ import (
 
 // DenseLimit is the largest chain whose every eigenvalue Eigenvalues
 // computes, and the largest chain with next-nearest bonds any function
-// here accepts: those need the dense symmetric eigensolver, O(N³).
-// Nearest-neighbour chains of any length are analysed by counting.
+// here accepts: those are not counted in O(N) per energy. Nearest-neighbour
+// chains of any length are analysed by counting.
 const DenseLimit = 4000
 
 // Method names how a spectrum was obtained.
@@ -28,12 +28,15 @@ const (
 	Auto Method = ""
 	// Values computes every eigenvalue: the implicit QL algorithm on the
 	// tridiagonal matrix (LAPACK's dsterf, O(N²)) for an open
-	// nearest-neighbour chain, bisection on Sturm counts for a periodic one,
-	// the dense symmetric eigensolver for next-nearest bonds.
+	// nearest-neighbour chain, bisection on Sturm counts for a periodic
+	// one; an open chain with next-nearest bonds is first reduced to
+	// tridiagonal form by Givens rotations (O(N²)), a periodic one goes to
+	// the dense symmetric eigensolver (O(N³)).
 	Values Method = "values"
 	// Counting finds gaps from Sturm counts on an energy grid, refined by
 	// bisection, without computing every eigenvalue: O(N) per energy,
-	// nearest-neighbour chains only.
+	// nearest-neighbour chains only. Gap edges are located to 1e-10 of
+	// the operator's scale (its largest row sum).
 	Counting Method = "counting"
 )
 
@@ -125,6 +128,12 @@ func (op *Operator) eigenvalues(workers int) ([]float64, error) {
 	case op.Bandwidth() == 1:
 		lv := &levels{op: op, n: n, tol: 1e-13 * op.scale}
 		return lv.bisectAll(workers), nil
+	case op.wrap == nil:
+		d, e := pentaToTridiagonal(op)
+		if !(gonum.Implementation{}).Dsterf(n, d, e) {
+			return nil, errors.New("the tridiagonal QL iteration did not converge")
+		}
+		return d, nil
 	}
 	var es mat.EigenSym
 	if !es.Factorize(op.Dense(), false) {
