@@ -12,26 +12,27 @@ import (
 // The significance rule for bars. A bar of the landmark barcode is
 // significant when its persistence exceeds
 //
-//	τ = max(2·(δ + ε), 3·s)
+//	τ = max(2·max(δ, ε), 3·s)
 //
 // with δ the cover radius of the landmarks in the cloud, ε half the largest
-// finite H0 death (half the largest gap of the sampled trace, so that
-// every point of the hull the samples trace lies within about δ + ε of a
-// landmark), and s the noise scale read off the short bars: the largest
-// persistence among the bars of dimension ≥ 1 that no class of hull
-// explains (all H1 bars but the two longest, all H2 bars but the longest).
+// finite H0 death (half the largest gap of the sampled trace), and s the
+// noise scale read off the short bars: the largest persistence among the
+// bars of dimension ≥ 1 that no class of hull explains (all H1 bars but
+// the two longest, all H2 bars but the longest).
 //
 // The sampling term follows the stability theorem for Vietoris–Rips
 // barcodes (Chazal, de Silva & Oudot, Geom. Dedicata 173, 2014: the
 // bottleneck distance between two barcodes is at most twice the
-// Gromov–Hausdorff distance of the clouds): a bar that a sample within h of
-// the hull has and the hull has not is at most 4h long, and bars that
-// short stem from sampling. It is used at half that worst case, since the
-// worst case needs every landmark displaced the same way. The noise term
-// asks a significant bar to be three times longer than anything that noise
-// produced in the same barcode. The rule is checked on every class of
-// generated hull from noise-free to 5% position noise (see the tests and
-// the benchmark suite); its factors are named below.
+// Gromov–Hausdorff distance of the clouds): the landmarks lie within δ of
+// the cloud and the cloud leaves gaps of at most 2ε in what it traces, so a
+// bar that the landmarks have and the traced hull has not is at most about
+// 4·max(δ, ε) long, and bars that short stem from sampling. It is used at
+// half that worst case, since the worst case needs every landmark
+// displaced the same way. The noise term asks a significant bar to be three
+// times longer than anything that noise produced in the same barcode. The
+// rule is checked on every class of generated hull from noise-free to 5%
+// position noise (see the tests and the benchmark suite); its factors are
+// named below.
 const (
 	samplingFactor = 2
 	noiseFactor    = 3
@@ -126,6 +127,9 @@ func (a *analysis) classify() error {
 	case b == [3]int{1, 1, 0}:
 		h.Class = Circle
 		h.Reason = "one connected component and one persistent loop: the shift turns a circle"
+		if second := kthLargest(h1Persistences(a.diagram.Bars), 2); second > a.res.Persistence.Threshold/2 {
+			a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("a second loop (persistence %.3g) stands above half the significance threshold %.3g: the hull may be a torus seen through noise; more sites or less noise would decide", second, a.res.Persistence.Threshold))
+		}
 	case b == [3]int{1, 2, 1}:
 		h.Class = Torus
 		h.Reason = "one component, two persistent loops and one persistent 2-cycle: the shift turns a two-torus"
@@ -257,7 +261,7 @@ func threshold(bars []rips.Bar, cover float64) (tau, eps, noise float64) {
 	}
 	// The classes explain at most two loops and one 2-cycle.
 	noise = math.Max(kthLargest(p1, 3), kthLargest(p2, 2))
-	return math.Max(samplingFactor*(cover+eps), noiseFactor*noise), eps, noise
+	return math.Max(samplingFactor*math.Max(cover, eps), noiseFactor*noise), eps, noise
 }
 
 // kthLargest returns the k-th largest value of v (1-based), 0 when v has
@@ -355,4 +359,15 @@ func pick(cloud [][]float64, idx []int) [][]float64 {
 		out[i] = cloud[j]
 	}
 	return out
+}
+
+// h1Persistences returns the persistences of the finite H1 bars.
+func h1Persistences(bars []rips.Bar) []float64 {
+	var p []float64
+	for _, b := range bars {
+		if b.Dim == 1 && !b.Essential() {
+			p = append(p, b.Persistence())
+		}
+	}
+	return p
 }

@@ -100,8 +100,11 @@ func classifyNoise(u []float64) noiseKind {
 	for k := 2; k <= acfLags; k++ {
 		rest = rest && math.Abs(acf(k)) <= tol
 	}
-	switch r1 := acf(1); {
-	case rest && math.Abs(r1+0.5) <= tol:
+	// The nearer of the two hypotheses, if it fits: with few spacings
+	// both may lie within the tolerance.
+	r1 := acf(1)
+	switch {
+	case rest && math.Abs(r1+0.5) <= tol && math.Abs(r1+0.5) < math.Abs(r1):
 		return jitteredLattice
 	case rest && math.Abs(r1) <= tol:
 		return independentSpacings
@@ -135,7 +138,7 @@ func (a *analysis) decideDisorder() {
 		return
 	}
 	u := a.cleanSpacings()
-	if classifyNoise(u) == jitteredLattice {
+	if classifyNoise(u) == jitteredLattice && a.latticeFits(u) {
 		a.setPoint("the spacings are those of a uniform lattice with independent position noise (autocorrelation −1/2 at lag 1, none beyond): a periodic chain with one site per period, shaken")
 		return
 	}
@@ -166,4 +169,21 @@ func (a *analysis) setIndependent() {
 	h.Class, h.Betti, h.Confidence = Disordered, []int{}, 1
 	h.Reason = "the spacings vary independently of one another (no autocorrelation at any lag): the positions wander from any lattice like a random walk, so there is no hull at all; the spread of the spacings is the disorder"
 	a.spacingSpread()
+}
+
+// latticeFits checks a jittered lattice against the positions: on a
+// lattice with independent position noise of variance σ², the spacings
+// have variance 2σ², so the sites must lie on the fitted lattice within
+// cellFitFactor·σ, σ = sd(spacings)/√2. Independent spacings wander away
+// like a random walk, far beyond that.
+func (a *analysis) latticeFits(u []float64) bool {
+	var m, v float64
+	for _, x := range u {
+		m += x
+	}
+	m /= float64(len(u))
+	for _, x := range u {
+		v += (x - m) * (x - m)
+	}
+	return a.cellFits(1, v/float64(len(u)))
 }
