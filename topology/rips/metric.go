@@ -49,10 +49,8 @@ func flatten(points [][]float64) ([]float64, int, error) {
 	return flat, dim, nil
 }
 
-// edgeIndex is the combinatorial index of the edge {i, j}, i < j.
-func edgeIndex(i, j int) int { return j*(j-1)/2 + i }
-
-// edgeVertices inverts edgeIndex.
+// edgeVertices returns the vertices i < j of the edge with combinatorial
+// index e = C(j, 2) + i.
 func edgeVertices(e int) (i, j int) {
 	j = int((1 + math.Sqrt(1+8*float64(e))) / 2)
 	// Correct the floating-point estimate in either direction.

@@ -2,6 +2,7 @@ package rips_test
 
 import (
 	"math"
+	"slices"
 	"testing"
 
 	"phasonhull/topology/rips"
@@ -46,6 +47,15 @@ func TestHexagon(t *testing.T) {
 		}
 		if !near(b.Death, 1) {
 			t.Errorf("H0 bar %v: want death 1 (the side)", b)
+		}
+	}
+	// Betti numbers inside each bar, and past the enclosing radius.
+	for _, c := range []struct {
+		t    float64
+		want []int
+	}{{0.5, []int{6, 0, 0}}, {1.5, []int{1, 1, 0}}, {1.9, []int{1, 0, 1}}, {2.5, []int{1, 0, 0}}} {
+		if got := d.Betti(2, c.t); !slices.Equal(got, c.want) {
+			t.Errorf("Betti numbers at %v: %v, want %v", c.t, got, c.want)
 		}
 	}
 	want := map[int]rips.Bar{1: {Dim: 1, Birth: 1, Death: math.Sqrt(3)}, 2: {Dim: 2, Birth: math.Sqrt(3), Death: 2}}
