@@ -115,6 +115,7 @@ func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
 		Schema: Schema, Source: p.Source, Sites: p.Len(), Unit: p.Unit,
 		MeanSpacing: p.MeanSpacing(), Notes: append([]string{}, p.Notes...),
 		Warnings: []string{}, Angles: []float64{}, AngleUncertainty: []float64{},
+		Trace: &Trace{},
 	}
 	a, err := newAnalysis(p, opt, res)
 	if err != nil {
@@ -133,6 +134,10 @@ func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
 		}
 	}
 	a.labels()
+	res.Trace.Cloud, res.Trace.Rows, res.Trace.Landmarks = a.em.Whitened.Cloud, a.em.Rows, a.em.Landmarks
+	if a.diagram != nil {
+		res.Trace.Bars = a.diagram.Bars
+	}
 	return res, nil
 }
 

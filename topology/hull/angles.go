@@ -161,6 +161,7 @@ func (a *analysis) roughAngle(c rips.Cocycle) (float64, float64, error) {
 	if err != nil {
 		return 0, 0, err
 	}
+	a.res.Trace.Coordinates = append(a.res.Trace.Coordinates, coords)
 	// Runs of consecutive delay vectors (vectors across missing or
 	// spurious sites were left out of the cloud).
 	rows := a.em.Rows

@@ -1,6 +1,9 @@
 package hull
 
-import "phasonhull/topology"
+import (
+	"phasonhull/topology"
+	"phasonhull/topology/rips"
+)
 
 // Schema names the layout of Result in JSON; it changes whenever a field
 // changes meaning.
@@ -63,6 +66,10 @@ type Result struct {
 	// unit from the fitted model of the hull (NaN for sites left out of
 	// the fit, such as spurious ones); nil when no model was fitted.
 	SiteResiduals []float64 `json:"-"`
+
+	// Trace holds the delay cloud and the circular coordinates behind the
+	// result, for pictures; it is not part of the JSON form.
+	Trace *Trace `json:"-"`
 
 	Embedding   Embedding   `json:"embedding"`
 	Persistence Persistence `json:"persistence"`
@@ -158,4 +165,20 @@ func labelsFrom(ls []topology.Label) []Label {
 		out[i] = Label{IDS: l.IDS, Coeffs: l.Coeffs}
 	}
 	return out
+}
+
+// Trace is the delay cloud an analysis ran on, for pictures and reports.
+type Trace struct {
+	// Cloud holds the whitened delay vectors; Rows[i] is the index of the
+	// first spacing of vector i.
+	Cloud [][]float64
+	Rows  []int
+	// Landmarks indexes the landmark vectors of Cloud.
+	Landmarks []int
+	// Coordinates[k][i] is the k-th circular coordinate of vector i, in
+	// turns [0, 1) (one per angle of a circle or torus; empty otherwise).
+	Coordinates [][]float64
+	// Bars is the full barcode of the landmarks (nil when the class was
+	// decided without one).
+	Bars []rips.Bar
 }
