@@ -33,6 +33,7 @@ homology.`,
 		newAnalyzeCmd(),
 		newAuditCmd(),
 		newBatchCmd(),
+		newSpectrumCmd(),
 	// commands are added here as they land
 	)
 	return root

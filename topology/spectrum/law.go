@@ -33,6 +33,9 @@ func (l Exp) Coupling(d, mean float64) (float64, error) {
 }
 
 func (l Exp) String() string {
+	if l.Decay == 0 {
+		return fmt.Sprintf("t = %g on every bond", l.T0)
+	}
 	return fmt.Sprintf("t = %g·exp(−%g·(d/d̄ − 1))", l.T0, l.Decay)
 }
 
@@ -47,6 +50,9 @@ func (l Power) Coupling(d, mean float64) (float64, error) {
 }
 
 func (l Power) String() string {
+	if l.Power == 0 {
+		return fmt.Sprintf("t = %g on every bond", l.T0)
+	}
 	return fmt.Sprintf("t = %g·(d/d̄)^(−%g)", l.T0, l.Power)
 }
 

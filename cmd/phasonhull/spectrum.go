@@ -1,0 +1,709 @@
+package main
+
+import (
+	"bufio"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+
+	"phasonhull/pattern"
+	"phasonhull/pattern/design"
+	"phasonhull/topology/hull"
+	"phasonhull/topology/spectrum"
+)
+
+// spectrumSchema names the layout of the JSON report.
+const spectrumSchema = "phasonhull.spectrum/1"
+
+// spectrumFlags holds the flags of "phasonhull spectrum".
+type spectrumFlags struct {
+	in inputFlags
+
+	design, eigenvalues, patternFile string
+
+	model, law, table, ends string
+	t0, decay, power, nnn   float64
+	closing                 float64
+	onsite                  float64
+	onsiteFile              string
+	harper, harperPhase     float64
+
+	theta    []float64
+	period   int
+	maxCoeff int
+	minGap   float64
+	method   string
+
+	edgeModes bool
+	samples   int
+	edgeGaps  int
+	thetaGrid string
+
+	json bool
+	out  string
+}
+
+// modelFlags are the flags that describe the operator, refused with
+// measured levels.
+var modelFlags = []string{"model", "hopping", "table", "t0", "decay", "power", "nnn", "ends", "closing", "onsite", "onsite-file", "harper", "harper-phase", "method"}
+
+func (f *spectrumFlags) register(cmd *cobra.Command) {
+	fs := cmd.Flags()
+	f.in.register(fs)
+	fs.StringVar(&f.design, "design", "", "build the chain from a JSON design `SPEC` (as phasonhull generate --spec takes) instead of FILE")
+	fs.StringVar(&f.eigenvalues, "eigenvalues", "", "analyse measured levels from `FILE` (one per line: frequencies, ω² or energies) instead of an operator")
+	fs.StringVar(&f.patternFile, "pattern", "", "with --eigenvalues: recover the angle(s) for the labels from this pattern `FILE`")
+
+	fs.StringVar(&f.model, "model", string(spectrum.Hopping), "operator: hopping (tight binding, eigenvalues are energies) or springs (unit masses, eigenvalues are ω²)")
+	fs.StringVar(&f.law, "hopping", "exp", "coupling law of hoppings or springs: exp, power or table")
+	fs.Float64Var(&f.t0, "t0", 1, "coupling at the mean spacing d̄ (exp and power laws)")
+	fs.Float64Var(&f.decay, "decay", 0, "exp law: t = t0·exp(−decay·(d/d̄ − 1))")
+	fs.Float64Var(&f.power, "power", 0, "power law: t = t0·(d/d̄)^(−power)")
+	fs.StringVar(&f.table, "table", "", "table law: `FILE` of rows distance,coupling (distance in the pattern's unit), linear between rows")
+	fs.Float64Var(&f.nnn, "nnn", 0, "next-nearest coupling ratio: bond n–n+2 carries nnn·t((d_n + d_{n+1})/2)")
+	fs.StringVar(&f.ends, "ends", string(spectrum.Open), "ends of the chain: open or periodic")
+	fs.Float64Var(&f.closing, "closing", 0, "periodic: the spacing that closes the ring (0: the mean spacing)")
+	fs.Float64Var(&f.onsite, "onsite", 0, "constant on-site term (a ground spring for springs)")
+	fs.StringVar(&f.onsiteFile, "onsite-file", "", "per-site on-site terms from `FILE`, one per line, added to --onsite")
+	fs.Float64Var(&f.harper, "harper", 0, "add the almost-Mathieu on-site term 2λ·cos 2π(nθ + φ) with this λ (θ from --theta)")
+	fs.Float64Var(&f.harperPhase, "harper-phase", 0, "φ of the almost-Mathieu term, in turns")
+	fs.StringVar(&f.method, "method", "auto", "auto, values (every level) or counting (Sturm counts, nearest neighbours only)")
+
+	fs.Float64SliceVar(&f.theta, "theta", nil, "angle(s) θ[,θ2] in turns for the labels (default: the design's, or recovered from the pattern)")
+	fs.IntVar(&f.period, "period", 0, "label the gaps k/p of a periodic chain with p sites per cell")
+	fs.IntVar(&f.maxCoeff, "max-coeff", spectrum.DefaultMaxCoeff, "largest |m| of the labels tried")
+	fs.Float64Var(&f.minGap, "min-gap", spectrum.DefaultMinGap, "smallest gap reported, relative to the width of the spectrum")
+
+	fs.BoolVar(&f.edgeModes, "edge-modes", false, "with --design: sweep the design's phase through one turn and count boundary states crossing the widest gaps")
+	fs.IntVar(&f.samples, "samples", spectrum.DefaultSamples, "with --edge-modes: phases of the first pass over the turn")
+	fs.IntVar(&f.edgeGaps, "edge-gaps", spectrum.DefaultEdgeGaps, "with --edge-modes: number of widest gaps followed")
+	fs.StringVar(&f.thetaGrid, "theta-grid", "", "with --design: the spectrum over `START:STOP:COUNT` values of θ, as CSV rows theta,eigenvalue,ids")
+
+	fs.BoolVar(&f.json, "json", false, "print the report as one JSON object")
+	fs.StringVarP(&f.out, "out", "o", "", "write the levels (or the staircase, or the θ scan) as CSV to `FILE` (nothing is written on error)")
+}
+
+// newSpectrumCmd builds "phasonhull spectrum".
+func newSpectrumCmd() *cobra.Command {
+	var f spectrumFlags
+	cmd := &cobra.Command{
+		Use:   "spectrum [FILE]",
+		Short: "Gaps, integrated density of states, gap labels and edge modes of an operator on a chain",
+		Long: `spectrum builds an operator on a chain — the pattern in FILE (or - for
+standard input), or a design (--design SPEC) — and reports the gaps of its
+spectrum: for each, the integrated density of states (IDS, the share of
+levels below it), its label n + m·θ (+ m2·θ2) in the gap-label group, its
+width and edges. With --eigenvalues it does the same for measured levels.
+
+Operators. --model hopping is the tight-binding matrix
+  H = Σ ε_n |n⟩⟨n| − Σ t (|n⟩⟨n+1| + h.c.)   (note the minus sign),
+--model springs the dynamical matrix of unit masses and springs k (its
+eigenvalues are ω²). Couplings follow from the spacing d by --hopping exp
+(t = t0·exp(−decay·(d/d̄ − 1))), power (t = t0·(d/d̄)^(−power)) or table (a
+file of distance,coupling rows, interpolated linearly, refused outside its
+range); --nnn adds next-nearest bonds. On-site terms: --onsite, --onsite-file,
+and the almost-Mathieu term --harper λ (2λ·cos 2π(nθ + φ), θ from --theta).
+--ends periodic closes the ring across --closing (default the mean spacing).
+
+Labels use the angle(s) of --theta, the period of --period, the design's own
+θ, or the angle(s) and class the hull analysis recovers from the pattern. An
+IDS matches a label within 3/N; a gap that matches none is reported
+unlabelled, never forced. On an open chain, levels inside a gap whose
+eigenvectors sit on the ends (boundary states) are listed with the gap and
+not counted: IDS = levels at or below the gap's lower edge / N.
+
+--edge-modes (with --design) sweeps the design's phase through one turn on
+an open chain and counts, for the widest gaps, the signed crossings of the
+gap's middle by the states on each end (+1 upward). For a gap of label
+n + mθ, θ the angle the phase advances by per site, the first end's states
+cross m times and the last end's −m times.
+
+--theta-grid START:STOP:COUNT (with --design) writes the whole spectrum at
+each θ as CSV rows theta,eigenvalue,ids (to --out, or standard output).
+
+Chains with nearest-neighbour bonds only are counted in O(N) per energy
+(Sturm sequences), so 10^5–10^6 sites are cheap; every level is computed up
+to 4000 sites, and next-nearest bonds are limited to that.`,
+		Example: `  # The almost-Mathieu operator at the golden angle on a uniform chain
+  phasonhull generate periodic --cell 1 --sites 1000 > chain.csv
+  phasonhull spectrum chain.csv --harper 1 --theta 0.6180339887 --min-gap 0.01
+
+  # A Fibonacci chain with spacing-dependent hopping, labels recovered from the pattern
+  phasonhull generate substitution --rule fibonacci --sites 20000 > fib.csv
+  phasonhull spectrum fib.csv --hopping exp --decay 2 --json > fib.spectrum.json
+
+  # Edge modes of a modulated design: do the boundary states cross each gap m times?
+  phasonhull spectrum --design testdata/spectrum/modulated.json --hopping exp --decay 4 --edge-modes
+
+  # Measured resonance frequencies, labelled with the angle of the sample's pattern
+  phasonhull spectrum --eigenvalues testdata/spectrum/harper_levels.csv --pattern sample.csv
+
+  # The spectrum against θ (a Hofstadter butterfly) for plotting
+  phasonhull spectrum --design testdata/spectrum/lattice.json --harper 1 --ends periodic \
+      --theta-grid 0.01:0.99:99 --out butterfly.csv`,
+		Args: cobra.MaximumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runSpectrum(cmd, args, &f)
+		},
+	}
+	f.register(cmd)
+	return cmd
+}
+
+// spectrumReport is what "phasonhull spectrum" reports, in text or JSON.
+type spectrumReport struct {
+	Schema string `json:"schema"`
+	Source string `json:"source"`
+	Sites  int    `json:"sites"`
+	Unit   string `json:"unit"`
+
+	// Operator describes the operator; nil for measured levels.
+	Operator *operatorInfo `json:"operator"`
+
+	// Angles and Period are what labelled the gaps; LabelSource says
+	// where they came from.
+	Angles      []float64 `json:"angles"`
+	Period      int       `json:"period,omitempty"`
+	LabelSource string    `json:"label_source"`
+	MaxCoeff    int       `json:"max_coeff"`
+
+	Spectrum  *spectrum.Result     `json:"spectrum"`
+	EdgeModes *spectrum.EdgeResult `json:"edge_modes,omitempty"`
+
+	Out      string   `json:"out,omitempty"`
+	Notes    []string `json:"notes"`
+	Warnings []string `json:"warnings"`
+	Caution  string   `json:"caution"`
+}
+
+// operatorInfo describes the operator of a report.
+type operatorInfo struct {
+	Model   string  `json:"model"`
+	Law     string  `json:"law"`
+	NNN     float64 `json:"nnn"`
+	Ends    string  `json:"ends"`
+	Closing float64 `json:"closing,omitempty"`
+	OnSite  string  `json:"onsite"`
+}
+
+// caution is printed with every gap table.
+const caution = "A label says which value the IDS takes in a gap of this operator: n + m·θ is the share of levels below the gap. " +
+	"Counts of a finite chain resolve an IDS to about 3/N, so a label is matched within that. " +
+	"An unlabelled gap can mean that the angle is off, that its coefficients exceed --max-coeff, or that the operator breaks the pattern's symmetry " +
+	"(an on-site term with another angle, couplings that do not follow the local configuration)."
+
+func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
+	if err := f.check(cmd, args); err != nil {
+		return err
+	}
+	rep := &spectrumReport{Schema: spectrumSchema, Notes: []string{}, Warnings: []string{}, Caution: caution, MaxCoeff: f.maxCoeff, Angles: []float64{}}
+	if f.eigenvalues != "" {
+		return runMeasured(cmd, f, rep)
+	}
+	var spec design.Spec
+	var p *pattern.Pattern
+	var err error
+	if f.design != "" {
+		if spec, err = readSpectrumSpec(f.design); err != nil {
+			return err
+		}
+		if f.thetaGrid != "" {
+			return runThetaGrid(cmd, f, spec)
+		}
+		if p, err = design.Generate(spec); err != nil {
+			return err
+		}
+		p.Source = f.design
+	} else if p, err = f.in.load(args[0], cmd.InOrStdin()); err != nil {
+		return err
+	}
+	rep.Source, rep.Sites, rep.Unit = p.Source, p.Len(), p.Unit
+	m, info, err := f.buildModel(p.Len(), f.theta)
+	if err != nil {
+		return err
+	}
+	rep.Operator = info
+	opt, err := f.labelOptions(p, spec, rep)
+	if err != nil {
+		return err
+	}
+	if f.edgeModes {
+		sweep, err := spectrum.PhaseSweep(spec)
+		if err != nil {
+			return err
+		}
+		er, err := spectrum.EdgeModes(sweep, m, spectrum.EdgeOptions{Options: opt, Samples: f.samples, Gaps: f.edgeGaps})
+		if err != nil {
+			return err
+		}
+		rep.EdgeModes, rep.Spectrum = er, er.Start
+	} else {
+		op, err := spectrum.New(p, m)
+		if err != nil {
+			return err
+		}
+		if rep.Spectrum, err = spectrum.Analyze(op, opt); err != nil {
+			return err
+		}
+		if f.out != "" {
+			if err := writeFileAtomic(f.out, func(file *os.File) error {
+				return writeSpectrumLevels(file, op, rep)
+			}); err != nil {
+				return err
+			}
+			rep.Out = f.out
+		}
+	}
+	rep.Warnings = append(rep.Warnings, rep.Spectrum.Warnings...)
+	return rep.write(cmd.OutOrStdout(), f.json)
+}
+
+// check refuses contradictory flags before anything is read.
+func (f *spectrumFlags) check(cmd *cobra.Command, args []string) error {
+	sources := 0
+	for _, on := range []bool{len(args) == 1, f.design != "", f.eigenvalues != ""} {
+		if on {
+			sources++
+		}
+	}
+	if sources != 1 {
+		return errors.New("give exactly one of FILE (a pattern), --design SPEC or --eigenvalues FILE")
+	}
+	changed := cmd.Flags().Changed
+	if f.eigenvalues != "" {
+		for _, name := range modelFlags {
+			if changed(name) {
+				return fmt.Errorf("--%s describes an operator; --eigenvalues analyses measured levels, which need none", name)
+			}
+		}
+		if f.edgeModes || f.thetaGrid != "" {
+			return errors.New("--edge-modes and --theta-grid need an operator on a design (--design), not measured levels")
+		}
+	} else if f.patternFile != "" {
+		return errors.New("--pattern gives the angles for --eigenvalues; for an operator, give the pattern as FILE")
+	}
+	if (f.edgeModes || f.thetaGrid != "") && f.design == "" {
+		return errors.New("--edge-modes and --theta-grid move a design's phase or angle: give --design SPEC")
+	}
+	if f.edgeModes && f.thetaGrid != "" {
+		return errors.New("--edge-modes and --theta-grid are separate runs; give one")
+	}
+	if f.edgeModes && f.out != "" {
+		return errors.New("--out writes levels or a θ scan; --edge-modes reports its counts in the text or JSON report")
+	}
+	if f.edgeModes && f.ends == string(spectrum.Periodic) {
+		return errors.New("--edge-modes counts states on the ends of an open chain; drop --ends periodic")
+	}
+	if len(f.theta) > 0 && f.period > 0 {
+		return errors.New("--theta and --period are two ways to label; give one")
+	}
+	if f.period < 0 || f.maxCoeff < 1 || f.samples < 1 || f.edgeGaps < 1 {
+		return fmt.Errorf("--period %d, --max-coeff %d, --samples %d, --edge-gaps %d: the period must not be negative, the others must be positive",
+			f.period, f.maxCoeff, f.samples, f.edgeGaps)
+	}
+	if (f.law == "table") != (f.table != "") {
+		return errors.New("--hopping table and --table FILE go together")
+	}
+	if changed("closing") && f.ends != string(spectrum.Periodic) {
+		return errors.New("--closing closes a ring: give --ends periodic")
+	}
+	if changed("harper-phase") && f.harper == 0 {
+		return errors.New("--harper-phase is the phase of the almost-Mathieu term: give --harper λ")
+	}
+	if f.harper != 0 && len(f.theta) != 1 && f.thetaGrid == "" {
+		return errors.New("--harper needs its angle: give one --theta")
+	}
+	return nil
+}
+
+// buildModel turns the flags into a spectrum.Model for n sites; theta is
+// the almost-Mathieu angle (ignored without --harper).
+func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *operatorInfo, error) {
+	var m spectrum.Model
+	switch spectrum.Kind(f.model) {
+	case spectrum.Hopping, spectrum.Springs:
+		m.Kind = spectrum.Kind(f.model)
+	default:
+		return m, nil, fmt.Errorf("--model %q: want hopping or springs", f.model)
+	}
+	switch spectrum.Ends(f.ends) {
+	case spectrum.Open, spectrum.Periodic:
+		m.Ends = spectrum.Ends(f.ends)
+	default:
+		return m, nil, fmt.Errorf("--ends %q: want open or periodic", f.ends)
+	}
+	for name, v := range map[string]float64{"t0": f.t0, "decay": f.decay, "power": f.power, "nnn": f.nnn, "closing": f.closing, "onsite": f.onsite, "harper": f.harper, "harper-phase": f.harperPhase} {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return m, nil, fmt.Errorf("--%s %v: not a finite number", name, v)
+		}
+	}
+	switch f.law {
+	case "exp":
+		m.Law = spectrum.Exp{T0: f.t0, Decay: f.decay}
+	case "power":
+		m.Law = spectrum.Power{T0: f.t0, Power: f.power}
+	case "table":
+		file, err := os.Open(f.table)
+		if err != nil {
+			return m, nil, fmt.Errorf("--table: %w", err)
+		}
+		defer file.Close()
+		t, err := spectrum.ReadTable(file, f.table)
+		if err != nil {
+			return m, nil, err
+		}
+		m.Law = t
+	default:
+		return m, nil, fmt.Errorf("--hopping %q: want exp, power or table", f.law)
+	}
+	if f.t0 == 0 && f.law != "table" {
+		return m, nil, errors.New("--t0 0 couples nothing: every level would be an on-site term")
+	}
+	m.NNN, m.Closing = f.nnn, f.closing
+	m.OnSite.Constant = f.onsite
+	onsite := fmt.Sprintf("%g", f.onsite)
+	if f.onsiteFile != "" {
+		file, err := os.Open(f.onsiteFile)
+		if err != nil {
+			return m, nil, fmt.Errorf("--onsite-file: %w", err)
+		}
+		defer file.Close()
+		v, err := spectrum.ReadValues(file, f.onsiteFile)
+		if err != nil {
+			return m, nil, err
+		}
+		if len(v) != n {
+			return m, nil, fmt.Errorf("--onsite-file %s: %d values for %d sites", f.onsiteFile, len(v), n)
+		}
+		m.OnSite.Values = v
+		onsite += " + values from " + f.onsiteFile
+	}
+	if f.harper != 0 {
+		m.OnSite.Lambda, m.OnSite.Phase = f.harper, f.harperPhase
+		if len(theta) > 0 {
+			m.OnSite.Theta = theta[0]
+		}
+		onsite += fmt.Sprintf(" + 2·%g·cos 2π(nθ + %g)", f.harper, f.harperPhase)
+	}
+	info := &operatorInfo{Model: string(m.Kind), Law: m.Law.String(), NNN: m.NNN, Ends: string(m.Ends), Closing: m.Closing, OnSite: onsite}
+	return m, info, nil
+}
+
+// labelOptions chooses what labels the gaps, in order: --theta, --period,
+// the design's own angle(s) or period, the hull analysis of the pattern.
+func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
+	opt := spectrum.Options{MinGap: f.minGap, MaxCoeff: f.maxCoeff}
+	switch f.method {
+	case "auto":
+	case "values", "counting":
+		opt.Method = spectrum.Method(f.method)
+	default:
+		return opt, fmt.Errorf("--method %q: want auto, values or counting", f.method)
+	}
+	switch {
+	case len(f.theta) > 0:
+		opt.Angles, rep.LabelSource = f.theta, "given (--theta)"
+	case f.period > 0:
+		opt.Period, rep.LabelSource = f.period, "given (--period)"
+	case f.design != "" && spec.Theta != 0:
+		// A valid spec has θ ≠ 0 exactly when its family takes θ.
+		opt.Angles = []float64{spec.Theta}
+		if spec.Theta2 != 0 {
+			opt.Angles = append(opt.Angles, spec.Theta2)
+		}
+		rep.LabelSource = "the design's θ"
+	case f.design != "" && spec.Family == "periodic":
+		opt.Period, rep.LabelSource = len(spec.Cell), "the design's cell"
+	default:
+		res, err := hull.Analyze(p, hull.Options{MaxCoeff: f.maxCoeff})
+		if err != nil {
+			return opt, err
+		}
+		rep.LabelSource = fmt.Sprintf("recovered by the hull analysis (%s hull)", res.Hull.Class)
+		switch res.Hull.Class {
+		case hull.Finite:
+			opt.Period = res.Hull.Period
+		case hull.Circle, hull.Torus:
+			opt.Angles = res.Angles
+			// An uncertain angle widens the match by |m|·σ.
+			sig := 0.0
+			for _, s := range res.AngleUncertainty {
+				sig = max(sig, s)
+			}
+			opt.Resolution = spectrum.DefaultResolution/float64(p.Len()) + float64(f.maxCoeff)*sig
+		case hull.Point:
+			rep.Notes = append(rep.Notes, "the pattern is periodic with one site per cell: its gap-label group is Z, no gap inside the spectrum has a label")
+		default:
+			rep.Warnings = append(rep.Warnings, "the hull analysis could not decide the class ("+res.Hull.Reason+"); the gaps are not labelled — give --theta or --period")
+		}
+		rep.Warnings = append(rep.Warnings, res.Warnings...)
+	}
+	rep.Angles, rep.Period = opt.Angles, opt.Period
+	if rep.Angles == nil {
+		rep.Angles = []float64{}
+	}
+	return opt, nil
+}
+
+// runMeasured analyses measured levels.
+func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) error {
+	file, err := os.Open(f.eigenvalues)
+	if err != nil {
+		return err
+	}
+	defer file.Close()
+	v, err := spectrum.ReadValues(file, f.eigenvalues)
+	if err != nil {
+		return err
+	}
+	rep.Source, rep.Sites = f.eigenvalues, len(v)
+	var p *pattern.Pattern
+	if f.patternFile != "" {
+		if p, err = f.in.load(f.patternFile, cmd.InOrStdin()); err != nil {
+			return err
+		}
+	} else if len(f.theta) == 0 && f.period == 0 {
+		return errors.New("--eigenvalues needs the angle(s) to label with: give --theta, --period or --pattern FILE")
+	}
+	opt, err := f.labelOptions(p, design.Spec{}, rep)
+	if err != nil {
+		return err
+	}
+	if rep.Spectrum, err = spectrum.AnalyzeMeasured(v, opt); err != nil {
+		return err
+	}
+	if p != nil && p.Len() != len(v) {
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d levels for a pattern of %d sites: a level missing from the list lowers every IDS above it by 1/N", len(v), p.Len()))
+	}
+	if f.out != "" {
+		if err := writeFileAtomic(f.out, func(file *os.File) error {
+			return writeSpectrumLevels(file, nil, rep)
+		}); err != nil {
+			return err
+		}
+		rep.Out = f.out
+	}
+	rep.Warnings = append(rep.Warnings, rep.Spectrum.Warnings...)
+	return rep.write(cmd.OutOrStdout(), f.json)
+}
+
+// runThetaGrid writes the spectrum over a grid of θ as CSV.
+func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error {
+	thetas, err := parseThetaGrid(f.thetaGrid)
+	if err != nil {
+		return err
+	}
+	m, _, err := f.buildModel(spec.Sites, nil)
+	if err != nil {
+		return err
+	}
+	scan := func(w io.Writer) error {
+		bw := bufio.NewWriter(w)
+		fmt.Fprintf(bw, "# phasonhull spectrum: every level of %s over %d values of θ; ids = (index + 1)/N\n", f.design, len(thetas))
+		bw.WriteString("theta,eigenvalue,ids\n")
+		var buf []byte
+		err := spectrum.ScanTheta(spec, m, thetas, func(theta float64, v []float64) error {
+			for k, e := range v {
+				buf = strconv.AppendFloat(buf[:0], theta, 'g', -1, 64)
+				buf = append(buf, ',')
+				buf = strconv.AppendFloat(buf, e, 'g', -1, 64)
+				buf = append(buf, ',')
+				buf = strconv.AppendFloat(buf, float64(k+1)/float64(len(v)), 'g', -1, 64)
+				buf = append(buf, '\n')
+				if _, err := bw.Write(buf); err != nil {
+					return err
+				}
+			}
+			return nil
+		})
+		if err != nil {
+			return err
+		}
+		return bw.Flush()
+	}
+	if f.out == "" {
+		// Standard output: compute first, so that an error writes nothing.
+		var sb strings.Builder
+		if err := scan(&sb); err != nil {
+			return err
+		}
+		_, err := io.WriteString(cmd.OutOrStdout(), sb.String())
+		return err
+	}
+	if err := writeFileAtomic(f.out, func(file *os.File) error { return scan(file) }); err != nil {
+		return err
+	}
+	fmt.Fprintf(cmd.OutOrStdout(), "written     %s: the spectrum at %d values of θ\n", f.out, len(thetas))
+	return nil
+}
+
+// parseGrid reads START:STOP:COUNT into COUNT evenly spaced values from
+// START to STOP inclusive.
+func parseThetaGrid(s string) ([]float64, error) {
+	parts := strings.Split(s, ":")
+	if len(parts) != 3 {
+		return nil, fmt.Errorf("--theta-grid %q: want START:STOP:COUNT, e.g. 0.01:0.99:99", s)
+	}
+	a, err1 := strconv.ParseFloat(parts[0], 64)
+	b, err2 := strconv.ParseFloat(parts[1], 64)
+	n, err3 := strconv.Atoi(parts[2])
+	if err1 != nil || err2 != nil || err3 != nil || math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) {
+		return nil, fmt.Errorf("--theta-grid %q: START and STOP must be numbers and COUNT an integer", s)
+	}
+	if n < 1 || n > 100_000 {
+		return nil, fmt.Errorf("--theta-grid %q: COUNT must lie in 1..100000", s)
+	}
+	if n == 1 {
+		return []float64{a}, nil
+	}
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = a + (b-a)*float64(i)/float64(n-1)
+	}
+	return v, nil
+}
+
+// readSpec reads a design spec file.
+func readSpectrumSpec(path string) (design.Spec, error) {
+	file, err := os.Open(path)
+	if err != nil {
+		return design.Spec{}, err
+	}
+	defer file.Close()
+	return design.ReadSpec(file, path)
+}
+
+// writeLevels writes every level with the IDS just above it, or, when the
+// levels were counted rather than computed, the counting staircase on an
+// energy grid.
+func writeSpectrumLevels(out io.Writer, op *spectrum.Operator, rep *spectrumReport) error {
+	w := bufio.NewWriter(out)
+	r := rep.Spectrum
+	var buf []byte
+	row := func(x, ids float64) {
+		buf = strconv.AppendFloat(buf[:0], x, 'g', -1, 64)
+		buf = append(buf, ',')
+		buf = strconv.AppendFloat(buf, ids, 'g', -1, 64)
+		buf = append(buf, '\n')
+		w.Write(buf)
+	}
+	if r.Values != nil {
+		fmt.Fprintf(w, "# phasonhull spectrum: the %d levels of %s; ids = (index + 1)/N, the IDS just above each level\n", len(r.Values), rep.Source)
+		w.WriteString("eigenvalue,ids\n")
+		for k, e := range r.Values {
+			row(e, float64(k+1)/float64(len(r.Values)))
+		}
+		return w.Flush()
+	}
+	// The grid reaches a thousandth of the width past the extreme levels,
+	// so that the staircase starts at 0 and ends at 1.
+	const points = 2001
+	fmt.Fprintf(w, "# phasonhull spectrum: the counting staircase of %s (%d sites) at %d energies; ids = levels below the energy / N\n", rep.Source, r.Sites, points)
+	w.WriteString("energy,ids\n")
+	pad := 1e-3 * (r.Highest - r.Lowest)
+	lo, hi := r.Lowest-pad, r.Highest+pad
+	for i := range points {
+		e := lo + (hi-lo)*float64(i)/(points-1)
+		c, err := op.Count(e)
+		if err != nil {
+			return err
+		}
+		row(e, float64(c)/float64(r.Sites))
+	}
+	return w.Flush()
+}
+
+// write prints the report as text or JSON.
+func (rep *spectrumReport) write(out io.Writer, asJSON bool) error {
+	if asJSON {
+		enc := json.NewEncoder(out)
+		enc.SetIndent("", "  ")
+		return enc.Encode(rep)
+	}
+	var b strings.Builder
+	r := rep.Spectrum
+	unit := rep.Unit
+	if unit == "" {
+		unit = "(no unit)"
+	}
+	if o := rep.Operator; o != nil {
+		bonds := "nearest neighbours"
+		if o.NNN != 0 {
+			bonds = fmt.Sprintf("next-nearest ratio %g", o.NNN)
+		}
+		ends := o.Ends
+		if o.Ends == string(spectrum.Periodic) {
+			ends = "periodic (closing spacing: the mean)"
+			if o.Closing != 0 {
+				ends = fmt.Sprintf("periodic (closing spacing %g %s)", o.Closing, unit)
+			}
+		}
+		fmt.Fprintf(&b, "chain       %s: %d sites, %s\n", rep.Source, rep.Sites, unit)
+		fmt.Fprintf(&b, "operator    %s, %s, %s, ends %s, on-site %s\n", o.Model, o.Law, bonds, ends, o.OnSite)
+	} else {
+		fmt.Fprintf(&b, "levels      %s: %d measured levels\n", rep.Source, rep.Sites)
+	}
+	fmt.Fprintf(&b, "spectrum    [%.6g, %.6g] by %s; gaps wider than %.3g (%.3g of the width)\n", r.Lowest, r.Highest, r.Method, r.MinGap, r.MinGap/(r.Highest-r.Lowest))
+	switch {
+	case len(rep.Angles) == 1:
+		fmt.Fprintf(&b, "labels      n + m·θ, θ = %.9g, |m| ≤ %d, %s; matched within %.3g (%.3g/N)\n", rep.Angles[0], rep.MaxCoeff, rep.LabelSource, r.Resolution, r.Resolution*float64(r.Sites))
+	case len(rep.Angles) == 2:
+		fmt.Fprintf(&b, "labels      n + m1·θ1 + m2·θ2, θ = %.9g, %.9g, |m| ≤ %d, %s; matched within %.3g (%.3g/N)\n", rep.Angles[0], rep.Angles[1], rep.MaxCoeff, rep.LabelSource, r.Resolution, r.Resolution*float64(r.Sites))
+	case rep.Period > 0:
+		fmt.Fprintf(&b, "labels      k/%d, %s; matched within %.3g (%.3g/N)\n", rep.Period, rep.LabelSource, r.Resolution, r.Resolution*float64(r.Sites))
+	default:
+		fmt.Fprintf(&b, "labels      none (%s)\n", rep.LabelSource)
+	}
+	labelled := 0
+	for _, g := range r.Gaps {
+		if g.Label != nil {
+			labelled++
+		}
+	}
+	fmt.Fprintf(&b, "gaps        %d, %d labelled\n", len(r.Gaps), labelled)
+	if len(r.Gaps) > 0 {
+		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
+		fmt.Fprintf(tw, "\t#\tIDS\tlabel\tlabel IDS\twidth\trelative\tlower edge\tupper edge\tboundary states\t\n")
+		for i, g := range r.Gaps {
+			lab, lids := "unlabelled", "-"
+			if g.Label != nil {
+				lab, lids = ints(g.Label.Coeffs), fmt.Sprintf("%.6f", g.Label.IDS)
+			}
+			fmt.Fprintf(tw, "\t%d\t%.6f\t%s\t%s\t%.4g\t%.4f\t%.6g\t%.6g\t%d\t\n", i+1, g.IDS, lab, lids, g.Width, g.RelWidth, g.Lower, g.Upper, len(g.Boundary))
+		}
+		tw.Flush()
+	}
+	if er := rep.EdgeModes; er != nil {
+		fmt.Fprintf(&b, "edge modes  %d phases over one turn; signed crossings of each gap's middle (+1 upward), first end and last end; expected +m and −m\n", er.Phases)
+		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
+		fmt.Fprintf(tw, "\tIDS\tlabel\tm\tfirst end\tlast end\tunresolved\tagrees\t\n")
+		for _, g := range er.Gaps {
+			lab, m := "unlabelled", "-"
+			if l := g.Gap.Label; l != nil {
+				lab, m = ints(l.Coeffs), fmt.Sprintf("%+d", l.Coeffs[1])
+			}
+			fmt.Fprintf(tw, "\t%.6f\t%s\t%s\t%+d\t%+d\t%d\t%v\t\n", g.Gap.IDS, lab, m, g.First, g.Last, g.Unresolved, g.Agrees)
+		}
+		tw.Flush()
+	}
+	if rep.Out != "" {
+		fmt.Fprintf(&b, "written     %s\n", rep.Out)
+	}
+	fmt.Fprintf(&b, "caution     %s\n", rep.Caution)
+	for _, n := range rep.Notes {
+		fmt.Fprintf(&b, "note        %s\n", n)
+	}
+	for _, n := range rep.Warnings {
+		fmt.Fprintf(&b, "warning     %s\n", n)
+	}
+	_, err := io.WriteString(out, b.String())
+	return err
+}
