@@ -129,7 +129,7 @@ func splitFields(s string, buf []string) (fields []string, col int) {
 	case strings.IndexByte(s, ',') >= 0:
 		fields = append(fields, strings.Split(s, ",")...)
 	case !mayHoldSpace(s):
-		return append(fields, unquote(s)), 0 // the common one-number line
+		fields = append(fields, s) // the common one-number line; checked below like the rest
 	default:
 		fields = append(fields, strings.Fields(s)...)
 	}

@@ -1,0 +1,162 @@
+package pattern
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// fuzzSeeds adds every file of testdata/read/good and testdata/read/bad to
+// the seed corpus of f, so the fuzzer starts from real layouts and from the
+// faults already known.
+func fuzzSeeds(f *testing.F, add func(data []byte)) {
+	for _, dir := range []string{"good", "bad"} {
+		paths, err := filepath.Glob(filepath.Join("..", "testdata", "read", dir, "*"))
+		if err != nil {
+			f.Fatal(err)
+		}
+		for _, p := range paths {
+			data, err := os.ReadFile(p)
+			if err != nil {
+				f.Fatal(err)
+			}
+			add(data)
+		}
+	}
+}
+
+// checkRead asserts the contract of Read on arbitrary bytes: it returns
+// either an *InputError naming the source, or a Pattern that keeps the
+// documented invariant (at least MinSites finite positions, strictly
+// ascending, one Rows entry per site).
+func checkRead(t *testing.T, data []byte, opt ReadOptions) {
+	t.Helper()
+	p, err := Read(bytes.NewReader(data), "fuzz.in", opt)
+	if err != nil {
+		var ie *InputError
+		if !errors.As(err, &ie) {
+			t.Fatalf("error %q (%T) is not an *InputError", err, err)
+		}
+		if ie.File != "fuzz.in" {
+			t.Fatalf("error names file %q, want fuzz.in", ie.File)
+		}
+		if p != nil {
+			t.Fatalf("a pattern came back with the error %v", err)
+		}
+		return
+	}
+	if p == nil {
+		t.Fatal("nil pattern and nil error")
+	}
+	checkInvariant(t, p)
+}
+
+// checkInvariant asserts the Pattern invariant stated on the type.
+func checkInvariant(t *testing.T, p *Pattern) {
+	t.Helper()
+	if len(p.Positions) < MinSites {
+		t.Fatalf("%d sites, want at least %d", len(p.Positions), MinSites)
+	}
+	for i, x := range p.Positions {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			t.Fatalf("position %d is %v", i, x)
+		}
+		if i > 0 && !(x > p.Positions[i-1]) {
+			t.Fatalf("positions %d,%d = %v,%v not strictly ascending", i-1, i, p.Positions[i-1], x)
+		}
+	}
+	if p.Rows != nil && len(p.Rows) != len(p.Positions) {
+		t.Fatalf("%d rows for %d sites", len(p.Rows), len(p.Positions))
+	}
+	if m := p.MeanSpacing(); math.IsNaN(m) || math.IsInf(m, 0) || m <= 0 {
+		t.Fatalf("mean spacing %v", m)
+	}
+}
+
+// FuzzReadAuto feeds arbitrary bytes to Read with format detection, which
+// reaches the column, centroid, tile (refused without lengths) and JSON
+// readers.
+func FuzzReadAuto(f *testing.F) {
+	fuzzSeeds(f, func(data []byte) { f.Add(data) })
+	f.Fuzz(func(t *testing.T, data []byte) {
+		checkRead(t, data, ReadOptions{})
+	})
+}
+
+// FuzzReadColumns feeds arbitrary bytes to the column reader, both as
+// positions and as spacings.
+func FuzzReadColumns(f *testing.F) {
+	fuzzSeeds(f, func(data []byte) { f.Add(data, false) })
+	f.Add([]byte("1\n2\n3\n4\n5\n6\n7\n8\n9\n"), true)
+	f.Fuzz(func(t *testing.T, data []byte, spacings bool) {
+		opt := ReadOptions{Format: FormatColumn}
+		if spacings {
+			opt.Format = FormatSpacings
+		}
+		checkRead(t, data, opt)
+	})
+}
+
+// FuzzReadCentroids feeds arbitrary bytes to the centroid reader.
+func FuzzReadCentroids(f *testing.F) {
+	fuzzSeeds(f, func(data []byte) { f.Add(data) })
+	f.Fuzz(func(t *testing.T, data []byte) {
+		checkRead(t, data, ReadOptions{Format: FormatCentroids})
+	})
+}
+
+// FuzzReadTiles feeds arbitrary bytes and tile-length strings to the tile
+// reader, the way "--tiles A=1,B=1.618" reaches it.
+func FuzzReadTiles(f *testing.F) {
+	fuzzSeeds(f, func(data []byte) { f.Add(data, "A=1,B=1.618") })
+	f.Add([]byte("ABAABABAABAAB"), "A=1,B=0")
+	f.Add([]byte("ABAABABAABAAB"), "A=1e308,B=1e308")
+	f.Fuzz(func(t *testing.T, data []byte, lengths string) {
+		tiles, err := ParseTileLengths(lengths)
+		if err != nil {
+			return
+		}
+		for k, v := range tiles {
+			if math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
+				t.Fatalf("ParseTileLengths(%q) accepted %s=%v", lengths, k, v)
+			}
+		}
+		checkRead(t, data, ReadOptions{Format: FormatTiles, Tiles: tiles})
+	})
+}
+
+// FuzzReadJSON feeds arbitrary bytes to the JSON reader.
+func FuzzReadJSON(f *testing.F) {
+	fuzzSeeds(f, func(data []byte) { f.Add(data) })
+	f.Add([]byte(`{"positions":[0,1,2,3,4,5,6,7,8,9e999999999]}`))
+	f.Add([]byte(`{"sites":[[[[[[[[[[[[[[[[[[[[]]]]]]]]]]]]]]]]]]]}`))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		checkRead(t, data, ReadOptions{Format: FormatJSON})
+	})
+}
+
+// FuzzNew builds patterns from arbitrary float64s, as the generators and
+// the callers of the library do.
+func FuzzNew(f *testing.F) {
+	f.Add(0.0, 1.0, 1.618, 1e-9, 12)
+	f.Add(math.MaxFloat64, -math.MaxFloat64, 1.0, 0.0, 9)
+	f.Add(0.0, 1.0, -1.0, 5e-324, 64)
+	f.Fuzz(func(t *testing.T, start, a, b, c float64, n int) {
+		n = min(max(n, 0), 64)
+		pos := make([]float64, n)
+		x := start
+		steps := [3]float64{a, b, c}
+		for i := range pos {
+			pos[i] = x
+			x += steps[i%3]
+		}
+		p, err := New(pos, "", "fuzz")
+		if err != nil {
+			return
+		}
+		checkInvariant(t, p)
+	})
+}
