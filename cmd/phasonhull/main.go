@@ -28,8 +28,15 @@ func main() {
 
 // run executes one command line and returns the exit status. Any panic
 // that escapes a command is turned into exitInternal with a bug-report
-// hint, so no stack trace reaches a user unasked.
-func run(args []string, stdin io.Reader, stdout, stderr io.Writer) (code int) {
+// hint (see guard), so no stack trace reaches a user unasked.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	return guard(stderr, func() int { return execute(args, stdin, stdout, stderr) })
+}
+
+// guard calls f and returns its status; a panic in f becomes exitInternal
+// with a bug-report hint on stderr, and the stack trace only when the
+// environment sets PHASONHULL_TRACE.
+func guard(stderr io.Writer, f func() int) (code int) {
 	defer func() {
 		if r := recover(); r != nil {
 			fmt.Fprintf(stderr, "phasonhull: internal error: %v\n", r)
@@ -41,6 +48,11 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) (code int) {
 			code = exitInternal
 		}
 	}()
+	return f()
+}
+
+// execute runs one command line without the panic guard.
+func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	root := newRootCmd(stdin, stdout, stderr)
 	root.SetArgs(args)
 	err := root.Execute()
