@@ -1,0 +1,219 @@
+package picture
+
+import (
+	"bytes"
+	"image"
+	"image/png"
+	"math"
+	"strings"
+	"sync"
+	"testing"
+
+	"phasonhull/pattern"
+	"phasonhull/topology/hull"
+)
+
+const demo = "../../../../testdata/demo/lw0412_cmm.csv"
+
+var (
+	demoOnce sync.Once
+	demoRes  [2]*hull.Result
+	demoErr  error
+)
+
+// demoResults analyses the demo sample twice with the same seed.
+func demoResults(t *testing.T) [2]*hull.Result {
+	t.Helper()
+	demoOnce.Do(func() {
+		for i := range demoRes {
+			p, err := pattern.ReadFile(demo, pattern.ReadOptions{})
+			if err != nil {
+				demoErr = err
+				return
+			}
+			if demoRes[i], err = hull.Analyze(p, hull.Options{Seed: 7}); err != nil {
+				demoErr = err
+				return
+			}
+		}
+	})
+	if demoErr != nil {
+		t.Fatal(demoErr)
+	}
+	return demoRes
+}
+
+// auditOf builds the audit figure's input from a result's own-hull
+// residuals, flagging sites beyond four robust sigmas.
+func auditOf(r *hull.Result, positions []float64) AuditSites {
+	a := AuditSites{Source: r.Source, Unit: r.Unit, Verdict: "pass"}
+	var abs []float64
+	for i, x := range r.SiteResiduals {
+		if math.IsNaN(x) {
+			a.Extra = append(a.Extra, positions[i])
+			continue
+		}
+		a.Position = append(a.Position, positions[i])
+		a.Residual = append(a.Residual, x)
+		abs = append(abs, math.Abs(x))
+	}
+	// 1.4826 × median absolute deviation: the normal-consistent robust
+	// sigma (common practice).
+	med := median(abs)
+	a.OutlierThreshold = 4 * 1.4826 * med
+	a.Tolerance = 6 * 1.4826 * med
+	for _, x := range a.Residual {
+		a.Flagged = append(a.Flagged, math.Abs(x) > a.OutlierThreshold)
+	}
+	a.Missing = []float64{positions[len(positions)/2] + 0.5*r.MeanSpacing}
+	return a
+}
+
+func median(v []float64) float64 {
+	s := append([]float64(nil), v...)
+	for i := 1; i < len(s); i++ {
+		for j := i; j > 0 && s[j] < s[j-1]; j-- {
+			s[j], s[j-1] = s[j-1], s[j]
+		}
+	}
+	return s[len(s)/2]
+}
+
+// demoPictures draws every figure of result r.
+func demoPictures(t *testing.T, r *hull.Result) []*Picture {
+	t.Helper()
+	pics, err := Analysis(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := pattern.ReadFile(demo, pattern.ReadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	au, err := Audit(auditOf(r, p.Positions))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return append(pics, au)
+}
+
+// luminanceVariance is the variance of the grey level over all pixels.
+func luminanceVariance(img image.Image) float64 {
+	b := img.Bounds()
+	var s, s2, n float64
+	for y := b.Min.Y; y < b.Max.Y; y++ {
+		for x := b.Min.X; x < b.Max.X; x++ {
+			r, g, bl, _ := img.At(x, y).RGBA()
+			l := (0.299*float64(r) + 0.587*float64(g) + 0.114*float64(bl)) / 65535
+			s += l
+			s2 += l * l
+			n++
+		}
+	}
+	m := s / n
+	return s2/n - m*m
+}
+
+func TestDemoPictures(t *testing.T) {
+	res := demoResults(t)
+	if res[0].Hull.Class != hull.Circle {
+		t.Logf("demo hull is %s; the angle figure needs a circle", res[0].Hull.Class)
+	}
+	first, second := demoPictures(t, res[0]), demoPictures(t, res[1])
+	names := map[string]bool{}
+	for i, pic := range first {
+		names[pic.Name] = true
+		a, err := pic.Bytes(PNG)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := second[i].Bytes(PNG)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(a, b) {
+			t.Errorf("%s: two analyses with the same seed drew different PNGs", pic.Name)
+		}
+		img, err := png.Decode(bytes.NewReader(a))
+		if err != nil {
+			t.Fatalf("%s: %v", pic.Name, err)
+		}
+		w, h := pic.Pixels()
+		if got := img.Bounds().Size(); got.X != w || got.Y != h {
+			t.Errorf("%s: %v pixels, want %dx%d", pic.Name, got, w, h)
+		}
+		if w < 6*DPI {
+			t.Errorf("%s: %d pixels wide, want at least 6 in at %d dpi", pic.Name, w, DPI)
+		}
+		// A white page with a few lines of text has a variance near
+		// 0.005; plotted panels are far above.
+		if v := luminanceVariance(img); v < 0.01 {
+			t.Errorf("%s: luminance variance %.4g: looks blank", pic.Name, v)
+		}
+		svg, err := pic.Bytes(SVG)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(string(svg[:min(len(svg), 400)]), "<svg") {
+			t.Errorf("%s: SVG output does not start an <svg> element", pic.Name)
+		}
+	}
+	for _, want := range []string{"hull-projections", "persistence", "audit"} {
+		if !names[want] {
+			t.Errorf("no %s picture for the demo", want)
+		}
+	}
+	if res[0].Hull.Class == hull.Circle && !names["angle"] {
+		t.Error("no angle picture for a circle")
+	}
+}
+
+// TestLiftClosedForm checks the unwrapping on an exact rotation φ_i =
+// frac(c + θ·i) with a gap in the rows: the lift is a straight line of
+// slope θ (folded into [−½, ½)), with zero residual.
+func TestLiftClosedForm(t *testing.T) {
+	for _, theta := range []float64{0.3183, 0.7071, -0.2, 0.05} {
+		var rows []int
+		var phi []float64
+		for i := 0; i < 300; i++ {
+			if i >= 100 && i < 104 { // four vectors left out
+				continue
+			}
+			x := 0.37 + theta*float64(i)
+			rows, phi = append(rows, i), append(phi, x-math.Floor(x))
+		}
+		l, err := LiftCoordinate(rows, phi)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := wrap(theta)
+		if math.Abs(l.Slope-want) > 1e-9 {
+			t.Errorf("θ = %g: slope %.12f, want %.12f", theta, l.Slope, want)
+		}
+		for i := range l.Site {
+			if r := l.Turns[i] - l.Fit[i]; math.Abs(r) > 1e-9 {
+				t.Fatalf("θ = %g: residual %g at site %g", theta, r, l.Site[i])
+			}
+		}
+	}
+}
+
+func TestCyclicClosesTheLoop(t *testing.T) {
+	if cyclic(0) != cyclic(1) || cyclic(0.25) != cyclic(1.25) {
+		t.Error("the circular colour map is not periodic in turns")
+	}
+	if cyclic(0) == cyclic(0.5) {
+		t.Error("opposite phases get the same colour")
+	}
+}
+
+func TestParseFormat(t *testing.T) {
+	for _, s := range []string{"png", "svg"} {
+		if f, err := ParseFormat(s); err != nil || string(f) != s {
+			t.Errorf("ParseFormat(%q) = %q, %v", s, f, err)
+		}
+	}
+	if _, err := ParseFormat("gif"); err == nil {
+		t.Error("ParseFormat accepted gif")
+	}
+}
