@@ -168,7 +168,7 @@ func TestBadStdinBeyondLimits(t *testing.T) {
 		t.Skip("set PHASONHULL_BIG_TESTS=1 to stream inputs past MaxJSONBytes and MaxSites")
 	}
 	t.Run("json", func(t *testing.T) {
-		// '{"positions":[0,0,0,...' with no end, one byte past the limit.
+		// '{"positions":[0,0,0,...' with no end, just past the limit.
 		body := io.LimitReader(repeatReader("0,"), pattern.MaxJSONBytes)
 		in := io.MultiReader(strings.NewReader(`{"positions":[`), body)
 		c := badCase{want: "is larger than 536870912 bytes, the limit for JSON input"}
