@@ -57,8 +57,13 @@ func (a *analysis) tiles() (bool, error) {
 		return false, nil
 	}
 	word := fillMissing(t)
-	if strings.ContainsRune(word, tiling.OddMark) {
+	// Spacings that match neither a tile nor a pair (two sites missing
+	// in a row, a defect) are few in a tiling; more than 1% and the chain
+	// is not read as one.
+	if odd := strings.Count(word, string(tiling.OddMark)); odd > len(word)/100 {
 		return false, nil
+	} else if odd > 0 {
+		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("%d spacing(s) match neither a tile nor two tiles and are left as gaps in the word", odd))
 	}
 	ws, err := tiling.Analyze(word, tiling.WordOptions{})
 	if err != nil {
@@ -86,7 +91,7 @@ func (a *analysis) tiles() (bool, error) {
 	case tiling.Sturmian:
 		h.Class, h.Betti, h.Confidence = Cantor, []int{}, 1
 		h.Reason = fmt.Sprintf("a tiling of two tile lengths whose word has complexity p(n) = n + 1 up to n = %d: a Sturmian word, whose hull is a Cantor set (Morse & Hedlund 1940)", ws.Examined)
-		if lo, hi, ok := sturmianSlope(word, t.Letters[1]); ok {
+		if lo, hi, ok := sturmianSlope(longestRun(word, byte(tiling.OddMark)), t.Letters[1]); ok {
 			// The midpoint of the slopes consistent with every factor; the
 			// half-width bounds the error.
 			a.setAngles([]float64{(lo + hi) / 2}, []float64{(hi - lo) / 2})
@@ -147,6 +152,9 @@ func (a *analysis) tileResiduals(t *tiling.Tiles, word string) {
 	w := 0
 	for i, c := range t.Word {
 		step := length[c]
+		if c == tiling.OddMark {
+			step = a.p.Positions[i+1] - a.p.Positions[i] // no tile to compare it with
+		}
 		if c == tiling.MissingMark {
 			step = length[rune(word[w])] + length[rune(word[w+1])]
 			w++
@@ -221,6 +229,17 @@ func fillMissing(t *tiling.Tiles) string {
 
 // fillContext is the factor length fillMissing judges a pair order by.
 const fillContext = 8
+
+// longestRun returns the longest piece of w without the byte sep.
+func longestRun(w string, sep byte) string {
+	best := ""
+	for _, part := range strings.Split(w, string(sep)) {
+		if len(part) > len(best) {
+			best = part
+		}
+	}
+	return best
+}
 
 func abbreviate(s string, n int) string {
 	if len(s) <= n {
