@@ -19,6 +19,7 @@ type analyzeFlags struct {
 	memory    string
 	json      bool
 	allLabels bool
+	plot      plotFlags
 }
 
 // newAnalyzeCmd builds "phasonhull analyze", the main job.
@@ -65,12 +66,16 @@ README).`,
 	fs.StringVar(&f.memory, "memory", "", "memory budget of the persistence computation, e.g. 4GiB (default: the engine's)")
 	fs.BoolVar(&f.json, "json", false, "print the result as one JSON object")
 	fs.BoolVar(&f.allLabels, "all-labels", false, "list every gap label in the text output (default: the first 12)")
+	f.plot.register(fs)
 	return cmd
 }
 
 func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	p, err := f.in.load(path, cmd.InOrStdin())
 	if err != nil {
+		return err
+	}
+	if err := f.plot.validate(); err != nil {
 		return err
 	}
 	opt := f.opt
@@ -81,6 +86,9 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	}
 	res, err := hull.Analyze(p, opt)
 	if err != nil {
+		return err
+	}
+	if err := f.plot.writeAnalysis(res); err != nil {
 		return err
 	}
 	out := cmd.OutOrStdout()

@@ -41,6 +41,7 @@ type auditFlags struct {
 	seed         uint64
 	json         bool
 	out          string
+	plot         plotFlags // analyze's --plot; batch leaves it empty
 }
 
 // registerAudit adds the flags that decide an audit (not the input or
@@ -142,6 +143,7 @@ or flags, 1 for a bug.`,
 	f.registerAudit(fs)
 	fs.BoolVar(&f.json, "json", false, "print the report as one JSON object")
 	fs.StringVarP(&f.out, "out", "o", "", "write the report to `FILE` instead of standard output (nothing is written on bad input)")
+	f.plot.register(fs)
 	return cmd
 }
 
@@ -183,6 +185,11 @@ func runAudit(cmd *cobra.Command, path string, f *auditFlags) error {
 	if err := f.validate(); err != nil {
 		return err
 	}
+	if f.plot.format != "" {
+		if err := f.plot.validate(); err != nil {
+			return err
+		}
+	}
 	if f.out != "" && f.out != "-" {
 		if err := refuseOverwrite(f.out, []string{path, f.designPath}); err != nil {
 			return err
@@ -200,6 +207,9 @@ func runAudit(cmd *cobra.Command, path string, f *auditFlags) error {
 	}
 	rep, err := auditSample(d, p, f, f.hullOptions())
 	if err != nil {
+		return err
+	}
+	if err := f.plot.writeAudit(rep); err != nil {
 		return err
 	}
 	var buf bytes.Buffer

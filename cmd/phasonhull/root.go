@@ -34,6 +34,7 @@ homology.`,
 		newAuditCmd(),
 		newBatchCmd(),
 		newSpectrumCmd(),
+		newReportCmd(),
 	// commands are added here as they land
 	)
 	return root

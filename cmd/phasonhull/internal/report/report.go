@@ -1,0 +1,286 @@
+// Package report writes the HTML report of a hull analysis: one
+// self-contained page (inline style, figures embedded as data URIs, no
+// network needed to read it) with the JSON of every analysis beside it.
+package report
+
+import (
+	"bytes"
+	"encoding/base64"
+	"errors"
+	"fmt"
+	"html/template"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"phasonhull/cmd/phasonhull/internal/picture"
+	"phasonhull/topology/hull"
+)
+
+// Page is everything one report shows.
+type Page struct {
+	// Analysis is the hull result of the sample.
+	Analysis *hull.Result
+	// Audit is the audit against a design; nil without one.
+	Audit *Audit
+	// Figures are drawn in this order.
+	Figures []Figure
+	// Files are written next to report.html and linked from it.
+	Files []File
+}
+
+// Audit is the part of an audit the page shows.
+type Audit struct {
+	Design  string
+	Verdict string
+	Reasons []string
+	// Rows are label–value pairs of the audit table.
+	Rows [][2]string
+}
+
+// Figure is one picture of the page, as PNG.
+type Figure struct {
+	Name, Caption string
+	PNG           []byte
+}
+
+// File is a file written beside the page.
+type File struct {
+	Name string
+	Data []byte
+}
+
+// AddFigure encodes pic as PNG and appends it to the page.
+func (p *Page) AddFigure(pic *picture.Picture) error {
+	b, err := pic.Bytes(picture.PNG)
+	if err != nil {
+		return err
+	}
+	p.Figures = append(p.Figures, Figure{Name: pic.Name, Caption: pic.Caption, PNG: b})
+	return nil
+}
+
+// Render writes the HTML page to w.
+func Render(w io.Writer, p *Page) error {
+	if p.Analysis == nil {
+		return errors.New("report: no analysis to show")
+	}
+	if err := page.Execute(w, view(p)); err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	return nil
+}
+
+// CheckDir refuses an output folder that holds (at any depth) one of the
+// input files, or that is an existing file.
+func CheckDir(dir string, inputs []string) error {
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return fmt.Errorf("report folder %s: %w", dir, err)
+	}
+	if st, err := os.Stat(abs); err == nil && !st.IsDir() {
+		return fmt.Errorf("report folder %s: exists and is not a folder", dir)
+	}
+	for _, in := range inputs {
+		if in == "" || in == "-" {
+			continue
+		}
+		a, err := filepath.Abs(in)
+		if err != nil {
+			return fmt.Errorf("input %s: %w", in, err)
+		}
+		if rel, err := filepath.Rel(abs, a); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+			return fmt.Errorf("report folder %s holds the input %s: choose another folder", dir, in)
+		}
+	}
+	return nil
+}
+
+// Write writes dir/report.html and the page's files: all of them or none.
+// They are built in a temporary folder next to dir; a missing (or empty)
+// dir is then replaced by it in one rename, and into an existing folder
+// the files are moved one by one only after all were written.
+func Write(dir string, p *Page, inputs []string) error {
+	if err := CheckDir(dir, inputs); err != nil {
+		return err
+	}
+	var html bytes.Buffer
+	if err := Render(&html, p); err != nil {
+		return err
+	}
+	dir = filepath.Clean(dir)
+	parent := filepath.Dir(dir)
+	if err := os.MkdirAll(parent, 0o755); err != nil {
+		return fmt.Errorf("writing report %s: %w", dir, err)
+	}
+	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(dir)+".tmp*")
+	if err != nil {
+		return fmt.Errorf("writing report %s: %w", dir, err)
+	}
+	defer os.RemoveAll(tmp) // empty or gone after a successful move
+	files := append([]File{{Name: "report.html", Data: html.Bytes()}}, p.Files...)
+	for _, f := range files {
+		if f.Name != filepath.Base(f.Name) || f.Name == "" || f.Name[0] == '.' {
+			return fmt.Errorf("writing report %s: bad file name %q", dir, f.Name)
+		}
+		if err := os.WriteFile(filepath.Join(tmp, f.Name), f.Data, 0o644); err != nil {
+			return fmt.Errorf("writing report %s: %w", dir, err)
+		}
+	}
+	if err := os.Chmod(tmp, 0o755); err != nil {
+		return fmt.Errorf("writing report %s: %w", dir, err)
+	}
+	// rename(2) replaces a missing or empty folder in one step.
+	if err := os.Rename(tmp, dir); err == nil {
+		return nil
+	}
+	for _, f := range files {
+		if err := os.Rename(filepath.Join(tmp, f.Name), filepath.Join(dir, f.Name)); err != nil {
+			return fmt.Errorf("writing report %s: %w", dir, err)
+		}
+	}
+	return nil
+}
+
+// viewModel is what the template reads.
+type viewModel struct {
+	R        *hull.Result
+	Audit    *Audit
+	Summary  [][2]string
+	Labels   []labelRow
+	More     int
+	Figures  []figureView
+	Files    []string
+	Cautions []string
+}
+
+type labelRow struct{ IDS, Coeffs string }
+
+type figureView struct {
+	Name, Caption string
+	Src           template.URL
+}
+
+// maxLabels bounds the gap labels listed on the page (all are in the JSON).
+const maxLabels = 16
+
+func view(p *Page) viewModel {
+	r := p.Analysis
+	v := viewModel{R: r, Audit: p.Audit}
+	add := func(k, val string) { v.Summary = append(v.Summary, [2]string{k, val}) }
+	unit := r.Unit
+	if unit == "" {
+		unit = "(no unit)"
+	}
+	add("sample", fmt.Sprintf("%s: %d sites, mean spacing %.6g %s", r.Source, r.Sites, r.MeanSpacing, unit))
+	class := string(r.Hull.Class)
+	if r.Hull.Period > 0 {
+		class += fmt.Sprintf(", period %d", r.Hull.Period)
+	}
+	add("hull", class)
+	add("Betti numbers", fmt.Sprint(r.Hull.Betti))
+	add("confidence", fmt.Sprintf("%.2f (share of landmark subsamples with the same Betti numbers)", r.Hull.Confidence))
+	if len(r.Hull.ScaleBand) == 2 {
+		add("scale band", fmt.Sprintf("[%.3g, %.3g) whitened units", r.Hull.ScaleBand[0], r.Hull.ScaleBand[1]))
+	}
+	add("reason", r.Hull.Reason)
+	for i, a := range r.Angles {
+		name := "angle θ"
+		if len(r.Angles) > 1 {
+			name = fmt.Sprintf("angle θ%d", i+1)
+		}
+		add(name, fmt.Sprintf("%.9f ± %.2g turns (one standard uncertainty; folded into [0, ½])", a, r.AngleUncertainty[i]))
+	}
+	if r.AngleMethod != "" {
+		add("angle method", r.AngleMethod)
+	}
+	if d := r.Disorder; d != nil {
+		add("disorder", fmt.Sprintf("rms %.4g %s (%.3g of the mean spacing) about the %s model; mutual information %.3g nats, intrinsic dimension %.2f",
+			d.RMS, r.Unit, d.Relative, d.Model, d.MutualInformation, d.IntrinsicDimension))
+	}
+	e := r.Embedding
+	add("embedding", fmt.Sprintf("window %d (chosen %d), %d component(s), %d vectors, %d landmarks", e.Window, e.ChosenWindow, e.Components, e.Vectors, e.Landmarks))
+	add("threshold τ", fmt.Sprintf("%.3g whitened units (cover radius %.3g, sampling gap %.3g, noise scale %.3g)",
+		r.Persistence.Threshold, r.Persistence.CoverRadius, r.Persistence.SamplingGap, r.Persistence.NoiseScale))
+	for i, l := range r.GapLabels.Labels {
+		if i == maxLabels {
+			v.More = len(r.GapLabels.Labels) - maxLabels
+			break
+		}
+		v.Labels = append(v.Labels, labelRow{IDS: fmt.Sprintf("%.6f", l.IDS), Coeffs: fmt.Sprint(l.Coeffs)})
+	}
+	for _, f := range p.Figures {
+		v.Figures = append(v.Figures, figureView{Name: f.Name, Caption: f.Caption,
+			Src: template.URL("data:image/png;base64," + base64.StdEncoding.EncodeToString(f.PNG))})
+	}
+	for _, f := range p.Files {
+		v.Files = append(v.Files, f.Name)
+	}
+	v.Cautions = cautions
+	return v
+}
+
+// cautions are the notes on reading the statistical figures of the page.
+var cautions = []string{
+	"The class is a decision rule on the barcodes, not a probability: bars longer than τ are counted, and τ is set from the sampling of the cloud and the noise the data show.",
+	"The confidence is the share of landmark subsamples that gave the same Betti numbers. It measures stability under resampling of this data set; it is not the probability that the class is right, and it says nothing about a different sample of the same design.",
+	"The angle's uncertainty is one standard error of a least-squares fit, computed as if the position noise were white. It leaves out systematic errors — a drift of the metrology scale, a wrong unit, correlated fabrication errors — which only an audit against the design can expose.",
+	"Gap labels say where gaps of an operator that respects the pattern may open, not that they open or how wide they are.",
+	"The disorder figure is the scatter the fitted hull model does not explain: metrology noise and fabrication error together, not either alone.",
+}
+
+var page = template.Must(template.New("report").Parse(`<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<title>Hull report — {{.R.Source}}</title>
+<style>
+body { font: 15px/1.45 system-ui, sans-serif; color: #222228; margin: 2em auto; max-width: 62em; padding: 0 1em; }
+h1 { font-size: 1.5em; border-bottom: 3px solid #1d4f91; padding-bottom: .2em; }
+h2 { font-size: 1.15em; color: #1d4f91; margin-top: 1.6em; }
+table { border-collapse: collapse; margin: .5em 0; }
+th, td { text-align: left; padding: .25em .8em .25em 0; vertical-align: top; border-bottom: 1px solid #ddd; }
+th { font-weight: 600; white-space: nowrap; }
+.pass { color: #1f8a6d; font-weight: 700; }
+.fail { color: #b83f1c; font-weight: 700; }
+.warn { background: #fdf3df; border-left: 4px solid #e39b24; padding: .3em .7em; }
+figure { margin: 1.2em 0; }
+figure img { max-width: 100%; border: 1px solid #ddd; }
+figcaption { font-size: .9em; color: #444; }
+code { font-size: .92em; }
+</style>
+</head>
+<body>
+<h1>Hull report: {{.R.Source}}</h1>
+<h2>Summary</h2>
+<table>
+{{range .Summary}}<tr><th>{{index . 0}}</th><td>{{index . 1}}</td></tr>
+{{end}}</table>
+{{range .R.Warnings}}<p class="warn">{{.}}</p>
+{{end}}
+{{with .Audit}}<h2>Audit against {{.Design}}</h2>
+<p>Verdict: <span class="{{.Verdict}}">{{.Verdict}}</span></p>
+{{if .Reasons}}<ul>{{range .Reasons}}<li>{{.}}</li>{{end}}</ul>{{end}}
+<table>
+{{range .Rows}}<tr><th>{{index . 0}}</th><td>{{index . 1}}</td></tr>
+{{end}}</table>
+{{end}}
+<h2>Gap labels</h2>
+{{if .Labels}}<table>
+<tr><th>IDS</th><th>coefficients</th></tr>
+{{range .Labels}}<tr><td>{{.IDS}}</td><td>{{.Coeffs}}</td></tr>
+{{end}}</table>
+{{if .More}}<p>{{.More}} more in <code>analysis.json</code>.</p>{{end}}
+{{else}}<p>None: the group is Z, no gap inside the spectrum is forced to a label.</p>{{end}}
+<h2>Figures</h2>
+{{range .Figures}}<figure><img src="{{.Src}}" alt="{{.Name}}"><figcaption>{{.Caption}}</figcaption></figure>
+{{end}}
+<h2>Reading these figures</h2>
+<ul>{{range .Cautions}}<li>{{.}}</li>{{end}}</ul>
+{{with .R.Notes}}<h2>Notes</h2><ul>{{range .}}<li>{{.}}</li>{{end}}</ul>{{end}}
+<h2>Files</h2>
+<ul>{{range .Files}}<li><a href="{{.}}">{{.}}</a></li>{{end}}</ul>
+</body>
+</html>
+`))

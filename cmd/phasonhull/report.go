@@ -1,0 +1,286 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
+	"phasonhull/cmd/phasonhull/internal/picture"
+	"phasonhull/cmd/phasonhull/internal/report"
+	"phasonhull/topology/hull"
+)
+
+// plotFlags are the flags of the commands that can draw their result.
+type plotFlags struct {
+	dir    string
+	format string
+}
+
+// register adds --plot and --plot-format to fs (--format names the input
+// format on these commands).
+func (f *plotFlags) register(fs *pflag.FlagSet) {
+	fs.StringVar(&f.dir, "plot", "", "write the figures of the result into `DIR` (created if missing)")
+	fs.StringVar(&f.format, "plot-format", string(picture.PNG), "encoding of the figures: png or svg")
+}
+
+// validate refuses a bad --plot-format before any analysis runs.
+func (f *plotFlags) validate() error {
+	_, err := picture.ParseFormat(f.format)
+	return err
+}
+
+// writeAnalysis writes the figures of a hull result, when --plot is set.
+func (f *plotFlags) writeAnalysis(r *hull.Result) error {
+	if f.dir == "" {
+		return nil
+	}
+	pics, err := picture.Analysis(r)
+	if err != nil {
+		return fmt.Errorf("--plot: %w", err)
+	}
+	return f.write(pics)
+}
+
+// writeAudit writes the audit figure and the measured sample's hull
+// figures, when --plot is set.
+func (f *plotFlags) writeAudit(rep *auditReport) error {
+	if f.dir == "" {
+		return nil
+	}
+	var pics []*picture.Picture
+	if a, ok := auditSites(rep); ok {
+		p, err := picture.Audit(a)
+		if err != nil {
+			return fmt.Errorf("--plot: %w", err)
+		}
+		pics = append(pics, p)
+	}
+	if rep.Hull.Measured != nil {
+		more, err := picture.Analysis(rep.Hull.Measured)
+		if err == nil {
+			pics = append(pics, more...)
+		}
+	}
+	return f.write(pics)
+}
+
+// write encodes each picture into the plot folder, each file atomically.
+func (f *plotFlags) write(pics []*picture.Picture) error {
+	format, err := picture.ParseFormat(f.format)
+	if err != nil {
+		return err
+	}
+	if err := os.MkdirAll(f.dir, 0o755); err != nil {
+		return fmt.Errorf("--plot: %w", err)
+	}
+	for _, p := range pics {
+		path := filepath.Join(f.dir, p.Name+"."+string(format))
+		if err := writeFileAtomic(path, func(file *os.File) error { return p.Encode(file, format) }); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// auditSites gathers what the audit figure draws from a report; false
+// when no site was matched.
+func auditSites(rep *auditReport) (picture.AuditSites, bool) {
+	a := picture.AuditSites{Source: rep.Measured, Unit: rep.Unit, OutlierThreshold: rep.OutlierThreshold, Verdict: rep.Verdict}
+	if len(rep.Sites) == 0 {
+		return a, false
+	}
+	if rep.Tolerance != nil {
+		a.Tolerance = *rep.Tolerance
+	}
+	for _, s := range rep.Sites {
+		a.Position = append(a.Position, s.Position)
+		a.Residual = append(a.Residual, s.Residual)
+		a.Flagged = append(a.Flagged, s.Outlier || (s.WithinTolerance != nil && !*s.WithinTolerance))
+	}
+	if rep.reg != nil {
+		for _, j := range rep.Missing {
+			a.Missing = append(a.Missing, rep.reg.Predict(rep.designPos[j]))
+		}
+	}
+	for _, k := range rep.Extra {
+		if k >= 0 && k < len(rep.measuredPos) {
+			a.Extra = append(a.Extra, rep.measuredPos[k])
+		}
+	}
+	return a, true
+}
+
+// reportFlags holds the flags of "phasonhull report".
+type reportFlags struct {
+	audit auditFlags
+	out   string
+}
+
+// newReportCmd builds "phasonhull report".
+func newReportCmd() *cobra.Command {
+	var f reportFlags
+	cmd := &cobra.Command{
+		Use:   "report FILE [--design DESIGN] --out DIR",
+		Short: "Write a self-contained HTML report of a pattern's hull (and audit) with its figures and JSON",
+		Long: `report analyses FILE as analyze does (and audits it against DESIGN as audit
+does, when --design is given) and writes into DIR:
+
+  report.html    one page that needs nothing else to be read: summary table,
+                 hull class with its confidence, angle(s) with uncertainty,
+                 gap labels, disorder, the audit verdict, the figures (PNG,
+                 embedded in the page) and notes on reading the figures
+  analysis.json  the analysis, as analyze --json prints it
+  audit.json     the audit, as audit --json prints it (with --design only)
+
+DIR is created; it must not hold an input file. Either every file is
+written or none: they are built in a temporary folder next to DIR and moved
+into place at the end. A failing audit verdict is reported in the page and
+does not change the exit status.`,
+		Example: `  phasonhull report testdata/demo/lw0412_cmm.csv --out lw0412-report
+  phasonhull report sample.csv --design design.json --tolerance 0.02mm --out sample-report`,
+		Args: cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runReport(cmd, args[0], &f)
+		},
+	}
+	fs := cmd.Flags()
+	f.audit.in.register(fs)
+	f.audit.registerAudit(fs)
+	fs.StringVarP(&f.out, "out", "o", "", "write the report into `DIR` (required)")
+	return cmd
+}
+
+func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
+	if f.out == "" {
+		return fmt.Errorf("--out DIR is required")
+	}
+	if err := f.audit.validate(); err != nil {
+		return err
+	}
+	inputs := []string{path}
+	if f.audit.designPath != "" {
+		inputs = append(inputs, f.audit.designPath)
+	}
+	if err := report.CheckDir(f.out, inputs); err != nil {
+		return err
+	}
+	p, err := f.audit.in.load(path, cmd.InOrStdin())
+	if err != nil {
+		return err
+	}
+	var d *loadedDesign
+	if f.audit.designPath != "" {
+		if d, err = loadDesign(f.audit.designPath, f.audit.designUnit, f.audit.hullOptions()); err != nil {
+			return err
+		}
+	}
+	progress := newProgress(cmd.ErrOrStderr())
+	progress("analysing " + p.Source)
+	var page report.Page
+	var res *hull.Result
+	if d == nil {
+		if res, err = hull.Analyze(p, f.audit.hullOptions()); err != nil {
+			return err
+		}
+	} else {
+		rep, err := auditSample(d, p, &f.audit, f.audit.hullOptions())
+		if err != nil {
+			return err
+		}
+		if rep.Hull.Measured == nil {
+			return fmt.Errorf("%s: %s", p.Source, rep.Reasons[0])
+		}
+		res = rep.Hull.Measured
+		js, err := indentJSON(rep)
+		if err != nil {
+			return internalErr(err)
+		}
+		page.Audit = auditSummary(rep)
+		page.Files = append(page.Files, report.File{Name: "audit.json", Data: js})
+		if a, ok := auditSites(rep); ok {
+			pic, err := picture.Audit(a)
+			if err != nil {
+				return internalErr(err)
+			}
+			if err := page.AddFigure(pic); err != nil {
+				return internalErr(err)
+			}
+		}
+	}
+	js, err := indentJSON(res)
+	if err != nil {
+		return internalErr(err)
+	}
+	page.Analysis = res
+	page.Files = append([]report.File{{Name: "analysis.json", Data: js}}, page.Files...)
+	progress("drawing the figures")
+	pics, err := picture.Analysis(res)
+	if err == nil {
+		figs := page.Figures
+		page.Figures = nil
+		for _, pic := range pics {
+			if err := page.AddFigure(pic); err != nil {
+				return internalErr(err)
+			}
+		}
+		page.Figures = append(page.Figures, figs...)
+	}
+	progress("writing " + f.out)
+	if err := report.Write(f.out, &page, inputs); err != nil {
+		return err
+	}
+	progress("")
+	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, "report.html"))
+	return nil
+}
+
+// auditSummary is the part of an audit the page shows.
+func auditSummary(rep *auditReport) *report.Audit {
+	a := &report.Audit{Verdict: rep.Verdict, Reasons: rep.Reasons, Design: rep.Design}
+	u := spaced(rep.Unit)
+	add := func(k, v string) { a.Rows = append(a.Rows, [2]string{k, v}) }
+	add("sites", fmt.Sprintf("design %d, measured %d: %d matched, %d missing, %d extra", rep.DesignSites, rep.MeasuredSites, rep.Matched, len(rep.Missing), len(rep.Extra)))
+	if rep.Scale != nil {
+		add("calibration", fmt.Sprintf("offset %.6g ± %.2g%s, scale %.9g ± %.2g", *rep.Offset, *rep.OffsetErr, u, *rep.Scale, *rep.ScaleErr))
+	}
+	add("residuals", fmt.Sprintf("rms %.4g%s, max %.4g%s, robust sigma %.3g%s", rep.RMS, u, rep.Max, u, rep.Sigma, u))
+	if rep.Tolerance != nil {
+		add("tolerance", fmt.Sprintf("%.4g%s", *rep.Tolerance, u))
+	}
+	add("outliers", fmt.Sprintf("%d", len(rep.Outliers)))
+	if c := rep.Hull.Comparison; c != nil {
+		add("hull comparison", c.Verdict)
+	}
+	return a
+}
+
+func indentJSON(v any) ([]byte, error) {
+	var b bytes.Buffer
+	enc := json.NewEncoder(&b)
+	enc.SetIndent("", "  ")
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// newProgress returns a function that shows a one-line progress message on
+// w when w is a terminal, and does nothing otherwise; an empty message
+// clears the line.
+func newProgress(w any) func(string) {
+	f, ok := w.(*os.File)
+	if !ok {
+		return func(string) {}
+	}
+	if st, err := f.Stat(); err != nil || st.Mode()&os.ModeCharDevice == 0 {
+		return func(string) {}
+	}
+	return func(msg string) {
+		fmt.Fprintf(f, "\r\033[K%s", msg)
+	}
+}

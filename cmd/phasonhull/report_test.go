@@ -1,0 +1,231 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/base64"
+	"encoding/json"
+	"html"
+	"image"
+	"image/png"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+	"time"
+)
+
+const (
+	demoSample = "../../testdata/demo/lw0412_cmm.csv"
+	demoDesign = "../../testdata/demo/lw0412_design.json"
+)
+
+// imgTag matches every <img> element of a page and captures its src.
+var imgTag = regexp.MustCompile(`<img\b[^>]*?\bsrc="([^"]*)"`)
+
+// greyVariance is the variance of the grey level of img over a grid of
+// sampled pixels.
+func greyVariance(img image.Image) float64 {
+	b := img.Bounds()
+	var s, s2, n float64
+	for y := b.Min.Y; y < b.Max.Y; y += 2 {
+		for x := b.Min.X; x < b.Max.X; x += 2 {
+			r, g, bl, _ := img.At(x, y).RGBA()
+			l := (0.299*float64(r) + 0.587*float64(g) + 0.114*float64(bl)) / 65535
+			s, s2, n = s+l, s2+l*l, n+1
+		}
+	}
+	m := s / n
+	return s2/n - m*m
+}
+
+// writeDemoReport runs the report command on the demo sample and design.
+func writeDemoReport(t *testing.T, dir string) string {
+	t.Helper()
+	code, _, stderr := runCmd("report", demoSample, "--design", demoDesign, "--out", dir)
+	if code != exitOK {
+		t.Fatalf("report: exit %d: %s", code, stderr)
+	}
+	return filepath.Join(dir, "report.html")
+}
+
+func TestReportDemo(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	page := writeDemoReport(t, dir)
+	doc, err := os.ReadFile(page)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var analysis, audit map[string]any
+	for name, v := range map[string]*map[string]any{"analysis.json": &analysis, "audit.json": &audit} {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal(b, v); err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+	}
+	if analysis["schema"] != "phasonhull.analysis/1" || audit["schema"] != auditSchema {
+		t.Errorf("schemas %v and %v", analysis["schema"], audit["schema"])
+	}
+	// The page shows what the JSON says: class and verdict.
+	class := analysis["hull"].(map[string]any)["class"].(string)
+	for _, want := range []string{"<td>" + class + "</td>", `class="` + audit["verdict"].(string) + `"`, "confidence", "analysis.json", "audit.json"} {
+		if !strings.Contains(string(doc), want) {
+			t.Errorf("report.html lacks %q", want)
+		}
+	}
+	// Self-contained: no external resource, every image a PNG data URI.
+	for _, bad := range []string{"http://", "https://", "<link", "<script"} {
+		if strings.Contains(string(doc), bad) {
+			t.Errorf("report.html refers to %q", bad)
+		}
+	}
+	imgs := imgTag.FindAllStringSubmatch(string(doc), -1)
+	if len(imgs) < 3 {
+		t.Fatalf("%d images in the page, want the audit, projections and persistence at least", len(imgs))
+	}
+	const prefix = "data:image/png;base64,"
+	for _, m := range imgs {
+		src := html.UnescapeString(m[1]) // attribute values may hold character references
+		if !strings.HasPrefix(src, prefix) {
+			t.Fatalf("image source %.40q is not a PNG data URI", src)
+		}
+		raw, err := base64.StdEncoding.DecodeString(src[len(prefix):])
+		if err != nil {
+			t.Fatal(err)
+		}
+		img, err := png.Decode(bytes.NewReader(raw))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if v := greyVariance(img); v < 0.01 {
+			t.Errorf("an embedded figure looks blank (grey variance %.3g)", v)
+		}
+	}
+	// Deterministic: a second run writes the same page.
+	again, err := os.ReadFile(writeDemoReport(t, filepath.Join(t.TempDir(), "again")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(doc, again) {
+		t.Error("two runs wrote different pages")
+	}
+}
+
+func TestReportRefuses(t *testing.T) {
+	// Into the folder of its input.
+	tmp := t.TempDir()
+	sample := filepath.Join(tmp, "sample.csv")
+	data, err := os.ReadFile(demoSample)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(sample, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, stderr := runCmd("report", sample, "--out", tmp); code != exitInput || !strings.Contains(stderr, "holds the input") {
+		t.Errorf("report into the input's folder: exit %d, %q", code, stderr)
+	}
+	if _, err := os.Stat(filepath.Join(tmp, "report.html")); err == nil {
+		t.Error("a refused report wrote report.html")
+	}
+	// Without --out, onto a file, or on a bad design: nothing written.
+	if code, _, _ := runCmd("report", sample); code != exitInput {
+		t.Errorf("report without --out: exit %d", code)
+	}
+	file := filepath.Join(t.TempDir(), "taken")
+	os.WriteFile(file, nil, 0o644)
+	if code, _, _ := runCmd("report", sample, "--out", file); code != exitInput {
+		t.Errorf("report onto a file: exit %d", code)
+	}
+	out := filepath.Join(t.TempDir(), "none")
+	if code, _, _ := runCmd("report", sample, "--design", filepath.Join(tmp, "missing.json"), "--out", out); code != exitInput {
+		t.Errorf("report with a missing design: exit %d", code)
+	}
+	if _, err := os.Stat(out); err == nil {
+		t.Error("a failed report left its folder behind")
+	}
+	if left, _ := filepath.Glob(filepath.Join(filepath.Dir(out), ".*tmp*")); len(left) > 0 {
+		t.Errorf("temporary files left behind: %v", left)
+	}
+}
+
+// TestPlotFlags: analyze and audit write their figures as PNG (or SVG).
+func TestPlotFlags(t *testing.T) {
+	dir := t.TempDir()
+	if code, _, stderr := runCmd("analyze", demoSample, "--plot", dir); code != exitOK {
+		t.Fatalf("analyze --plot: exit %d: %s", code, stderr)
+	}
+	for _, name := range []string{"hull-projections.png", "persistence.png", "angle.png"} {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		img, err := png.Decode(bytes.NewReader(b))
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if w := img.Bounds().Dx(); w != 900 {
+			t.Errorf("%s: %d pixels wide, want 6 in at 150 dpi", name, w)
+		}
+	}
+	svg := t.TempDir()
+	if code, _, stderr := runCmd("audit", "--design", demoDesign, demoSample, "--plot", svg, "--plot-format", "svg"); code != exitFail && code != exitOK {
+		t.Fatalf("audit --plot: exit %d: %s", code, stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(svg, "audit.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(b, []byte("<svg")) {
+		t.Error("audit.svg holds no <svg> element")
+	}
+	if code, _, _ := runCmd("analyze", demoSample, "--plot", dir, "--plot-format", "gif"); code != exitInput {
+		t.Errorf("--plot-format gif: exit %d, want %d", code, exitInput)
+	}
+}
+
+// TestReportInChromium renders the page in headless Chromium and checks
+// the screenshot is a picture with something on it. Under CI=true a
+// missing chromium is a failure.
+func TestReportInChromium(t *testing.T) {
+	bin, err := exec.LookPath("chromium")
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatal("chromium is not on PATH (required under CI)")
+		}
+		t.Skip("chromium is not on PATH")
+	}
+	tmp := t.TempDir()
+	page, err := filepath.Abs(writeDemoReport(t, filepath.Join(tmp, "report")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	profile, shot := filepath.Join(tmp, "profile"), filepath.Join(tmp, "shot.png")
+	ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
+	defer cancel()
+	cmd := exec.CommandContext(ctx, bin, "--headless", "--no-sandbox", "--disable-gpu",
+		"--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run",
+		"--user-data-dir="+profile, "--screenshot="+shot, "--window-size=1200,2000", "file://"+page)
+	if out, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("chromium: %v\n%s", err, out)
+	}
+	b, err := os.ReadFile(shot)
+	if err != nil {
+		t.Fatal(err)
+	}
+	img, err := png.Decode(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := img.Bounds().Size(); got.X != 1200 || got.Y != 2000 {
+		t.Errorf("screenshot %v, want 1200x2000", got)
+	}
+	if v := greyVariance(img); v < 0.005 {
+		t.Errorf("the rendered page looks blank (grey variance %.3g)", v)
+	}
+}
