@@ -9,8 +9,11 @@ import (
 	"sync"
 	"testing"
 
+	"gonum.org/v1/plot"
+
 	"phasonhull/pattern"
 	"phasonhull/topology/hull"
+	"phasonhull/topology/spectrum"
 )
 
 const demo = "../../../../testdata/demo/lw0412_cmm.csv"
@@ -145,10 +148,12 @@ func TestDemoPictures(t *testing.T) {
 		if w < 6*DPI {
 			t.Errorf("%s: %d pixels wide, want at least 6 in at %d dpi", pic.Name, w, DPI)
 		}
-		// A white page with a few lines of text has a variance near
-		// 0.005; plotted panels are far above.
-		if v := luminanceVariance(img); v < 0.01 {
-			t.Errorf("%s: luminance variance %.4g: looks blank", pic.Name, v)
+		// Not blank: at least twice the variance of the same page with
+		// axes and text but no data.
+		if v, e := luminanceVariance(img), emptyVariance(t, pic); v < 2*e {
+			t.Errorf("%s: luminance variance %.4g, empty page %.4g: looks blank", pic.Name, v, e)
+		} else {
+			t.Logf("%s: luminance variance %.4g, empty page %.4g", pic.Name, v, e)
 		}
 		svg, err := pic.Bytes(SVG)
 		if err != nil {
@@ -216,4 +221,82 @@ func TestParseFormat(t *testing.T) {
 	if _, err := ParseFormat("gif"); err == nil {
 		t.Error("ParseFormat accepted gif")
 	}
+}
+
+// TestSpectrumPicture draws the almost-Mathieu chain at the golden mean
+// (on-site 2λ·cos 2π(nθ + φ), λ = 1): its two widest gaps carry the labels
+// (1, −1) and (−1, 2) — IDS 1 − θ ≈ 0.382 and 2θ − 1 ≈ 0.236 (closed form
+// of the gap-labelling theorem for Z + Zθ).
+func TestSpectrumPicture(t *testing.T) {
+	x := make([]float64, 400)
+	for i := range x {
+		x[i] = float64(i)
+	}
+	p, err := pattern.New(x, "", "lattice")
+	if err != nil {
+		t.Fatal(err)
+	}
+	theta := (math.Sqrt(5) - 1) / 2
+	op, err := spectrum.New(p, spectrum.Model{OnSite: spectrum.OnSite{Lambda: 1, Theta: theta, Phase: 0.1}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := spectrum.Analyze(op, spectrum.Options{Angles: []float64{theta}, MinGap: 0.05, Method: spectrum.Values})
+	if err != nil {
+		t.Fatal(err)
+	}
+	labelled := 0
+	for _, g := range res.Gaps {
+		if g.Label != nil {
+			labelled++
+		}
+	}
+	if labelled < 2 {
+		t.Fatalf("%d labelled gaps, want the two widest at least", labelled)
+	}
+	pic, err := Spectrum(res, "almost-Mathieu chain", "energy (units of the hopping)")
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := pic.Bytes(PNG)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := pic.Bytes(PNG)
+	if !bytes.Equal(a, b) {
+		t.Error("the spectrum picture is not deterministic")
+	}
+	img, err := png.Decode(bytes.NewReader(a))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w, h := pic.Pixels(); img.Bounds().Dx() != w || img.Bounds().Dy() != h {
+		t.Errorf("%v pixels, want %dx%d", img.Bounds().Size(), w, h)
+	}
+	if v, e := luminanceVariance(img), emptyVariance(t, pic); v < 2*e {
+		t.Errorf("luminance variance %.4g, empty page %.4g: looks blank", v, e)
+	} else {
+		t.Logf("luminance variance %.4g, empty page %.4g", v, e)
+	}
+	res.Values = nil
+	if _, err := Spectrum(res, "counted", "energy"); err == nil {
+		t.Error("a spectrum without levels was drawn")
+	}
+}
+
+// emptyVariance is the luminance variance of a page of the same size and
+// title with one empty panel: axes and text only, no data.
+func emptyVariance(t *testing.T, like *Picture) float64 {
+	t.Helper()
+	e := &Picture{Name: "empty", Width: like.Width, Height: like.Height, title: like.title,
+		panels: [][]*plot.Plot{{newPanel("", "x", "y")}}}
+	b, err := e.Bytes(PNG)
+	if err != nil {
+		t.Fatal(err)
+	}
+	img, err := png.Decode(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return luminanceVariance(img)
 }

@@ -1,0 +1,80 @@
+package picture
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"phasonhull/topology/spectrum"
+)
+
+// Spectrum draws the integrated density of states of a spectrum — the
+// staircase IDS(E) = (levels ≤ E)/N — with each reported gap shaded and
+// marked with its label (n, m…) where it has one. levels names the axis of
+// the eigenvalues with their unit, such as "energy (units of t0)".
+func Spectrum(r *spectrum.Result, source, levels string) (*Picture, error) {
+	if r == nil || len(r.Values) == 0 || r.Sites == 0 {
+		return nil, errors.New("spectrum picture: the result holds no levels (computed by counting)")
+	}
+	p := newPanel("", levels, "integrated density of states")
+	// The gaps first, so that the staircase lies over them.
+	for _, g := range r.Gaps {
+		band, err := plotter.NewPolygon(plotter.XYs{{X: g.Lower, Y: 0}, {X: g.Upper, Y: 0}, {X: g.Upper, Y: 1}, {X: g.Lower, Y: 1}})
+		if err != nil {
+			return nil, fmt.Errorf("spectrum picture: %w", err)
+		}
+		band.Color = faded(Tidewater.Amber, 0.3)
+		band.LineStyle.Width = 0
+		p.Add(band)
+	}
+	n := float64(r.Sites)
+	stairs := make(plotter.XYs, 0, 2*len(r.Values))
+	for k, e := range r.Values {
+		stairs = append(stairs, plotter.XY{X: e, Y: float64(k) / n}, plotter.XY{X: e, Y: float64(k+1) / n})
+	}
+	line, err := plotter.NewLine(stairs)
+	if err != nil {
+		return nil, fmt.Errorf("spectrum picture: %w", err)
+	}
+	line.Color, line.Width = Tidewater.Blue, vg.Points(1.2)
+	p.Add(line)
+	p.Legend.Add("IDS", line)
+	var marks plotter.XYs
+	var names []string
+	for _, g := range r.Gaps {
+		if g.Label == nil {
+			continue
+		}
+		marks = append(marks, plotter.XY{X: (g.Lower + g.Upper) / 2, Y: g.IDS})
+		names = append(names, "("+strings.Trim(strings.ReplaceAll(fmt.Sprint(g.Label.Coeffs), " ", ", "), "[]")+")")
+	}
+	if len(marks) > 0 {
+		labels, err := plotter.NewLabels(plotter.XYLabels{XYs: marks, Labels: names})
+		if err != nil {
+			return nil, fmt.Errorf("spectrum picture: %w", err)
+		}
+		for i := range labels.TextStyle {
+			labels.TextStyle[i].Color = Tidewater.Rust
+			labels.TextStyle[i].Font.Size = 7
+			labels.TextStyle[i].XAlign = draw.XCenter
+			labels.TextStyle[i].YAlign = draw.YBottom
+		}
+		p.Add(labels)
+	}
+	p.Legend.Top, p.Legend.Left = true, true
+	p.Y.Min, p.Y.Max = 0, 1.05
+	return &Picture{
+		Name:   "spectrum",
+		Width:  6 * vg.Inch,
+		Height: 4 * vg.Inch,
+		title:  fmt.Sprintf("%s — integrated density of states, %d levels, %d gaps", source, r.Sites, len(r.Gaps)),
+		panels: [][]*plot.Plot{{p}},
+		Caption: "The integrated density of states (levels at or below E, over the number of sites) against the level; shaded bands are the " +
+			"reported gaps, each marked with its gap label (coefficients of 1 and the angle(s)) at its IDS.",
+	}, nil
+}
