@@ -36,6 +36,10 @@ type Options struct {
 	// Period, for a periodic pattern of p sites per cell (a finite hull),
 	// labels the gaps k/p. It excludes Angles.
 	Period int
+	// Labels, when neither Angles nor Period is given, is the label set
+	// itself (for a hull whose group is not Z + Zθ, e.g. the labels
+	// topology/hull lists for a substitution tiling).
+	Labels []topology.Label
 	// MaxCoeff bounds the angle coefficients |m_i| of the labels tried;
 	// 0 means DefaultMaxCoeff.
 	MaxCoeff int
@@ -177,6 +181,14 @@ func (o Options) check() error {
 	}
 	if o.Period < 0 || (o.Period > 0 && len(o.Angles) > 0) {
 		return fmt.Errorf("period %d with %d angle(s): label by a period or by angles, not both", o.Period, len(o.Angles))
+	}
+	if len(o.Labels) > 0 && (o.Period > 0 || len(o.Angles) > 0) {
+		return errors.New("a label set with a period or angles: give one way to label")
+	}
+	for _, l := range o.Labels {
+		if !(l.IDS > 0 && l.IDS < 1) {
+			return fmt.Errorf("label %v: its IDS %g must lie strictly between 0 and 1", l.Coeffs, l.IDS)
+		}
 	}
 	for _, a := range o.Angles {
 		if !(a > 0 && a < 1) {
@@ -429,6 +441,8 @@ func finish(res *Result, gaps []Gap, opt Options) error {
 			mc = DefaultMaxCoeff
 		}
 		labels = topology.Labels(opt.Angles, mc)
+	default:
+		labels = opt.Labels
 	}
 	res.Resolution = opt.Resolution
 	if res.Resolution == 0 {

@@ -6,6 +6,9 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"phasonhull/pattern/design"
+	"phasonhull/topology"
 )
 
 // Measured levels — here the exact levels of an almost-Mathieu chain,
@@ -102,5 +105,27 @@ func TestOptionsRefused(t *testing.T) {
 	nnn := build(t, lattice(t, DenseLimit+1), Model{NNN: 0.1})
 	if _, err := Analyze(nnn, Options{}); err == nil || !strings.Contains(err.Error(), "next-nearest") {
 		t.Errorf("next-nearest bonds on %d sites: %v, want a refusal", DenseLimit+1, err)
+	}
+}
+
+// An explicit label set labels like the period it lists (k/p, Bloch's
+// theorem; common practice), and mixing it with a period is refused.
+func TestExplicitLabels(t *testing.T) {
+	s := design.NewSpec("periodic")
+	s.Sites, s.Cell = 300, []float64{1, 1.4, 0.8}
+	op := build(t, generate(t, s), Model{Law: Exp{T0: 1, Decay: 1.5}, Ends: Periodic, Closing: 0.8})
+	byPeriod := analyze(t, op, Options{Period: 3, MinGap: 0.01})
+	byList := analyze(t, op, Options{Labels: topology.PeriodicLabels(3), MinGap: 0.01})
+	if len(byPeriod.Gaps) != 2 || len(byList.Gaps) != 2 {
+		t.Fatalf("%d and %d gaps, want 2", len(byPeriod.Gaps), len(byList.Gaps))
+	}
+	for i := range byPeriod.Gaps {
+		a, b := byPeriod.Gaps[i].Label, byList.Gaps[i].Label
+		if a == nil || b == nil || !slices.Equal(a.Coeffs, b.Coeffs) || a.IDS != b.IDS {
+			t.Errorf("gap %d: by period %+v, by list %+v", i, a, b)
+		}
+	}
+	if _, err := Analyze(op, Options{Labels: topology.PeriodicLabels(3), Period: 3}); err == nil {
+		t.Error("a label set with a period was accepted")
 	}
 }
