@@ -67,11 +67,13 @@
 // level moving up through it, −1 down. For a pattern whose phase advances
 // by θ from one site to the next, swept with the phase increasing, and a
 // gap of label IDS = n + mθ, the states on the first end (site 1) cross
-// m times net and those on the last end −m times. The reason: shifting the
-// phase by θ drops the first site, which by Cauchy interlacing changes the
-// count below the gap by 0 or 1; the boundary charge Q(φ) (count minus N
-// times the IDS) thus obeys Q(φ+θ) = Q(φ) + n + mθ − j(φ) with j integer,
-// and a charge that grows by F per turn between its jumps of −1 at upward
-// crossings satisfies this only for F = m. Written with the folded angle
-// 1 − θ instead, every m changes sign.
+// m times net and those on the last end −m times (EdgeGap.Agrees; the
+// tests check it on the widest gaps of modulated designs). In outline:
+// shifting the phase by θ drops the first site, which by Cauchy
+// interlacing changes the count below the gap by 0 or 1, so the first
+// end's boundary charge Q(φ) (count minus N times the IDS) obeys
+// Q(φ+θ) = Q(φ) + n + mθ − j(φ) with j(φ) an integer; a charge that rises
+// steadily by F per turn between its jumps of −1 at upward crossings can
+// satisfy that only with F = m, θ being irrational. Written with the
+// folded angle 1 − θ instead, every m changes sign.
 package spectrum

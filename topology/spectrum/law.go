@@ -32,6 +32,7 @@ func (l Exp) Coupling(d, mean float64) (float64, error) {
 	return l.T0 * math.Exp(-l.Decay*(d/mean-1)), nil
 }
 
+// String implements Law.
 func (l Exp) String() string {
 	if l.Decay == 0 {
 		return fmt.Sprintf("t = %g on every bond", l.T0)
@@ -49,6 +50,7 @@ func (l Power) Coupling(d, mean float64) (float64, error) {
 	return l.T0 * math.Pow(d/mean, -l.Power), nil
 }
 
+// String implements Law.
 func (l Power) String() string {
 	if l.Power == 0 {
 		return fmt.Sprintf("t = %g on every bond", l.T0)
@@ -97,6 +99,7 @@ func (l Table) Coupling(d, _ float64) (float64, error) {
 	return l.T[lo] + f*(l.T[hi]-l.T[lo]), nil
 }
 
+// String implements Law.
 func (l Table) String() string {
 	if len(l.D) == 0 {
 		return "t from an empty table"
