@@ -117,7 +117,7 @@ func Angle(r *hull.Result) (*Picture, error) {
 		}
 		reported := ""
 		if k < len(r.Angles) {
-			reported = fmt.Sprintf("; reported θ%d = %.6f ± %.2g", k+1, r.Angles[k], r.AngleUncertainty[k])
+			reported = fmt.Sprintf("\nreported θ%d = %.6f ± %.2g (folded)", k+1, r.Angles[k], r.AngleUncertainty[k])
 		}
 		p := newPanel(fmt.Sprintf("φ%d lifted: slope %.6f turns/site%s", k+1, l.Slope, reported), "site index", fmt.Sprintf("lifted φ%d (turns)", k+1))
 		xy := make(plotter.XYs, len(l.Site))
@@ -141,9 +141,10 @@ func Angle(r *hull.Result) (*Picture, error) {
 			fit.Color, fit.Width = Tidewater.Rust, vg.Points(1)
 			p.Add(fit)
 			if i == 0 {
-				p.Legend.Add(fmt.Sprintf("least-squares lines (%d runs)", l.Runs), fit)
+				p.Legend.Add(fmt.Sprintf("least squares, common slope (runs: %d)", l.Runs), fit)
 			}
 		}
+		p.Legend.Top = l.Slope < 0 // the corner the line leaves empty
 		top = append(top, p)
 
 		q := newPanel("residual from the line", "site index", "residual (turns)")

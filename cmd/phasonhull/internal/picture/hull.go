@@ -112,9 +112,6 @@ func Projections(r *hull.Result) (*Picture, error) {
 				}
 				ls.GlyphStyle = draw.GlyphStyle{Color: Tidewater.Ink, Radius: vg.Points(2.4), Shape: draw.RingGlyph{}}
 				p.Add(ls)
-				if len(rows) == 0 && len(row) == 0 {
-					p.Legend.Add("landmark", ls)
-				}
 			}
 			row = append(row, p)
 			if len(row) == cols {
@@ -131,7 +128,7 @@ func Projections(r *hull.Result) (*Picture, error) {
 		Name:   "hull-projections",
 		Width:  6 * vg.Inch,
 		Height: max(h, 2.6*vg.Inch) + 0.3*vg.Inch,
-		title:  fmt.Sprintf("%s — hull %s: delay cloud, %d vectors, window %d", r.Source, r.Hull.Class, len(tr.Cloud), r.Embedding.Window),
+		title:  fmt.Sprintf("%s — hull %s: delay cloud, %d vectors, window %d (rings: landmarks)", r.Source, r.Hull.Class, len(tr.Cloud), r.Embedding.Window),
 		panels: rows,
 		Caption: "Pairwise projections of the first whitened delay components; colour is the circular coordinate " +
 			"(a closed loop of colours: a hull that is a circle shows the colours in order around it), rings mark the landmarks.",
@@ -234,6 +231,12 @@ func Persistence(r *hull.Result) (*Picture, error) {
 		y += 1.5
 	}
 	code.Y.Tick.Marker = plot.ConstantTicks(ticks)
+	long, _ := plotter.NewLine(plotter.XYs{{}, {X: 1}})
+	long.Color, long.Width = Tidewater.Ink, vg.Points(3)
+	short, _ := plotter.NewLine(plotter.XYs{{}, {X: 1}})
+	short.Color, short.Width = faded(Tidewater.Ink, 0.35), vg.Points(1.2)
+	code.Legend.Add(fmt.Sprintf("longer than τ = %.3g", tau), long)
+	code.Legend.Add("shorter (not counted)", short)
 	code.Y.Min, code.Y.Max = -1, y
 	code.X.Min, code.X.Max = 0, top
 

@@ -12,6 +12,7 @@ import (
 	"gonum.org/v1/plot"
 
 	"phasonhull/pattern"
+	"phasonhull/pattern/design"
 	"phasonhull/topology/hull"
 	"phasonhull/topology/spectrum"
 )
@@ -299,4 +300,54 @@ func emptyVariance(t *testing.T, like *Picture) float64 {
 		t.Fatal(err)
 	}
 	return luminanceVariance(img)
+}
+
+// TestTorusPictures: a two-angle chain gets a second grid of projections
+// (coloured by its second circular coordinate) and two angle panels.
+func TestTorusPictures(t *testing.T) {
+	if testing.Short() {
+		t.Skip("analyses 1500 sites")
+	}
+	s := design.NewSpec("two-angle")
+	s.Sites, s.Theta, s.Amp, s.Theta2, s.Amp2 = 1500, 0.309, 0.1, 0.1273, 0.08
+	p, err := design.Generate(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := hull.Analyze(p, hull.Options{Seed: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Hull.Class != hull.Torus || len(r.Trace.Coordinates) != 2 {
+		t.Skipf("the analysis found %s with %d coordinates, not a torus", r.Hull.Class, len(r.Trace.Coordinates))
+	}
+	pj, err := Projections(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	circle, err := Projections(demoResults(t)[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(pj.panels) != 2*len(circle.panels) {
+		t.Errorf("torus projections: %d rows of panels, want twice the circle's %d", len(pj.panels), len(circle.panels))
+	}
+	an, err := Angle(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(an.panels) != 2 || len(an.panels[0]) != 2 {
+		t.Errorf("torus angle figure: %d×%d panels, want 2×2", len(an.panels), len(an.panels[0]))
+	}
+	b, err := pj.Bytes(PNG)
+	if err != nil {
+		t.Fatal(err)
+	}
+	img, err := png.Decode(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w, h := pj.Pixels(); img.Bounds().Dx() != w || img.Bounds().Dy() != h {
+		t.Errorf("%v pixels, want %dx%d", img.Bounds().Size(), w, h)
+	}
 }
