@@ -88,7 +88,7 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	if err != nil {
 		return err
 	}
-	if err := f.plot.writeAnalysis(res); err != nil {
+	if err := f.plot.writeAnalysis(cmd.ErrOrStderr(), res); err != nil {
 		return err
 	}
 	out := cmd.OutOrStdout()

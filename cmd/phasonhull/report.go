@@ -3,7 +3,9 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 
@@ -35,11 +37,17 @@ func (f *plotFlags) validate() error {
 }
 
 // writeAnalysis writes the figures of a hull result, when --plot is set.
-func (f *plotFlags) writeAnalysis(r *hull.Result) error {
+// A result with nothing to draw is said so on stderr, not refused: the
+// analysis itself succeeded.
+func (f *plotFlags) writeAnalysis(stderr io.Writer, r *hull.Result) error {
 	if f.dir == "" {
 		return nil
 	}
 	pics, err := picture.Analysis(r)
+	if errors.Is(err, picture.ErrNoTrace) {
+		fmt.Fprintf(stderr, "phasonhull: --plot: no figure written: %v\n", err)
+		return nil
+	}
 	if err != nil {
 		return fmt.Errorf("--plot: %w", err)
 	}
@@ -80,7 +88,12 @@ func (f *plotFlags) write(pics []*picture.Picture) error {
 	}
 	for _, p := range pics {
 		path := filepath.Join(f.dir, p.Name+"."+string(format))
-		if err := writeFileAtomic(path, func(file *os.File) error { return p.Encode(file, format) }); err != nil {
+		if err := writeFileAtomic(path, func(file *os.File) error {
+			if err := file.Chmod(0o644); err != nil {
+				return err
+			}
+			return p.Encode(file, format)
+		}); err != nil {
 			return err
 		}
 	}

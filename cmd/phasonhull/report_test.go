@@ -184,6 +184,25 @@ func TestPlotFlags(t *testing.T) {
 	if !bytes.Contains(b, []byte("<svg")) {
 		t.Error("audit.svg holds no <svg> element")
 	}
+	// A finite hull has no circular coordinate: no angle figure.
+	code, csv, _ := runCmd("generate", "periodic", "--cell", "1,1.5", "--sites", "120")
+	if code != exitOK {
+		t.Fatalf("generate: exit %d", code)
+	}
+	per := filepath.Join(t.TempDir(), "periodic.csv")
+	if err := os.WriteFile(per, []byte(csv), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	fin := t.TempDir()
+	if code, _, stderr := runCmd("analyze", per, "--plot", fin); code != exitOK {
+		t.Fatalf("analyze --plot on a periodic chain: exit %d: %s", code, stderr)
+	}
+	if _, err := os.Stat(filepath.Join(fin, "hull-projections.png")); err != nil {
+		t.Error(err)
+	}
+	if _, err := os.Stat(filepath.Join(fin, "angle.png")); err == nil {
+		t.Error("an angle figure for a finite hull")
+	}
 	if code, _, _ := runCmd("analyze", demoSample, "--plot", dir, "--plot-format", "gif"); code != exitInput {
 		t.Errorf("--plot-format gif: exit %d, want %d", code, exitInput)
 	}
