@@ -26,7 +26,7 @@ var (
 )
 
 // demoResults analyses the demo sample twice with the same seed.
-func demoResults(t *testing.T) [2]*hull.Result {
+func demoResults(t testing.TB) [2]*hull.Result {
 	t.Helper()
 	demoOnce.Do(func() {
 		for i := range demoRes {
