@@ -68,6 +68,21 @@ func TestReportDemo(t *testing.T) {
 			t.Fatalf("%s: %v", name, err)
 		}
 	}
+	// analysis.json is what analyze --json prints for the same sample.
+	code, want, stderr := runCmd("analyze", "--json", demoSample)
+	if code != exitOK {
+		t.Fatalf("analyze: exit %d: %s", code, stderr)
+	}
+	if got, _ := os.ReadFile(filepath.Join(dir, "analysis.json")); string(got) != want {
+		t.Error("analysis.json differs from analyze --json")
+	}
+	code, want, stderr = runCmd("audit", "--json", "--design", demoDesign, demoSample)
+	if code != exitOK && code != exitFail {
+		t.Fatalf("audit: exit %d: %s", code, stderr)
+	}
+	if got, _ := os.ReadFile(filepath.Join(dir, "audit.json")); string(got) != want {
+		t.Error("audit.json differs from audit --json")
+	}
 	if analysis["schema"] != "phasonhull.analysis/1" || audit["schema"] != auditSchema {
 		t.Errorf("schemas %v and %v", analysis["schema"], audit["schema"])
 	}
