@@ -54,6 +54,7 @@ func guard(stderr io.Writer, f func() int) (code int) {
 // execute runs one command line without the panic guard.
 func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	root := newRootCmd(stdin, stdout, stderr)
+	bindTimeout(root)
 	root.SetArgs(args)
 	err := root.Execute()
 	if err == nil {
