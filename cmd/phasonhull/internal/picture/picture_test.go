@@ -309,7 +309,7 @@ func TestTorusPictures(t *testing.T) {
 		t.Skip("analyses 1500 sites")
 	}
 	s := design.NewSpec("two-angle")
-	s.Sites, s.Theta, s.Amp, s.Theta2, s.Amp2 = 1500, 0.309, 0.1, 0.1273, 0.08
+	s.Sites, s.Theta, s.Amp, s.Theta2, s.Amp2 = 1500, 0.309, 0.1, 0.2071, 0.08
 	p, err := design.Generate(s)
 	if err != nil {
 		t.Fatal(err)
