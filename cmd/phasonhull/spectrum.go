@@ -125,7 +125,10 @@ not counted: IDS = levels at or below the gap's lower edge / N.
 an open chain and counts, for the widest gaps, the signed crossings of the
 gap's middle by the states on each end (+1 upward). For a gap of label
 n + mθ, θ the angle the phase advances by per site, the first end's states
-cross m times and the last end's −m times.
+cross m times and the last end's −m times. A tiling (sturmian) is swept
+through its intercept and changes by jumps; steps read across a jump are
+counted as such, and a step that cannot be read is counted unresolved and
+keeps the gap from agreeing.
 
 --theta-grid START:STOP:COUNT (with --design) writes the whole spectrum at
 each θ as CSV rows theta,eigenvalue,ids (to --out, or standard output).
@@ -697,13 +700,13 @@ func (rep *spectrumReport) write(out io.Writer, asJSON bool) error {
 	if er := rep.EdgeModes; er != nil {
 		fmt.Fprintf(&b, "edge modes  %d phases over one turn; signed crossings of each gap's middle (+1 upward), first end and last end; expected +m and −m\n", er.Phases)
 		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
-		fmt.Fprintf(tw, "\tIDS\tlabel\tm\tfirst end\tlast end\tunresolved\tagrees\t\n")
+		fmt.Fprintf(tw, "\tIDS\tlabel\tm\tfirst end\tlast end\tjumps\tunresolved\tagrees\t\n")
 		for _, g := range er.Gaps {
 			lab, m := "unlabelled", "-"
 			if l := g.Gap.Label; l != nil {
 				lab, m = ints(l.Coeffs), fmt.Sprintf("%+d", l.Coeffs[1])
 			}
-			fmt.Fprintf(tw, "\t%.6f\t%s\t%s\t%+d\t%+d\t%d\t%v\t\n", g.Gap.IDS, lab, m, g.First, g.Last, g.Unresolved, g.Agrees)
+			fmt.Fprintf(tw, "\t%.6f\t%s\t%s\t%+d\t%+d\t%d\t%d\t%v\t\n", g.Gap.IDS, lab, m, g.First, g.Last, g.Jumps, g.Unresolved, g.Agrees)
 		}
 		tw.Flush()
 	}

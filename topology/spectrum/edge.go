@@ -91,14 +91,24 @@ type EdgeGap struct {
 	// Last = −m, m the label's (first) angle coefficient: the
 	// bulk–boundary relation (see the package documentation).
 	Agrees bool `json:"agrees"`
-	// Unresolved counts sweep steps whose changes stayed ambiguous after
-	// the last halving; they add nothing to First and Last.
+	// Jumps counts sweep steps still ambiguous after the last halving
+	// that were read as a discontinuity of the sweep (a tile pattern's
+	// levels jump as its intercept moves): levels paired in order however
+	// far they moved, one level left over at most, the one nearest an
+	// edge of the band.
+	Jumps int `json:"jumps"`
+	// Unresolved counts steps that could not be read even so; they add
+	// nothing to First and Last.
 	Unresolved int `json:"unresolved"`
 }
 
-// gapLevels are the levels in the inner band of one gap at one phase, by
-// end (first, last), ascending.
-type gapLevels [2][]float64
+// gapLevels are the boundary states in the inner band of one gap at one
+// phase, by end (first, last), ascending, and the number of all levels
+// below the gap's middle.
+type gapLevels struct {
+	ends  [2][]float64
+	below int
+}
 
 // EdgeModes follows the levels inside the widest gaps of an open chain as
 // the sweep moves the pattern through one turn, and counts the signed
@@ -107,11 +117,15 @@ type gapLevels [2][]float64
 // The gaps are those of the chain at s = 0, found and labelled by Analyze
 // with opt.Options. At each phase, the boundary states inside a gap's
 // inner band (the gap less an eighth of its width at each edge) are
-// located, and each is put on the end that holds more of its weight. Between two phases the
-// counts below and above the middle change; a level moving from below to
-// above is +1 for its end, the reverse −1, and a level entering or leaving
-// the inner band changes only one count. A step whose changes do not read
-// as at most one such event per end is halved.
+// located, and each is put on the end that holds more of its weight.
+// Between two phases the levels of each end pair up in order; a level
+// moving from below the middle to above is +1 for its end, the reverse −1,
+// and a level entering or leaving the inner band near its edges counts
+// nothing. A step whose changes do not read as at most one such event per
+// end, or disagree with the change of the count of all levels below the
+// middle (bulk levels never cross it), is halved; one still ambiguous
+// after the last halving is read as a jump of the sweep (see
+// EdgeGap.Jumps).
 func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 	if sweep == nil {
 		return nil, errors.New("spectrum: no sweep")
@@ -181,12 +195,20 @@ func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 		var again []int
 		for _, g := range which {
 			lo, hi, mid := innerBand(res.Gaps[g].Gap)
-			var f [2]int
-			ok := true
+			// Bulk levels never cross the middle of a gap: the change
+			// of the count below it is minus the net upward flow.
+			total := a[g].below - b[g].below
+			f, ok := [2]int{}, true
 			for end := range 2 {
 				var okEnd bool
-				f[end], okEnd = flowStep(a[g][end], b[g][end], lo, hi, mid)
+				f[end], okEnd = flowStep(a[g].ends[end], b[g].ends[end], lo, hi, mid)
 				ok = ok && okEnd
+			}
+			ok = ok && f[0]+f[1] == total
+			if !ok && depth >= maxSweepRefine {
+				if f, ok = readJump(a[g], b[g], total, mid, hi-lo); ok {
+					res.Gaps[g].Jumps++
+				}
 			}
 			switch {
 			case ok:
@@ -258,8 +280,9 @@ func bandLevels(op *Operator, gaps []EdgeGap, method Method, workers int) ([]gap
 	}
 	out := make([]gapLevels, len(gaps))
 	for i, eg := range gaps {
-		lo, hi, _ := innerBand(eg.Gap)
+		lo, hi, mid := innerBand(eg.Gap)
 		k0, k1 := lv.count(lo), lv.count(hi)
+		out[i].below = lv.count(mid)
 		for k := k0; k < k1; k++ {
 			e := lv.level(k, lo, hi)
 			x := op.eigenvector(e, uint64(k))
@@ -271,10 +294,62 @@ func bandLevels(op *Operator, gaps []EdgeGap, method Method, workers int) ([]gap
 			if l > f {
 				end = 1
 			}
-			out[i][end] = append(out[i][end], e)
+			out[i].ends[end] = append(out[i].ends[end], e)
 		}
 	}
 	return out, nil
+}
+
+// readJump reads a step across a discontinuity of the sweep, where levels
+// jump rather than move: the net flow through the middle is total (from
+// the count of all levels below it) and belongs to the end whose boundary
+// states changed. A jump of a tile pattern changes one tile, near one
+// end; the states of the other end shift by no more than its exponentially
+// small reach, which is taken as no change when below 1e-3 of the band.
+// The step is read only when one end changed, the flow is one level, and
+// that end's states show it: for an upward flow, no state gained below the
+// middle and none lost above, one at least lost below or gained above (the
+// mirror for a downward flow). A level that jumps across the whole band,
+// or both ends changing, leaves the step unread.
+func readJump(a, b gapLevels, total int, mid, band float64) ([2]int, bool) {
+	var f [2]int
+	if total == 0 {
+		return f, true
+	}
+	var changed []int
+	for end := range 2 {
+		x, y := a.ends[end], b.ends[end]
+		moved := len(x) != len(y)
+		for i := 0; !moved && i < len(x); i++ {
+			moved = math.Abs(x[i]-y[i]) > 1e-3*band
+		}
+		if moved {
+			changed = append(changed, end)
+		}
+	}
+	if len(changed) != 1 || abs(total) != 1 {
+		return f, false
+	}
+	end := changed[0]
+	below := func(v []float64) int {
+		n := 0
+		for _, e := range v {
+			if e < mid {
+				n++
+			}
+		}
+		return n
+	}
+	dBelow := below(b.ends[end]) - below(a.ends[end])
+	dAbove := (len(b.ends[end]) - below(b.ends[end])) - (len(a.ends[end]) - below(a.ends[end]))
+	if total < 0 {
+		dBelow, dAbove = -dBelow, -dAbove
+	}
+	if dBelow > 0 || dAbove < 0 || (dBelow == 0 && dAbove == 0) {
+		return f, false
+	}
+	f[end] = total
+	return f, true
 }
 
 // flowStep reads the signed crossings of mid between two phases from the

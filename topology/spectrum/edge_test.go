@@ -114,3 +114,45 @@ func TestEdgeModesRefuses(t *testing.T) {
 		t.Error("negative samples accepted")
 	}
 }
+
+// A Sturmian tiling swept through its intercept changes by jumps (one tile
+// flips at a time), which EdgeModes reads from the count below each gap's
+// middle. The widest gaps, m = ±1, still agree with their labels; and no
+// gap disagrees without saying so: where a level jumps across a whole gap
+// and no end can be credited, the step is counted unresolved.
+func TestEdgeModesSturmianJumps(t *testing.T) {
+	thetas := []float64{golden * golden, 0.2763}
+	if testing.Short() {
+		thetas = thetas[:1]
+	}
+	for _, theta := range thetas {
+		s := design.NewSpec("sturmian")
+		s.Sites, s.Theta = 300, theta
+		sw, err := PhaseSweep(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := EdgeModes(sw, Model{Law: Exp{T0: 1, Decay: 2}}, EdgeOptions{Options: Options{Angles: []float64{theta}, MinGap: 0.01}, Gaps: 6})
+		if err != nil {
+			t.Fatal(err)
+		}
+		jumps := 0
+		for _, g := range r.Gaps {
+			jumps += g.Jumps
+			l := g.Gap.Label
+			if l == nil {
+				continue
+			}
+			m := l.Coeffs[1]
+			if abs(m) == 1 && !g.Agrees {
+				t.Errorf("θ %.4f: gap m = %d: first %+d last %+d (%d jumps, %d unresolved), want agreement", theta, m, g.First, g.Last, g.Jumps, g.Unresolved)
+			}
+			if g.Unresolved == 0 && (g.First != m || g.Last != -m) {
+				t.Errorf("θ %.4f: gap m = %d read %+d/%+d with no unresolved step", theta, m, g.First, g.Last)
+			}
+		}
+		if jumps == 0 {
+			t.Errorf("θ %.4f: no step read as a jump; the sweep of a tiling should have some", theta)
+		}
+	}
+}
