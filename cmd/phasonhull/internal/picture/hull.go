@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"path/filepath"
 	"slices"
 	"sort"
 
@@ -128,7 +129,7 @@ func Projections(r *hull.Result) (*Picture, error) {
 		Name:   "hull-projections",
 		Width:  6 * vg.Inch,
 		Height: max(h, 2.6*vg.Inch) + 0.3*vg.Inch,
-		title:  fmt.Sprintf("%s — hull %s: delay cloud, %d vectors, window %d (rings: landmarks)", r.Source, r.Hull.Class, len(tr.Cloud), r.Embedding.Window),
+		title:  fmt.Sprintf("%s — %s hull: %d delay vectors, window %d (rings: landmarks)", filepath.Base(r.Source), r.Hull.Class, len(tr.Cloud), r.Embedding.Window),
 		panels: rows,
 		Caption: "Pairwise projections of the first whitened delay components; colour is the circular coordinate " +
 			"(a closed loop of colours: a hull that is a circle shows the colours in order around it), rings mark the landmarks.",
