@@ -278,12 +278,19 @@ func dominantBasis(n []int, x []float64, f, se []float64) ([]float64, []float64)
 		power float64
 	}
 	var tones []tone
+	span := float64(n[len(n)-1] - n[0] + 1)
 	for m1 := 0; m1 <= 3; m1++ {
 		for m2 := -3; m2 <= 3; m2++ {
 			if m1 == 0 && m2 <= 0 {
 				continue // one of ±m
 			}
 			g := float64(m1)*f[0] + float64(m2)*f[1]
+			// A tone within the resolution of 0 or ½ is a near-resonance
+			// (a small element of the module), not a modulation the
+			// pattern shows; it would also pick up the trend.
+			if fg := topology.Fold(g); fg < 2/span || fg > 0.5-2/span {
+				continue
+			}
 			var re, im float64
 			for i, v := range n {
 				s, c := math.Sincos(2 * math.Pi * g * float64(v))
@@ -302,6 +309,9 @@ func dominantBasis(n []int, x []float64, f, se []float64) ([]float64, []float64)
 		}
 		return 0
 	})
+	if len(tones) < 2 {
+		return f, se
+	}
 	first := tones[0].m
 	for _, t := range tones[1:] {
 		if det := first[0]*t.m[1] - first[1]*t.m[0]; det == 1 || det == -1 {
