@@ -30,6 +30,9 @@ const (
 	// longWindow is the window the barcodes are computed at when the
 	// window is chosen from the data (see newAnalysis).
 	longWindow = 12
+	// maxLabelGenerators bounds the generators (besides 1) over which gap
+	// labels are enumerated: (2M+1)^d labels for d generators.
+	maxLabelGenerators = 2
 	// windowSample bounds the clean spacings the window rules see.
 	windowSample = 1500
 )
@@ -349,7 +352,11 @@ func (a *analysis) labels() {
 				gens = m.Basis
 			}
 			g.Generators = append(g.Generators, gens...)
-			g.Labels = labelsFrom(topology.Labels(gens, a.opt.MaxCoeff))
+			if len(gens) <= maxLabelGenerators {
+				g.Labels = labelsFrom(topology.Labels(gens, a.opt.MaxCoeff))
+			} else {
+				a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the factor frequencies show too few integer relations at the precision %d letters allow (rank %d): the gap-label group is not resolved and no labels are listed; more sites would resolve it", a.p.Len()-1, m.Rank))
+			}
 		}
 	}
 	if g.Labels == nil {

@@ -116,3 +116,16 @@ func TestLargeJitterIsPoint(t *testing.T) {
 		t.Errorf("disorder %v, want 0.06 ± 10%%", r.Disorder.RMS)
 	}
 }
+
+// A Thue–Morse chain too short to resolve the group of its factor
+// frequencies must say so, not enumerate labels over a dozen generators.
+func TestThueMorseShort(t *testing.T) {
+	p := generate(t, design.Spec{Family: "substitution", Rule: "thue-morse", Sites: 4096, Tiles: map[string]float64{"A": 1, "B": 1.5}})
+	r := analyze(t, p)
+	if r.Hull.Class != Cantor {
+		t.Fatalf("class %s", r.Hull.Class)
+	}
+	if len(r.GapLabels.Generators) > 3 && len(r.GapLabels.Labels) != 0 {
+		t.Errorf("%d labels listed over %d generators", len(r.GapLabels.Labels), len(r.GapLabels.Generators))
+	}
+}
