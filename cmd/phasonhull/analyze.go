@@ -201,10 +201,3 @@ func ints(v []int) string {
 	return "(" + strings.Join(s, ", ") + ")"
 }
 
-func floats(v []float64) string {
-	s := make([]string, len(v))
-	for i, x := range v {
-		s[i] = fmt.Sprintf("%.6g", x)
-	}
-	return strings.Join(s, ", ")
-}
