@@ -200,4 +200,3 @@ func ints(v []int) string {
 	}
 	return "(" + strings.Join(s, ", ") + ")"
 }
-
