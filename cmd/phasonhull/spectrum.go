@@ -81,7 +81,7 @@ func (f *spectrumFlags) register(cmd *cobra.Command) {
 	fs.Float64SliceVar(&f.theta, "theta", nil, "angle(s) θ[,θ2] in turns for the labels (default: the design's, or recovered from the pattern)")
 	fs.IntVar(&f.period, "period", 0, "label the gaps k/p of a periodic chain with p sites per cell")
 	fs.IntVar(&f.maxCoeff, "max-coeff", spectrum.DefaultMaxCoeff, "largest |m| of the labels tried")
-	fs.Float64Var(&f.minGap, "min-gap", spectrum.DefaultMinGap, "smallest gap reported, relative to the width of the spectrum")
+	fs.Float64Var(&f.minGap, "min-gap", 0, "smallest gap reported, relative to the width of the spectrum (0: the larger of 0.001 and 4 mean level spacings)")
 
 	fs.BoolVar(&f.edgeModes, "edge-modes", false, "with --design: sweep the design's phase through one turn and count boundary states crossing the widest gaps")
 	fs.IntVar(&f.samples, "samples", spectrum.DefaultSamples, "with --edge-modes: phases of the first pass over the turn")
@@ -408,6 +408,11 @@ func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *ope
 // the design's own angle(s) or period, the hull analysis of the pattern.
 func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
 	opt := spectrum.Options{MinGap: f.minGap, MaxCoeff: f.maxCoeff}
+	if opt.MinGap == 0 && p != nil {
+		// Not narrower than 4 mean level spacings of this chain, so that
+		// the spacing of a finite chain's levels is not read as gaps.
+		opt.MinGap = max(spectrum.DefaultMinGap, 4/float64(p.Len()))
+	}
 	switch f.method {
 	case "auto":
 	case "values", "counting":
