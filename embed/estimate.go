@@ -277,6 +277,8 @@ func (p chebPoint) Compare(c kdtree.Comparable, d kdtree.Dim) float64 {
 // Dims implements kdtree.Comparable.
 func (p chebPoint) Dims() int { return len(p.x) }
 
+func (p chebPoint) coords() []float64 { return p.x }
+
 // Distance implements kdtree.Comparable: the squared maximum norm, which
 // is at least the squared distance to any splitting plane, as the tree's
 // pruning needs.
@@ -289,8 +291,8 @@ func (p chebPoint) Distance(c kdtree.Comparable) float64 {
 	return m * m
 }
 
-// chebPoints implements kdtree.Interface.
-type chebPoints []chebPoint
+// chebPoints is the k-d tree set of points under the maximum norm.
+type chebPoints = treeSet[chebPoint]
 
 func newChebPoints(points [][]float64) chebPoints {
 	c := make(chebPoints, len(points))
@@ -298,27 +300,4 @@ func newChebPoints(points [][]float64) chebPoints {
 		c[i] = chebPoint{x: p, id: i}
 	}
 	return c
-}
-
-func (p chebPoints) Index(i int) kdtree.Comparable         { return p[i] }
-func (p chebPoints) Len() int                              { return len(p) }
-func (p chebPoints) Slice(start, end int) kdtree.Interface { return p[start:end] }
-func (p chebPoints) Pivot(d kdtree.Dim) int {
-	return kdtree.Partition(chebPlane{p, d}, kdtree.MedianOfMedians(chebPlane{p, d}))
-}
-
-// chebPlane sorts chebPoints along one coordinate for the tree's pivot.
-type chebPlane struct {
-	chebPoints
-	dim kdtree.Dim
-}
-
-func (p chebPlane) Less(i, j int) bool {
-	return p.chebPoints[i].x[p.dim] < p.chebPoints[j].x[p.dim]
-}
-func (p chebPlane) Swap(i, j int) {
-	p.chebPoints[i], p.chebPoints[j] = p.chebPoints[j], p.chebPoints[i]
-}
-func (p chebPlane) Slice(start, end int) kdtree.SortSlicer {
-	return chebPlane{p.chebPoints[start:end], p.dim}
 }

@@ -374,6 +374,8 @@ func (p delayPoint) Compare(c kdtree.Comparable, d kdtree.Dim) float64 {
 // Dims implements kdtree.Comparable.
 func (p delayPoint) Dims() int { return len(p.x) }
 
+func (p delayPoint) coords() []float64 { return p.x }
+
 // Distance implements kdtree.Comparable: the squared Euclidean distance.
 func (p delayPoint) Distance(c kdtree.Comparable) float64 {
 	q := c.(delayPoint)
@@ -385,31 +387,8 @@ func (p delayPoint) Distance(c kdtree.Comparable) float64 {
 	return s
 }
 
-// delayPoints implements kdtree.Interface.
-type delayPoints []delayPoint
-
-func (p delayPoints) Index(i int) kdtree.Comparable         { return p[i] }
-func (p delayPoints) Len() int                              { return len(p) }
-func (p delayPoints) Slice(start, end int) kdtree.Interface { return p[start:end] }
-func (p delayPoints) Pivot(d kdtree.Dim) int {
-	return kdtree.Partition(delayPlane{p, d}, kdtree.MedianOfMedians(delayPlane{p, d}))
-}
-
-// delayPlane sorts delayPoints along one coordinate for the tree's pivot.
-type delayPlane struct {
-	delayPoints
-	dim kdtree.Dim
-}
-
-func (p delayPlane) Less(i, j int) bool {
-	return p.delayPoints[i].x[p.dim] < p.delayPoints[j].x[p.dim]
-}
-func (p delayPlane) Swap(i, j int) {
-	p.delayPoints[i], p.delayPoints[j] = p.delayPoints[j], p.delayPoints[i]
-}
-func (p delayPlane) Slice(start, end int) kdtree.SortSlicer {
-	return delayPlane{p.delayPoints[start:end], p.dim}
-}
+// delayPoints is the k-d tree set of delay vectors.
+type delayPoints = treeSet[delayPoint]
 
 // nearestOther is a kdtree.Keeper that keeps the single nearest point
 // other than the query itself, breaking ties in distance by the lower
