@@ -39,6 +39,11 @@ type Options struct {
 	// left out of the cloud. nil excludes none; otherwise it holds one
 	// entry per spacing.
 	Exclude []bool
+	// LandmarkPool, when positive, restricts the landmarks to the first
+	// LandmarkPool delay vectors (a stretch of the chain long enough to
+	// trace the hull bounds the O(vectors × landmarks) cost on long
+	// chains); the cover radius is then that of the pool. 0 means all.
+	LandmarkPool int
 }
 
 // withDefaults fills in the defaults and checks the options.
@@ -156,7 +161,11 @@ func Embed(p *pattern.Pattern, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, fmt.Errorf("embedding: %w", err)
 	}
-	res.Landmarks, res.CoverRadius, err = Landmarks(res.Whitened.Cloud, opt.Landmarks, opt.Seed)
+	pool := res.Whitened.Cloud
+	if opt.LandmarkPool > 0 && opt.LandmarkPool < len(pool) {
+		pool = pool[:opt.LandmarkPool]
+	}
+	res.Landmarks, res.CoverRadius, err = Landmarks(pool, opt.Landmarks, opt.Seed)
 	if err != nil {
 		return nil, fmt.Errorf("embedding: %w", err)
 	}

@@ -33,6 +33,11 @@ const (
 	// maxLabelGenerators bounds the generators (besides 1) over which gap
 	// labels are enumerated: (2M+1)^d labels for d generators.
 	maxLabelGenerators = 2
+	// poolSize bounds the delay vectors the topology works on: the
+	// landmarks, their cover radius and the circular coordinates come from
+	// the first poolSize vectors, a stretch that traces the hull many times
+	// over; the angle is then refined on every site.
+	poolSize = 50000
 	// windowSample bounds the clean spacings the window rules see.
 	windowSample = 1500
 )
@@ -137,7 +142,7 @@ func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
 		}
 	}
 	a.labels()
-	res.Trace.Cloud, res.Trace.Rows, res.Trace.Landmarks = a.em.Whitened.Cloud, a.em.Rows, a.em.Landmarks
+	res.Trace.Cloud, res.Trace.Rows, res.Trace.Landmarks = a.pool, a.em.Rows[:len(a.pool)], a.em.Landmarks
 	if a.diagram != nil {
 		res.Trace.Bars = a.diagram.Bars
 	}
@@ -156,6 +161,7 @@ type analysis struct {
 	siteWarnings []string  // what siteSteps found, reported unless the tiling route decides
 	u            []float64 // dimensionless spacings
 	em           *embed.Result
+	pool         [][]float64      // the vectors the topology works on (see poolSize)
 	diagram      *rips.Diagram    // barcodes of the main landmark set
 	landmarks    [][]float64      // the landmarks behind diagram
 	module       *topology.Module // the group of factor frequencies of an aperiodic tiling
@@ -182,7 +188,7 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 	// the signal's components grow with the window while the noise per
 	// component does not, so a thin direction of the trace no longer
 	// drowns in noise once whitened.
-	eo := embed.Options{Window: opt.Window, Landmarks: opt.Landmarks, Seed: opt.Seed, Noise: opt.Noise, Exclude: exclude}
+	eo := embed.Options{Window: opt.Window, Landmarks: opt.Landmarks, Seed: opt.Seed, Noise: opt.Noise, Exclude: exclude, LandmarkPool: poolSize}
 	var choice *embed.WindowChoice
 	chosen := opt.Window
 	if opt.Window == 0 {
@@ -203,6 +209,7 @@ func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error
 	}
 	em.Choice = choice
 	a.em = em
+	a.pool = em.Whitened.Cloud[:min(len(em.Whitened.Cloud), poolSize)]
 	e := &res.Embedding
 	e.ChosenWindow = chosen
 	e.Window = em.Window

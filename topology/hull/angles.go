@@ -56,7 +56,17 @@ func (a *analysis) measureAngles() error {
 		}
 	}
 	n, x := a.fitSites()
-	fit, h, err := bestFit(n, x, rough)
+	fit, h, err := bestFit(n[:min(len(n), poolSize)], x[:min(len(x), poolSize)], rough)
+	if err == nil && len(x) > poolSize {
+		// A long chain: the harmonics and a first frequency come from its
+		// first poolSize sites, whose estimate is already far inside the
+		// full chain's resolution 1/L; one fit of every site refines it.
+		f0 := make([]float64, len(fit.Freq))
+		for i, f := range fit.Freq {
+			f0[i] = topology.Fold(f)
+		}
+		fit, err = topology.RefineFrequencies(n, x, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2})
+	}
 	if err == nil {
 		fit, n, x = a.dropOutliers(fit, h, n, x)
 	}
@@ -157,7 +167,7 @@ func (a *analysis) roughAngle(c rips.Cocycle) (float64, float64, error) {
 	if err != nil {
 		return 0, 0, err
 	}
-	coords, err := cm.Extend(a.em.Whitened.Cloud)
+	coords, err := cm.Extend(a.pool)
 	if err != nil {
 		return 0, 0, err
 	}

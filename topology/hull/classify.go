@@ -87,12 +87,12 @@ func (a *analysis) classify() error {
 
 	// A trace in four or more directions may be a torus, whose loops and
 	// 2-cycle need a denser cover than a circle's loop.
-	if w.Kept >= 4 && a.opt.Landmarks < torusLandmarks && len(a.em.Landmarks) < len(w.Cloud) {
-		idx, c, err := embed.Landmarks(w.Cloud, torusLandmarks, a.opt.Seed)
+	if w.Kept >= 4 && a.opt.Landmarks < torusLandmarks && len(a.em.Landmarks) < len(a.pool) {
+		idx, c, err := embed.Landmarks(a.pool, torusLandmarks, a.opt.Seed)
 		if err != nil {
 			return err
 		}
-		a.em.Landmarks, a.em.LandmarkCloud, a.em.CoverRadius = idx, pick(w.Cloud, idx), c
+		a.em.Landmarks, a.em.LandmarkCloud, a.em.CoverRadius = idx, pick(a.pool, idx), c
 		a.res.Embedding.Landmarks, a.res.Embedding.CoverRadius = len(idx), c
 	}
 	nLandmarks := max(a.opt.Landmarks, len(a.em.Landmarks))
@@ -103,11 +103,11 @@ func (a *analysis) classify() error {
 	for s := range a.opt.Subsamples {
 		lm, cover := a.em.LandmarkCloud, a.em.CoverRadius
 		if s > 0 {
-			idx, c, err := embed.Landmarks(w.Cloud, nLandmarks, a.opt.Seed+uint64(s))
+			idx, c, err := embed.Landmarks(a.pool, nLandmarks, a.opt.Seed+uint64(s))
 			if err != nil {
 				return err
 			}
-			lm, cover = pick(w.Cloud, idx), c
+			lm, cover = pick(a.pool, idx), c
 		}
 		br, err := a.barcodes(lm, cover, a.opt.Seed+uint64(s), s == 0)
 		if err != nil {
@@ -221,12 +221,12 @@ func (a *analysis) barcodes(lm [][]float64, cover float64, seed uint64, main boo
 	if b[1] >= 2 || loose[1] >= 2 {
 		// A 2-cycle needs a denser cover than a loop: H2 is computed on at
 		// least torusLandmarks landmarks.
-		if want := max(a.opt.Landmarks, torusLandmarks); len(lm) < want && len(lm) < len(a.em.Whitened.Cloud) {
-			idx, c, err := embed.Landmarks(a.em.Whitened.Cloud, want, seed)
+		if want := max(a.opt.Landmarks, torusLandmarks); len(lm) < want && len(lm) < len(a.pool) {
+			idx, c, err := embed.Landmarks(a.pool, want, seed)
 			if err != nil {
 				return bettiReading{}, err
 			}
-			lm, cover = pick(a.em.Whitened.Cloud, idx), c
+			lm, cover = pick(a.pool, idx), c
 		}
 		opt.MaxDim = 2
 		if dg, err = rips.VietorisRips(lm, opt); err != nil {

@@ -169,8 +169,9 @@ func labelsFrom(ls []topology.Label) []Label {
 
 // Trace is the delay cloud an analysis ran on, for pictures and reports.
 type Trace struct {
-	// Cloud holds the whitened delay vectors; Rows[i] is the index of the
-	// first spacing of vector i.
+	// Cloud holds the whitened delay vectors the topology worked on (the
+	// first 50 000 of a long chain); Rows[i] is the index of the first
+	// spacing of vector i.
 	Cloud [][]float64
 	Rows  []int
 	// Landmarks indexes the landmark vectors of Cloud.
