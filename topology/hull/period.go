@@ -18,7 +18,7 @@ type periodTest struct {
 // squared difference, over the M pairs, stays within that expectation times
 // 1 + 5√(2/M) (five standard errors of a χ² mean) plus a rounding floor;
 // nu is the noise variance estimated from the delay spectrum, independent
-// of the periodic hypothesis. Exact data (ν ≈ 0) must repeat to rounding.
+// of the periodic hypothesis, allowed noiseSlack for its own error. Exact data (ν ≈ 0) must repeat to rounding.
 // An irrational modulation fails every p unless ‖pθ‖ is so small that the
 // data cannot tell it from a period.
 //
@@ -54,13 +54,20 @@ func spacingPeriod(u []float64, nu float64, maxP int) periodTest {
 		if p == 1 {
 			want = 3 * nu
 		}
-		limit := want*(1+5*math.Sqrt(2/float64(m))) + rounding
+		limit := noiseSlack*want*(1+5*math.Sqrt(2/float64(m))) + rounding
 		if s <= limit && (p == 1 || resolvedCell(u, p)) {
 			return periodTest{Period: p, Ratio: s / math.Max(want, rounding)}
 		}
 	}
 	return periodTest{}
 }
+
+// noiseSlack allows for the error of the noise estimate itself: ν comes
+// from the median eigenvalue of the delay covariance, and for position
+// noise (spacing noise a moving average) the eigenvalues spread over
+// (0, 2ν), so their median lands between about 0.8ν and 1.4ν depending on
+// the window (see package embed's tests).
+const noiseSlack = 1.5
 
 // sepFactor is how many window scatters apart the points of a finite hull
 // must lie.
