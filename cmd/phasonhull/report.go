@@ -15,6 +15,7 @@ import (
 	"phasonhull/cmd/phasonhull/internal/picture"
 	"phasonhull/cmd/phasonhull/internal/report"
 	"phasonhull/topology/hull"
+	"phasonhull/topology/spectrum"
 )
 
 // plotFlags are the flags of the commands that can draw their result.
@@ -34,6 +35,21 @@ func (f *plotFlags) register(fs *pflag.FlagSet) {
 func (f *plotFlags) validate() error {
 	_, err := picture.ParseFormat(f.format)
 	return err
+}
+
+// writeSpectrum writes the IDS staircase of a spectrum, when --plot is
+// set; a spectrum found by counting holds no levels to draw, which is said
+// on stderr.
+func (f *plotFlags) writeSpectrum(stderr io.Writer, r *spectrum.Result, source, levels string) error {
+	if f.dir == "" || r == nil {
+		return nil
+	}
+	p, err := picture.Spectrum(r, source, levels)
+	if err != nil {
+		fmt.Fprintf(stderr, "phasonhull: --plot: no figure written: %v\n", err)
+		return nil
+	}
+	return f.write([]*picture.Picture{p})
 }
 
 // writeAnalysis writes the figures of a hull result, when --plot is set.

@@ -26,7 +26,8 @@ const spectrumSchema = "phasonhull.spectrum/1"
 
 // spectrumFlags holds the flags of "phasonhull spectrum".
 type spectrumFlags struct {
-	in inputFlags
+	in   inputFlags
+	plot plotFlags
 
 	design, eigenvalues, patternFile string
 
@@ -59,6 +60,7 @@ var modelFlags = []string{"model", "hopping", "table", "t0", "decay", "power", "
 func (f *spectrumFlags) register(cmd *cobra.Command) {
 	fs := cmd.Flags()
 	f.in.register(fs)
+	f.plot.register(fs)
 	fs.StringVar(&f.design, "design", "", "build the chain from a JSON design `SPEC` (as phasonhull generate --spec takes) instead of FILE")
 	fs.StringVar(&f.eigenvalues, "eigenvalues", "", "analyse measured levels from `FILE` (one per line: frequencies, ω² or energies) instead of an operator")
 	fs.StringVar(&f.patternFile, "pattern", "", "with --eigenvalues: recover the angle(s) for the labels from this pattern `FILE`")
@@ -211,6 +213,9 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 	if err := f.check(cmd, args); err != nil {
 		return err
 	}
+	if err := f.plot.validate(); err != nil {
+		return err
+	}
 	rep := &spectrumReport{Schema: spectrumSchema, Notes: []string{}, Warnings: []string{}, Caution: caution, MaxCoeff: f.maxCoeff, Angles: []float64{}}
 	if f.eigenvalues != "" {
 		return runMeasured(cmd, f, rep)
@@ -270,7 +275,18 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		}
 	}
 	rep.Warnings = append(rep.Warnings, rep.Spectrum.Warnings...)
+	if err := f.plot.writeSpectrum(cmd.ErrOrStderr(), rep.Spectrum, rep.Source, levelsAxis(f.model)); err != nil {
+		return err
+	}
 	return rep.write(cmd.OutOrStdout(), f.json)
+}
+
+// levelsAxis names the quantity on the spectrum picture's level axis.
+func levelsAxis(model string) string {
+	if model == "springs" {
+		return "ω² (squared frequency)"
+	}
+	return "energy (units of t0)"
 }
 
 // check refuses contradictory flags before anything is read.
@@ -511,6 +527,9 @@ func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) erro
 		rep.Out = f.out
 	}
 	rep.Warnings = append(rep.Warnings, rep.Spectrum.Warnings...)
+	if err := f.plot.writeSpectrum(cmd.ErrOrStderr(), rep.Spectrum, f.eigenvalues, "measured level"); err != nil {
+		return err
+	}
 	return rep.write(cmd.OutOrStdout(), f.json)
 }
 
