@@ -8,6 +8,8 @@ import (
 	"io"
 	"math"
 	"os"
+	"phasonhull/cmd/phasonhull/internal/picture"
+	"slices"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -543,12 +545,19 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 	if err != nil {
 		return err
 	}
+	// The spectra are kept for --plot only.
+	var plotThetas []float64
+	var plotValues [][]float64
 	scan := func(w io.Writer) error {
+		plotThetas, plotValues = nil, nil
 		bw := bufio.NewWriter(w)
 		fmt.Fprintf(bw, "# phasonhull spectrum: every level of %s over %d values of θ; ids = (index + 1)/N\n", f.design, len(thetas))
 		bw.WriteString("theta,eigenvalue,ids\n")
 		var buf []byte
 		err := spectrum.ScanTheta(spec, m, thetas, func(theta float64, v []float64) error {
+			if f.plot.dir != "" {
+				plotThetas, plotValues = append(plotThetas, theta), append(plotValues, slices.Clone(v))
+			}
 			for k, e := range v {
 				buf = strconv.AppendFloat(buf[:0], theta, 'g', -1, 64)
 				buf = append(buf, ',')
@@ -567,16 +576,32 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 		}
 		return bw.Flush()
 	}
+	plot := func() error {
+		if f.plot.dir == "" {
+			return nil
+		}
+		p, err := picture.ThetaScan(plotThetas, plotValues, f.design, levelsAxis(f.model))
+		if err != nil {
+			return fmt.Errorf("--plot: %w", err)
+		}
+		return f.plot.write([]*picture.Picture{p})
+	}
 	if f.out == "" {
 		// Standard output: compute first, so that an error writes nothing.
 		var sb strings.Builder
 		if err := scan(&sb); err != nil {
 			return err
 		}
+		if err := plot(); err != nil {
+			return err
+		}
 		_, err := io.WriteString(cmd.OutOrStdout(), sb.String())
 		return err
 	}
 	if err := writeFileAtomic(f.out, func(file *os.File) error { return scan(file) }); err != nil {
+		return err
+	}
+	if err := plot(); err != nil {
 		return err
 	}
 	fmt.Fprintf(cmd.OutOrStdout(), "written     %s: the spectrum at %d values of θ\n", f.out, len(thetas))

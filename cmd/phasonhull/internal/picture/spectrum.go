@@ -78,3 +78,36 @@ func Spectrum(r *spectrum.Result, source, levels string) (*Picture, error) {
 			"reported gaps, each marked with its gap label (coefficients of 1 and the angle(s)) at its IDS.",
 	}, nil
 }
+
+// ThetaScan draws the spectrum of a design family against its angle: one
+// dot per level at each θ of the scan, so that the gaps show as the empty
+// regions between bands. thetas[i] is the angle of values[i]; levels
+// names the level axis with its unit.
+func ThetaScan(thetas []float64, values [][]float64, source, levels string) (*Picture, error) {
+	if len(thetas) == 0 || len(thetas) != len(values) {
+		return nil, errors.New("spectrum-against-angle picture: no spectra to draw")
+	}
+	var pts plotter.XYs
+	for i, th := range thetas {
+		for _, e := range values[i] {
+			pts = append(pts, plotter.XY{X: th, Y: e})
+		}
+	}
+	p := newPanel("", "θ (turns)", levels)
+	sc, err := plotter.NewScatter(pts)
+	if err != nil {
+		return nil, fmt.Errorf("spectrum-against-angle picture: %w", err)
+	}
+	sc.GlyphStyle.Color = Tidewater.Blue
+	sc.GlyphStyle.Radius = vg.Points(0.35)
+	sc.GlyphStyle.Shape = draw.CircleGlyph{}
+	p.Add(sc)
+	return &Picture{
+		Name:    "spectrum-theta",
+		Width:   6 * vg.Inch,
+		Height:  4 * vg.Inch,
+		title:   fmt.Sprintf("%s — spectrum against the angle, %d angles", source, len(thetas)),
+		panels:  [][]*plot.Plot{{p}},
+		Caption: "Every level of the design's operator at each angle θ of the scan; gaps are the empty regions between the bands.",
+	}, nil
+}
