@@ -259,6 +259,15 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 			return err
 		}
 		rep.EdgeModes, rep.Spectrum = er, er.Start
+		if f.plot.dir != "" {
+			pic, err := picture.EdgeFlow(er, f.design, levelsAxis(f.model))
+			if err != nil {
+				return fmt.Errorf("--plot: %w", err)
+			}
+			if err := f.plot.write([]*picture.Picture{pic}); err != nil {
+				return err
+			}
+		}
 	} else {
 		op, err := spectrum.New(p, m)
 		if err != nil {

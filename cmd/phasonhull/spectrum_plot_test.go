@@ -59,3 +59,15 @@ func checkPNG(t *testing.T, path string) {
 	}
 	t.Errorf("%s is blank", path)
 }
+
+// spectrum --edge-modes --plot draws the spectral flow over the sweep.
+func TestEdgeFlowPlot(t *testing.T) {
+	dir := t.TempDir()
+	var out, errb bytes.Buffer
+	code := run([]string{"spectrum", "--design", "../../testdata/demo/lw0412_design.json", "--hopping", "exp", "--decay", "3", "--edge-modes", "--plot", dir}, nil, &out, &errb)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	checkPNG(t, filepath.Join(dir, "edge-modes.png"))
+	checkPNG(t, filepath.Join(dir, "spectrum.png"))
+}

@@ -76,6 +76,18 @@ type EdgeResult struct {
 	Phases int `json:"phases"`
 	// Gaps are the followed gaps, widest first.
 	Gaps []EdgeGap `json:"gaps"`
+	// Flow holds every boundary state seen inside a followed gap at every
+	// phase evaluated, for pictures; it is not part of the JSON form.
+	Flow []FlowPoint `json:"-"`
+}
+
+// FlowPoint is one boundary state inside a followed gap at one phase.
+type FlowPoint struct {
+	// Phase is the sweep's phase in turns, Level the state's eigenvalue.
+	Phase, Level float64
+	// Gap indexes EdgeResult.Gaps; End is 0 for the first end of the
+	// chain, 1 for the last.
+	Gap, End int
 }
 
 // EdgeGap is the spectral flow across one gap over the sweep.
@@ -182,7 +194,18 @@ func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 			return nil, fmt.Errorf("spectrum: phase %.6g: the sweep changed the number of sites from %d to %d", s, op0.Len(), op.Len())
 		}
 		res.Phases++
-		return bandLevels(op, res.Gaps, opt.Method, opt.Workers)
+		lv, err := bandLevels(op, res.Gaps, opt.Method, opt.Workers)
+		if err != nil {
+			return nil, err
+		}
+		for g := range lv {
+			for end := range 2 {
+				for _, e := range lv[g].ends[end] {
+					res.Flow = append(res.Flow, FlowPoint{Phase: s, Level: e, Gap: g, End: end})
+				}
+			}
+		}
+		return lv, nil
 	}
 	c0, err := sample(0)
 	if err != nil {

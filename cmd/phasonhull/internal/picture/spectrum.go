@@ -3,6 +3,7 @@ package picture
 import (
 	"errors"
 	"fmt"
+	"image/color"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -109,5 +110,54 @@ func ThetaScan(thetas []float64, values [][]float64, source, levels string) (*Pi
 		title:   fmt.Sprintf("%s — spectrum against the angle, %d angles", source, len(thetas)),
 		panels:  [][]*plot.Plot{{p}},
 		Caption: "Every level of the design's operator at each angle θ of the scan; gaps are the empty regions between the bands.",
+	}, nil
+}
+
+// EdgeFlow draws the spectral flow of an edge-mode sweep: the boundary
+// states inside each followed gap against the phason's phase, one colour
+// per end of the chain, over the gaps shaded at the sweep's start. A gap
+// of label n + mθ is crossed m times upward by the first end's states and
+// m times downward by the last end's over one turn.
+func EdgeFlow(r *spectrum.EdgeResult, source, levels string) (*Picture, error) {
+	if r == nil || len(r.Gaps) == 0 {
+		return nil, errors.New("edge-mode picture: no gap was followed")
+	}
+	p := newPanel("", "phason phase (turns)", levels)
+	for _, g := range r.Gaps {
+		band, err := plotter.NewPolygon(plotter.XYs{{X: 0, Y: g.Gap.Lower}, {X: 1, Y: g.Gap.Lower}, {X: 1, Y: g.Gap.Upper}, {X: 0, Y: g.Gap.Upper}})
+		if err != nil {
+			return nil, fmt.Errorf("edge-mode picture: %w", err)
+		}
+		band.Color = faded(Tidewater.Amber, 0.3)
+		band.LineStyle.Width = 0
+		p.Add(band)
+	}
+	var ends [2]plotter.XYs
+	for _, f := range r.Flow {
+		ends[f.End] = append(ends[f.End], plotter.XY{X: f.Phase, Y: f.Level})
+	}
+	for end, name := range []string{"first end", "last end"} {
+		if len(ends[end]) == 0 {
+			continue
+		}
+		sc, err := plotter.NewScatter(ends[end])
+		if err != nil {
+			return nil, fmt.Errorf("edge-mode picture: %w", err)
+		}
+		sc.GlyphStyle.Color = []color.Color{Tidewater.Blue, Tidewater.Rust}[end]
+		sc.GlyphStyle.Radius = vg.Points(1)
+		sc.GlyphStyle.Shape = draw.CircleGlyph{}
+		p.Add(sc)
+		p.Legend.Add(name, sc)
+	}
+	p.X.Min, p.X.Max = 0, 1
+	p.Legend.Top = true
+	return &Picture{
+		Name:    "edge-modes",
+		Width:   6 * vg.Inch,
+		Height:  4 * vg.Inch,
+		title:   fmt.Sprintf("%s — states inside the gaps over one turn of the phason, %d gaps", source, len(r.Gaps)),
+		panels:  [][]*plot.Plot{{p}},
+		Caption: "Boundary states inside the followed gaps (shaded at the start of the sweep) against the phase, coloured by the end of the chain they sit on.",
 	}, nil
 }
