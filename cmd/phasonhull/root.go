@@ -17,7 +17,13 @@ metrology export, a column from a paper's table, a generated design),
 turns its spacings into delay-coordinate vectors, and reads the hull of the
 pattern — the space of its local configurations — off their persistent
 homology.`,
-		Example: `  # Write a modulated design and look at its delay-coordinate trace
+		Example: `  # The main job: the hull, step angle and gap labels of a measured sample
+  phasonhull analyze testdata/demo/lw0412_cmm.csv
+
+  # Check the sample against its design: calibration, defects, hull and angle
+  phasonhull audit --design testdata/demo/lw0412_design.json testdata/demo/lw0412_cmm.csv
+
+  # Write a modulated design and look at its delay-coordinate trace
   phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
   phasonhull embed design.csv`,
 		SilenceUsage:  true,
