@@ -8,7 +8,6 @@ import (
 	"path/filepath"
 	"slices"
 	"strconv"
-	"strings"
 	"testing"
 
 	"phasonhull/topology/rips"
@@ -131,22 +130,12 @@ func dist(a, b []float64) float64 {
 	return math.Sqrt(s)
 }
 
-// writeCloud writes one point a line, coordinates separated by spaces and
-// printed exactly (grid coordinates are dyadic, hence finite decimals).
+// writeCloud writes the cloud to a temporary file in the reference's
+// point-cloud format and returns its path.
 func writeCloud(t *testing.T, pts [][]float64) string {
 	t.Helper()
-	var b strings.Builder
-	for _, p := range pts {
-		for k, x := range p {
-			if k > 0 {
-				b.WriteByte(' ')
-			}
-			b.WriteString(strconv.FormatFloat(x, 'f', -1, 64))
-		}
-		b.WriteByte('\n')
-	}
 	path := filepath.Join(t.TempDir(), "cloud.txt")
-	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
+	if err := clouds.WriteFile(path, pts); err != nil {
 		t.Fatal(err)
 	}
 	return path

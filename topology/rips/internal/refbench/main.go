@@ -95,7 +95,7 @@ func run(reps int, only, ref string) error {
 			continue
 		}
 		path := filepath.Join(dir, c.Name+".txt")
-		if err := writeCloud(path, c.Points); err != nil {
+		if err := clouds.WriteFile(path, c.Points); err != nil {
 			return err
 		}
 		dim := strconv.Itoa(c.MaxDim)
@@ -178,18 +178,3 @@ func parseOurs(out []byte) ([]string, error) {
 	return reference.Format(bars), nil
 }
 
-// writeCloud writes one point a line; grid coordinates are dyadic, so
-// their shortest decimals are exact.
-func writeCloud(path string, pts [][]float64) error {
-	var b strings.Builder
-	for _, p := range pts {
-		for k, x := range p {
-			if k > 0 {
-				b.WriteByte(' ')
-			}
-			b.WriteString(strconv.FormatFloat(x, 'f', -1, 64))
-		}
-		b.WriteByte('\n')
-	}
-	return os.WriteFile(path, []byte(b.String()), 0o644)
-}

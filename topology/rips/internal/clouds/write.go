@@ -1,0 +1,25 @@
+package clouds
+
+import (
+	"os"
+	"strconv"
+	"strings"
+)
+
+// WriteFile writes a cloud as text, one point a line with its coordinates
+// separated by spaces, each printed exactly (shortest decimal that reads
+// back to the same float64; grid coordinates are dyadic, hence finite
+// decimals) — the point-cloud format both engines read.
+func WriteFile(path string, pts [][]float64) error {
+	var b strings.Builder
+	for _, p := range pts {
+		for k, x := range p {
+			if k > 0 {
+				b.WriteByte(' ')
+			}
+			b.WriteString(strconv.FormatFloat(x, 'f', -1, 64))
+		}
+		b.WriteByte('\n')
+	}
+	return os.WriteFile(path, []byte(b.String()), 0o644)
+}
