@@ -177,4 +177,3 @@ func parseOurs(out []byte) ([]string, error) {
 	}
 	return reference.Format(bars), nil
 }
-
