@@ -67,6 +67,7 @@ README).`,
 	fs.BoolVar(&f.json, "json", false, "print the result as one JSON object")
 	fs.BoolVar(&f.allLabels, "all-labels", false, "list every gap label in the text output (default: the first 12)")
 	f.plot.register(fs)
+	fileArgs(cmd)
 	return cmd
 }
 

@@ -17,6 +17,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
 	"phasonhull/pattern/register"
@@ -144,6 +145,9 @@ or flags, 1 for a bug.`,
 	fs.BoolVar(&f.json, "json", false, "print the report as one JSON object")
 	fs.StringVarP(&f.out, "out", "o", "", "write the report to `FILE` instead of standard output (nothing is written on bad input)")
 	f.plot.register(fs)
+	fileArgs(cmd)
+	outfile.Mark(cmd.Flags(), outfile.Input, "design")
+	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out")
 	return cmd
 }
 
@@ -190,11 +194,6 @@ func runAudit(cmd *cobra.Command, path string, f *auditFlags) error {
 			return err
 		}
 	}
-	if f.out != "" && f.out != "-" {
-		if err := refuseOverwrite(f.out, []string{path, f.designPath}); err != nil {
-			return err
-		}
-	}
 	p, err := f.in.load(path, cmd.InOrStdin())
 	if err != nil {
 		return err
@@ -226,7 +225,7 @@ func runAudit(cmd *cobra.Command, path string, f *auditFlags) error {
 		if _, err := cmd.OutOrStdout().Write(buf.Bytes()); err != nil {
 			return err
 		}
-	} else if err := writeFileAtomic(f.out, func(file *os.File) error {
+	} else if err := writeFileAtomic(f.out, func(file io.Writer) error {
 		_, err := file.Write(buf.Bytes())
 		return err
 	}); err != nil {
@@ -326,19 +325,6 @@ func readSpecIfSpec(path string) (spec design.Spec, isSpec bool, err error) {
 		return spec, true, fmt.Errorf("design: %w", err)
 	}
 	return spec, true, nil
-}
-
-// refuseOverwrite refuses an output path that names one of the inputs.
-func refuseOverwrite(out string, inputs []string) error {
-	for _, in := range inputs {
-		if in == "" || in == "-" {
-			continue
-		}
-		if samePath(out, in) {
-			return fmt.Errorf("output %s is also an input: refusing to write over it", out)
-		}
-	}
-	return nil
 }
 
 // samePath reports whether two paths name the same file: the same clean

@@ -15,6 +15,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/embed"
 	"phasonhull/pattern"
 	"phasonhull/topology/rips"
@@ -87,6 +88,8 @@ budget is refused with a hint of what to lower.`,
 		},
 	}
 	f.register(cmd)
+	fileArgs(cmd)
+	outfile.Mark(cmd.Flags(), outfile.Input, "points")
 	return cmd
 }
 

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -16,6 +17,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/topology/hull"
 )
 
@@ -39,7 +41,7 @@ func newBatchCmd() *cobra.Command {
 		Long: `batch runs analyze over many files — or, with --design, audit against one
 design — and writes one summary table with a row per file, in the order
 the files were given (the files of a DIR in name order, leaving out hidden
-files, the design and the summary files). Files are processed on all
+files and the design). Files are processed on all
 cores (--jobs bounds the workers); the summary is the same whatever the
 number of workers.
 
@@ -53,9 +55,11 @@ disorder_relative (over the mean spacing), verdict (pass or fail with
 --design, empty without; "error" for a file that failed), missing, extra,
 rms, max, offset, scale (audits only), reasons, error.
 
-Both outputs are written atomically, after every file is done; an output
-path that names an input or the design is refused, and nothing is written
-on bad flags or a bad design.
+Both outputs are written atomically, after every file is done. An output
+that is an input — a file given, the design, or a file already in a DIR
+given (a summary of an earlier run there, say) — is refused before any
+work starts; write the summary outside the folders you analyse. Nothing is
+written on bad flags or a bad design.
 
 Exit status: 2 when some file could not be processed (the summary is still
 written), else 3 when some audit failed, else 0; 2 as well for bad flags,
@@ -74,6 +78,9 @@ and 1 for a bug.`,
 	fs.StringVarP(&f.out, "out", "o", "", "write the summary as CSV to `FILE` (required)")
 	fs.StringVar(&f.jsonOut, "json", "", "also write the summary as JSON to `FILE`")
 	fs.IntVarP(&f.jobs, "jobs", "j", 0, "files processed at once (0: one per core)")
+	fileArgs(cmd)
+	outfile.Mark(cmd.Flags(), outfile.Input, "design")
+	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out", "json")
 	return cmd
 }
 
@@ -119,24 +126,11 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	if err := f.audit.validate(); err != nil {
 		return err
 	}
-	outs := []string{f.out}
-	if f.jsonOut != "" {
-		outs = append(outs, f.jsonOut)
-		if samePath(f.out, f.jsonOut) {
-			return fmt.Errorf("--out and --json name the same file %s", f.out)
-		}
-	}
-	// A folder's files leave out the design and the outputs (a summary
-	// from an earlier run, say); files named one by one do not.
-	files, err := batchFiles(args, append(slices.Clone(outs), f.audit.designPath))
+	// A folder's files leave out the design; outputs that would be among
+	// them were refused before the run started (bindOutputCheck).
+	files, err := batchFiles(args, []string{f.audit.designPath})
 	if err != nil {
 		return err
-	}
-	inputs := append(slices.Clone(files), f.audit.designPath)
-	for _, o := range outs {
-		if err := refuseOverwrite(o, inputs); err != nil {
-			return err
-		}
 	}
 
 	jobs := f.jobs
@@ -185,11 +179,11 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 			sum.Failed++
 		}
 	}
-	if err := writeFileAtomic(f.out, func(file *os.File) error { return writeBatchCSV(file, rows) }); err != nil {
+	if err := writeFileAtomic(f.out, func(file io.Writer) error { return writeBatchCSV(file, rows) }); err != nil {
 		return err
 	}
 	if f.jsonOut != "" {
-		if err := writeFileAtomic(f.jsonOut, func(file *os.File) error {
+		if err := writeFileAtomic(f.jsonOut, func(file io.Writer) error {
 			enc := json.NewEncoder(file)
 			enc.SetIndent("", "  ")
 			return enc.Encode(sum)
@@ -312,7 +306,7 @@ func batchOne(path string, d *loadedDesign, f *auditFlags, opt hull.Options) (ro
 }
 
 // writeBatchCSV writes the summary table.
-func writeBatchCSV(file *os.File, rows []batchRow) error {
+func writeBatchCSV(file io.Writer, rows []batchRow) error {
 	w := csv.NewWriter(file)
 	w.Write([]string{"file", "sites", "unit", "class", "period", "angles", "uncertainty", "disorder", "disorder_relative",
 		"verdict", "missing", "extra", "rms", "max", "offset", "scale", "reasons", "error"})

@@ -138,9 +138,11 @@ func TestBatchAudit(t *testing.T) {
 	}
 }
 
-// A folder's files leave out the design and an earlier summary written
-// into the folder, so that running a batch twice gives the same rows.
-func TestBatchFolderSkipsDesignAndOutputs(t *testing.T) {
+// A folder's files leave out the design. A summary written into the folder
+// would be one of its files on the next run: that run is refused before
+// any work and leaves the summary as it was; a summary written outside the
+// folder gives the same rows run after run.
+func TestBatchFolderSkipsDesignAndRefusesItsOwnFiles(t *testing.T) {
 	dir := t.TempDir()
 	for _, name := range []string{"a_clean.csv", "b_clean.csv"} {
 		data, err := os.ReadFile(filepath.Join(batchFolder, name))
@@ -151,22 +153,34 @@ func TestBatchFolderSkipsDesignAndOutputs(t *testing.T) {
 	}
 	spec, _ := os.ReadFile(auditPath("design.json"))
 	os.WriteFile(filepath.Join(dir, "design.json"), spec, 0o644)
-	out := filepath.Join(dir, "summary.csv")
+	inside := filepath.Join(dir, "summary.csv")
+	outside := filepath.Join(t.TempDir(), "summary.csv")
 	var first string
 	for run := range 2 {
-		code, _, stderr := runCmd("batch", dir, "--design", filepath.Join(dir, "design.json"), "--out", out)
+		code, _, stderr := runCmd("batch", dir, "--design", filepath.Join(dir, "design.json"), "--out", outside)
 		if code != exitOK {
 			t.Fatalf("run %d: exit %d: %s", run, code, stderr)
 		}
-		data, _ := os.ReadFile(out)
+		data, _ := os.ReadFile(outside)
 		if run == 0 {
 			first = string(data)
 		} else if string(data) != first {
 			t.Errorf("second run differs:\n%s\n%s", first, data)
 		}
 	}
-	if _, rows := readSummary(t, out); len(rows) != 2 {
+	if _, rows := readSummary(t, outside); len(rows) != 2 {
 		t.Errorf("%d rows, want the two samples", len(rows))
+	}
+	if code, _, stderr := runCmd("batch", dir, "--design", filepath.Join(dir, "design.json"), "--out", inside); code != exitOK {
+		t.Fatalf("first run into the folder: exit %d: %s", code, stderr)
+	}
+	before, _ := os.ReadFile(inside)
+	code, _, stderr := runCmd("batch", dir, "--design", filepath.Join(dir, "design.json"), "--out", inside)
+	if code != exitInput || strings.Count(stderr, "\n") != 1 || !strings.Contains(stderr, inside) {
+		t.Errorf("second run into the folder: exit %d, %q; want exit 2 and one line naming %s", code, stderr, inside)
+	}
+	if after, _ := os.ReadFile(inside); string(after) != string(before) {
+		t.Error("the refused run changed the summary")
 	}
 }
 

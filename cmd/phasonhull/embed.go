@@ -6,12 +6,12 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
 
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/embed"
 	"phasonhull/pattern"
 )
@@ -80,6 +80,8 @@ then its whitened components (or, with --raw, its dimensionless spacings).`,
 		},
 	}
 	f.register(cmd)
+	fileArgs(cmd)
+	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out")
 	return cmd
 }
 
@@ -111,7 +113,7 @@ func runEmbed(cmd *cobra.Command, path string, f *embedFlags) error {
 		if f.raw {
 			kind = "raw"
 		}
-		if err := writeFileAtomic(f.out, func(file *os.File) error {
+		if err := writeFileAtomic(f.out, func(file io.Writer) error {
 			return writeVectors(file, p, res, f.raw)
 		}); err != nil {
 			return err

@@ -4,12 +4,14 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
 	"os"
 	"strings"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
 )
@@ -191,6 +193,8 @@ a complete design; a FAMILY argument or flags given as well override it.`,
 		},
 	}
 	f.register(cmd.Flags())
+	outfile.Mark(cmd.Flags(), outfile.Input, "spec")
+	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out")
 	return cmd
 }
 
@@ -241,7 +245,7 @@ func runGenerate(cmd *cobra.Command, args []string, f *generateFlags) error {
 		_, err := cmd.OutOrStdout().Write(buf.Bytes())
 		return err
 	}
-	return writeFileAtomic(f.out, func(file *os.File) error {
+	return writeFileAtomic(f.out, func(file io.Writer) error {
 		_, err := file.Write(buf.Bytes())
 		return err
 	})

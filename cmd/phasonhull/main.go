@@ -11,6 +11,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"runtime/debug"
 )
 
@@ -23,7 +24,10 @@ const (
 )
 
 func main() {
-	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+	outfile.ExitOnSignal(os.Stderr)
+	code := run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr)
+	outfile.Hold() // no exit inside a commit of a file
+	os.Exit(code)
 }
 
 // run executes one command line and returns the exit status. Any panic
@@ -54,6 +58,7 @@ func guard(stderr io.Writer, f func() int) (code int) {
 // execute runs one command line without the panic guard.
 func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	root := newRootCmd(stdin, stdout, stderr)
+	bindOutputCheck(root)
 	bindTimeout(root)
 	root.SetArgs(args)
 	err := root.Execute()

@@ -1,30 +1,76 @@
 package main
 
 import (
-	"fmt"
-	"os"
-	"path/filepath"
+	"io"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
+	"phasonhull/cmd/phasonhull/internal/outfile"
 )
 
-// writeFileAtomic writes data to path through a temporary file in the same
-// folder and renames it into place, so that a failed run never leaves a
-// half-written output file behind.
-func writeFileAtomic(path string, write func(f *os.File) error) error {
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+// argsAreFiles is the annotation of a command whose positional arguments
+// name input files (or folders of them).
+const argsAreFiles = "phasonhull/args"
+
+// fileArgs marks cmd's positional arguments as input files.
+func fileArgs(cmd *cobra.Command) {
+	if cmd.Annotations == nil {
+		cmd.Annotations = map[string]string{}
 	}
-	defer os.Remove(tmp.Name()) // no-op after a successful rename
-	if err := write(tmp); err != nil {
-		tmp.Close()
-		return fmt.Errorf("writing %s: %w", path, err)
+	cmd.Annotations[argsAreFiles] = "files"
+}
+
+// bindOutputCheck makes every command refuse, before any work starts, an
+// output that is or holds one of the run's inputs (outfile.Check). The
+// inputs are the positional arguments of commands marked by fileArgs and
+// the flags marked outfile.Input; the outputs are the flags marked
+// outfile.OutputFile or outfile.OutputDir. A command or flag added later is
+// covered by being marked.
+func bindOutputCheck(root *cobra.Command) {
+	var wrap func(c *cobra.Command)
+	wrap = func(c *cobra.Command) {
+		if runE := c.RunE; runE != nil {
+			c.RunE = func(cmd *cobra.Command, args []string) error {
+				ins, outs := runPaths(cmd, args)
+				if err := outfile.Check(ins, outs); err != nil {
+					return err
+				}
+				return runE(cmd, args)
+			}
+		}
+		for _, sub := range c.Commands() {
+			wrap(sub)
+		}
 	}
-	if err := tmp.Close(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+	wrap(root)
+}
+
+// runPaths lists the inputs and outputs of one command line.
+func runPaths(cmd *cobra.Command, args []string) (ins, outs []outfile.Path) {
+	if cmd.Annotations[argsAreFiles] != "" {
+		for _, a := range args {
+			ins = append(ins, outfile.Path{Source: "", Name: a})
+		}
 	}
-	if err := os.Rename(tmp.Name(), path); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	return nil
+	cmd.Flags().Visit(func(f *pflag.Flag) {
+		p := outfile.Path{Source: "--" + f.Name, Name: f.Value.String()}
+		switch outfile.RoleOf(f) {
+		case outfile.Input:
+			ins = append(ins, p)
+		case outfile.OutputFile:
+			outs = append(outs, p)
+		case outfile.OutputDir:
+			p.Dir = true
+			outs = append(outs, p)
+		}
+	})
+	return ins, outs
+}
+
+// writeFileAtomic writes the file at path through outfile.WriteFile: the
+// content is staged out of sight and replaces path in one rename, so a
+// failed or stopped run leaves path as it was.
+func writeFileAtomic(path string, write func(w io.Writer) error) error {
+	return outfile.WriteFile(path, write)
 }

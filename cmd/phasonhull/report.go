@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
 	"phasonhull/cmd/phasonhull/internal/report"
 	"phasonhull/topology/hull"
@@ -29,6 +30,7 @@ type plotFlags struct {
 func (f *plotFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.dir, "plot", "", "write the figures of the result into `DIR` (created if missing)")
 	fs.StringVar(&f.format, "plot-format", string(picture.PNG), "encoding of the figures: png or svg")
+	outfile.Mark(fs, outfile.OutputDir, "plot")
 }
 
 // validate refuses a bad --plot-format before any analysis runs.
@@ -93,25 +95,19 @@ func (f *plotFlags) writeAudit(rep *auditReport) error {
 	return f.write(pics)
 }
 
-// write encodes each picture into the plot folder, each file atomically.
+// write encodes the pictures into the plot folder, all or none
+// (outfile.WriteFiles): a missing folder appears with all of them.
 func (f *plotFlags) write(pics []*picture.Picture) error {
 	format, err := picture.ParseFormat(f.format)
 	if err != nil {
 		return err
 	}
-	if err := os.MkdirAll(f.dir, 0o755); err != nil {
-		return fmt.Errorf("--plot: %w", err)
+	files := make([]outfile.File, len(pics))
+	for i, p := range pics {
+		files[i] = outfile.File{Name: p.Name + "." + string(format), Write: func(w io.Writer) error { return p.Encode(w, format) }}
 	}
-	for _, p := range pics {
-		path := filepath.Join(f.dir, p.Name+"."+string(format))
-		if err := writeFileAtomic(path, func(file *os.File) error {
-			if err := file.Chmod(0o644); err != nil {
-				return err
-			}
-			return p.Encode(file, format)
-		}); err != nil {
-			return err
-		}
+	if err := outfile.WriteFiles(f.dir, files); err != nil {
+		return fmt.Errorf("--plot %s: %w", f.dir, err)
 	}
 	return nil
 }
@@ -181,6 +177,9 @@ does not change the exit status.`,
 	f.audit.in.register(fs)
 	f.audit.registerAudit(fs)
 	fs.StringVarP(&f.out, "out", "o", "", "write the report into `DIR` (required)")
+	fileArgs(cmd)
+	outfile.Mark(cmd.Flags(), outfile.Input, "design")
+	outfile.Mark(cmd.Flags(), outfile.OutputDir, "out")
 	return cmd
 }
 
@@ -189,13 +188,6 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		return fmt.Errorf("--out DIR is required")
 	}
 	if err := f.audit.validate(); err != nil {
-		return err
-	}
-	inputs := []string{path}
-	if f.audit.designPath != "" {
-		inputs = append(inputs, f.audit.designPath)
-	}
-	if err := report.CheckDir(f.out, inputs); err != nil {
 		return err
 	}
 	p, err := f.audit.in.load(path, cmd.InOrStdin())
@@ -260,7 +252,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		page.Figures = append(page.Figures, figs...)
 	}
 	progress("writing " + f.out)
-	if err := report.Write(f.out, &page, inputs); err != nil {
+	if err := report.Write(f.out, &page); err != nil {
 		return err
 	}
 	progress("")

@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
 	"slices"
 	"strconv"
@@ -163,6 +164,9 @@ to 4000 sites, and next-nearest bonds are limited to that.`,
 		},
 	}
 	f.register(cmd)
+	fileArgs(cmd)
+	outfile.Mark(cmd.Flags(), outfile.Input, "design", "eigenvalues", "pattern", "table", "onsite-file")
+	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out")
 	return cmd
 }
 
@@ -277,7 +281,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 			return err
 		}
 		if f.out != "" {
-			if err := writeFileAtomic(f.out, func(file *os.File) error {
+			if err := writeFileAtomic(f.out, func(file io.Writer) error {
 				return writeSpectrumLevels(file, op, rep)
 			}); err != nil {
 				return err
@@ -530,7 +534,7 @@ func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) erro
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d levels for a pattern of %d sites: a level missing from the list lowers every IDS above it by 1/N", len(v), p.Len()))
 	}
 	if f.out != "" {
-		if err := writeFileAtomic(f.out, func(file *os.File) error {
+		if err := writeFileAtomic(f.out, func(file io.Writer) error {
 			return writeSpectrumLevels(file, nil, rep)
 		}); err != nil {
 			return err
@@ -607,7 +611,7 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 		_, err := io.WriteString(cmd.OutOrStdout(), sb.String())
 		return err
 	}
-	if err := writeFileAtomic(f.out, func(file *os.File) error { return scan(file) }); err != nil {
+	if err := writeFileAtomic(f.out, func(file io.Writer) error { return scan(file) }); err != nil {
 		return err
 	}
 	if err := plot(); err != nil {

@@ -29,11 +29,11 @@ func TestThetaScanPlot(t *testing.T) {
 		t.Fatal(err)
 	}
 	var out, errb bytes.Buffer
-	code := run([]string{"spectrum", "--design", spec, "--hopping", "exp", "--decay", "3", "--theta-grid", "0.05:0.45:20", "--out", filepath.Join(dir, "scan.csv"), "--plot", dir}, nil, &out, &errb)
+	code := run([]string{"spectrum", "--design", spec, "--hopping", "exp", "--decay", "3", "--theta-grid", "0.05:0.45:20", "--out", filepath.Join(dir, "scan.csv"), "--plot", filepath.Join(dir, "figures")}, nil, &out, &errb)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errb.String())
 	}
-	checkPNG(t, filepath.Join(dir, "spectrum-theta.png"))
+	checkPNG(t, filepath.Join(dir, "figures", "spectrum-theta.png"))
 }
 
 // checkPNG asserts that path holds a PNG that decodes and is not blank.

@@ -10,10 +10,8 @@ import (
 	"fmt"
 	"html/template"
 	"io"
-	"os"
-	"path/filepath"
-	"strings"
 
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
 	"phasonhull/topology/hull"
 )
@@ -72,73 +70,24 @@ func Render(w io.Writer, p *Page) error {
 	return nil
 }
 
-// CheckDir refuses an output folder that holds (at any depth) one of the
-// input files, or that is an existing file.
-func CheckDir(dir string, inputs []string) error {
-	abs, err := filepath.Abs(dir)
-	if err != nil {
-		return fmt.Errorf("report folder %s: %w", dir, err)
-	}
-	if st, err := os.Stat(abs); err == nil && !st.IsDir() {
-		return fmt.Errorf("report folder %s: exists and is not a folder", dir)
-	}
-	for _, in := range inputs {
-		if in == "" || in == "-" {
-			continue
-		}
-		a, err := filepath.Abs(in)
-		if err != nil {
-			return fmt.Errorf("input %s: %w", in, err)
-		}
-		if rel, err := filepath.Rel(abs, a); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
-			return fmt.Errorf("report folder %s holds the input %s: choose another folder", dir, in)
-		}
-	}
-	return nil
-}
-
-// Write writes dir/report.html and the page's files: all of them or none.
-// They are built in a temporary folder next to dir; a missing (or empty)
-// dir is then replaced by it in one rename, and into an existing folder
-// the files are moved one by one only after all were written.
-func Write(dir string, p *Page, inputs []string) error {
-	if err := CheckDir(dir, inputs); err != nil {
-		return err
-	}
+// Write writes dir/report.html and the page's files through
+// outfile.WriteFiles: all of them or none, and a missing dir appears whole.
+// The caller has checked (outfile.Check) that dir holds no input.
+func Write(dir string, p *Page) error {
 	var html bytes.Buffer
 	if err := Render(&html, p); err != nil {
 		return err
 	}
-	dir = filepath.Clean(dir)
-	parent := filepath.Dir(dir)
-	if err := os.MkdirAll(parent, 0o755); err != nil {
-		return fmt.Errorf("writing report %s: %w", dir, err)
-	}
-	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(dir)+".tmp*")
-	if err != nil {
-		return fmt.Errorf("writing report %s: %w", dir, err)
-	}
-	defer os.RemoveAll(tmp) // empty or gone after a successful move
 	files := append([]File{{Name: "report.html", Data: html.Bytes()}}, p.Files...)
-	for _, f := range files {
-		if f.Name != filepath.Base(f.Name) || f.Name == "" || f.Name[0] == '.' {
-			return fmt.Errorf("writing report %s: bad file name %q", dir, f.Name)
-		}
-		if err := os.WriteFile(filepath.Join(tmp, f.Name), f.Data, 0o644); err != nil {
-			return fmt.Errorf("writing report %s: %w", dir, err)
-		}
+	out := make([]outfile.File, len(files))
+	for i, f := range files {
+		out[i] = outfile.File{Name: f.Name, Write: func(w io.Writer) error {
+			_, err := w.Write(f.Data)
+			return err
+		}}
 	}
-	if err := os.Chmod(tmp, 0o755); err != nil {
+	if err := outfile.WriteFiles(dir, out); err != nil {
 		return fmt.Errorf("writing report %s: %w", dir, err)
-	}
-	// rename(2) replaces a missing or empty folder in one step.
-	if err := os.Rename(tmp, dir); err == nil {
-		return nil
-	}
-	for _, f := range files {
-		if err := os.Rename(filepath.Join(tmp, f.Name), filepath.Join(dir, f.Name)); err != nil {
-			return fmt.Errorf("writing report %s: %w", dir, err)
-		}
 	}
 	return nil
 }

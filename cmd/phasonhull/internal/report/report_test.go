@@ -21,7 +21,7 @@ func TestWriteNewAndExistingFolders(t *testing.T) {
 	root := t.TempDir()
 	// A folder that does not exist yet.
 	dir := filepath.Join(root, "new")
-	if err := Write(dir, testPage(), nil); err != nil {
+	if err := Write(dir, testPage()); err != nil {
 		t.Fatal(err)
 	}
 	for _, name := range []string{"report.html", "analysis.json"} {
@@ -32,7 +32,7 @@ func TestWriteNewAndExistingFolders(t *testing.T) {
 	// An existing folder with a file of its own: kept, ours replaced.
 	keep := filepath.Join(dir, "notes.txt")
 	os.WriteFile(keep, []byte("mine"), 0o644)
-	if err := Write(dir, testPage(), nil); err != nil {
+	if err := Write(dir, testPage()); err != nil {
 		t.Fatal(err)
 	}
 	if b, err := os.ReadFile(keep); err != nil || string(b) != "mine" {
@@ -53,7 +53,7 @@ func TestWriteAllOrNone(t *testing.T) {
 	dir := filepath.Join(root, "out")
 	p := testPage()
 	p.Files = append(p.Files, File{Name: "../escape.json", Data: []byte("x")})
-	if err := Write(dir, p, nil); err == nil {
+	if err := Write(dir, p); err == nil {
 		t.Fatal("a file name with a path was accepted")
 	}
 	entries, _ := os.ReadDir(root)
@@ -61,25 +61,7 @@ func TestWriteAllOrNone(t *testing.T) {
 		t.Errorf("a failed write left %d entries behind", len(entries))
 	}
 	// No analysis: refused before anything is created.
-	if err := Write(dir, &Page{}, nil); err == nil {
+	if err := Write(dir, &Page{}); err == nil {
 		t.Error("a page without an analysis was written")
-	}
-}
-
-func TestCheckDir(t *testing.T) {
-	root := t.TempDir()
-	in := filepath.Join(root, "a", "sample.csv")
-	for _, c := range []struct {
-		dir string
-		ok  bool
-	}{
-		{filepath.Join(root, "a"), false},
-		{root, false},
-		{filepath.Join(root, "b"), true},
-		{filepath.Join(root, "a", "out"), true},
-	} {
-		if err := CheckDir(c.dir, []string{in, "-"}); (err == nil) != c.ok {
-			t.Errorf("CheckDir(%s): %v, want ok %v", c.dir, err, c.ok)
-		}
 	}
 }
