@@ -373,7 +373,7 @@ func parseTolerance(s, unit string) (float64, error) {
 	if unit == "" {
 		return 0, fmt.Errorf("--tolerance %q: the sample has no unit; give --unit, or the tolerance without one", s)
 	}
-	k, err := register.UnitFactor(m[2], unit)
+	k, err := pattern.UnitFactor(m[2], unit)
 	if err != nil {
 		return 0, fmt.Errorf("--tolerance %q: %w", s, err)
 	}
@@ -505,7 +505,7 @@ func registerOnDesign(rep *auditReport, d *loadedDesign, p *pattern.Pattern, f *
 		}
 	default:
 		var err error
-		if factor, err = register.UnitFactor(d.p.Unit, p.Unit); err != nil {
+		if factor, err = pattern.UnitFactor(d.p.Unit, p.Unit); err != nil {
 			return fmt.Errorf("design %s against sample %s: %w", d.path, p.Source, err)
 		}
 		rep.Notes = append(rep.Notes, fmt.Sprintf("the design is in %s and the sample in %s: design positions are multiplied by %g", d.p.Unit, p.Unit, factor))

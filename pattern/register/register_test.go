@@ -477,27 +477,6 @@ func TestScreen(t *testing.T) {
 	}
 }
 
-// Unit factors are exact powers of ten (SI prefixes; common practice).
-func TestUnitFactor(t *testing.T) {
-	for _, c := range []struct {
-		from, to string
-		want     float64
-	}{
-		{"mm", "um", 1000}, {"um", "mm", 1e-3}, {"nm", "m", 1e-9}, {"cm", "mm", 10},
-		{"µm", "nm", 1000}, {"mm", "mm", 1}, {"", "", 1}, {"px", "px", 1},
-	} {
-		got, err := UnitFactor(c.from, c.to)
-		if err != nil || got != c.want {
-			t.Errorf("UnitFactor(%q, %q) = %v, %v; want %v", c.from, c.to, got, err, c.want)
-		}
-	}
-	for _, c := range [][2]string{{"mm", ""}, {"", "nm"}, {"px", "mm"}, {"mm", "deg"}} {
-		if _, err := UnitFactor(c[0], c[1]); err == nil {
-			t.Errorf("UnitFactor(%q, %q): no error", c[0], c[1])
-		}
-	}
-}
-
 // A modulated design of N sites with ‖Nθ‖ small is nearly its own mirror
 // image: reversing it, x_{N−1−n} = C − x_n up to 2πa‖(N−1)θ‖-sized terms
 // (closed form: sin 2π((N−1)θ − nθ) = −sin 2πnθ + O(‖(N−1)θ‖)). With
