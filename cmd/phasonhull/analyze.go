@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -200,4 +201,13 @@ func ints(v []int) string {
 		s[i] = fmt.Sprint(x)
 	}
 	return "(" + strings.Join(s, ", ") + ")"
+}
+
+// floats writes numbers with 10 significant digits, comma-separated.
+func floats(v []float64) string {
+	s := make([]string, len(v))
+	for i, x := range v {
+		s[i] = strconv.FormatFloat(x, 'g', 10, 64)
+	}
+	return strings.Join(s, ", ")
 }

@@ -18,6 +18,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
+	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
 )
 
@@ -26,6 +27,7 @@ const batchSchema = "phasonhull.batch/1"
 
 // batchFlags holds the flags of "phasonhull batch".
 type batchFlags struct {
+	in      inputFlags
 	audit   auditFlags
 	out     string
 	jsonOut string
@@ -73,8 +75,8 @@ and 1 for a bug.`,
 		},
 	}
 	fs := cmd.Flags()
-	f.audit.in.register(fs)
-	f.audit.registerAudit(fs)
+	f.in.register(fs)
+	f.audit.register(fs)
 	fs.StringVarP(&f.out, "out", "o", "", "write the summary as CSV to `FILE` (required)")
 	fs.StringVar(&f.jsonOut, "json", "", "also write the summary as JSON to `FILE`")
 	fs.IntVarP(&f.jobs, "jobs", "j", 0, "files processed at once (0: one per core)")
@@ -123,7 +125,8 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	if f.jobs < 0 {
 		return fmt.Errorf("--jobs %d: must not be negative", f.jobs)
 	}
-	if err := f.audit.validate(); err != nil {
+	opt, err := f.audit.options()
+	if err != nil {
 		return err
 	}
 	// A folder's files leave out the design; outputs that would be among
@@ -138,16 +141,13 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		jobs = runtime.GOMAXPROCS(0)
 	}
 	jobs = min(jobs, len(files))
-	opt := f.audit.hullOptions()
-	var d *loadedDesign
-	if f.audit.designPath != "" {
-		// The design is analysed once, with every core.
-		if d, err = loadDesign(f.audit.designPath, f.audit.designUnit, opt); err != nil {
-			return err
-		}
+	// The design is analysed once, with every core.
+	d, err := f.audit.loadDesign(opt.Hull)
+	if err != nil {
+		return err
 	}
 	// Each worker's persistence computations share the cores.
-	opt.Workers = max(1, runtime.GOMAXPROCS(0)/jobs)
+	opt.Hull.Workers = max(1, runtime.GOMAXPROCS(0)/jobs)
 
 	rows := make([]batchRow, len(files))
 	next := make(chan int)
@@ -157,7 +157,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				rows[i] = batchOne(files[i], d, &f.audit, opt)
+				rows[i] = batchOne(files[i], &f.in, d, opt)
 			}
 		}()
 	}
@@ -169,7 +169,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 
 	sum := batchSummary{Schema: batchSchema, Files: len(rows), Rows: rows}
 	if d != nil {
-		sum.Design = d.path
+		sum.Design = d.File.Path
 	}
 	for _, r := range rows {
 		switch r.Verdict {
@@ -261,14 +261,14 @@ func batchFiles(args, skip []string) ([]string, error) {
 
 // batchOne analyses or audits one file. A panic is caught and reported in
 // the row as a bug, so that one file cannot stop the batch.
-func batchOne(path string, d *loadedDesign, f *auditFlags, opt hull.Options) (row batchRow) {
+func batchOne(path string, in *inputFlags, d *audit.Design, opt audit.Options) (row batchRow) {
 	row = batchRow{File: path, Angles: []float64{}, Uncertainty: []float64{}, Reasons: []string{}}
 	defer func() {
 		if r := recover(); r != nil {
 			row.Verdict, row.Error = "error", fmt.Sprintf("%s: internal error (a bug in phasonhull): %v", path, r)
 		}
 	}()
-	p, err := f.in.load(path, nil)
+	p, err := in.load(path, nil)
 	if err != nil {
 		row.Verdict, row.Error = "error", err.Error()
 		return row
@@ -276,18 +276,18 @@ func batchOne(path string, d *loadedDesign, f *auditFlags, opt hull.Options) (ro
 	row.Sites, row.Unit = p.Len(), p.Unit
 	var res *hull.Result
 	if d == nil {
-		if res, err = hull.Analyze(p, opt); err != nil {
+		if res, err = hull.Analyze(p, opt.Hull); err != nil {
 			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
 			return row
 		}
 	} else {
-		rep, err := auditSample(d, p, f, opt)
+		rep, err := audit.Run(d, p, opt)
 		if err != nil {
 			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
 			return row
 		}
 		res = rep.Hull.Measured
-		row.Verdict, row.Reasons = rep.Verdict, rep.Reasons
+		row.Verdict, row.Reasons = string(rep.Verdict), rep.Reasons
 		nm, ne := len(rep.Missing), len(rep.Extra)
 		row.Missing, row.Extra = &nm, &ne
 		if rep.Matched > 0 {
@@ -343,4 +343,17 @@ func writeBatchCSV(file io.Writer, rows []batchRow) error {
 	}
 	w.Flush()
 	return w.Error()
+}
+
+// samePath reports whether two paths name the same file: the same clean
+// absolute path, or the same existing file.
+func samePath(a, b string) bool {
+	aa, errA := filepath.Abs(a)
+	bb, errB := filepath.Abs(b)
+	if errA == nil && errB == nil && aa == bb {
+		return true
+	}
+	sa, errA := os.Stat(a)
+	sb, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(sa, sb)
 }

@@ -15,6 +15,7 @@ import (
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
 	"phasonhull/cmd/phasonhull/internal/report"
+	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
 	"phasonhull/topology/spectrum"
 )
@@ -74,7 +75,7 @@ func (f *plotFlags) writeAnalysis(stderr io.Writer, r *hull.Result) error {
 
 // writeAudit writes the audit figure and the measured sample's hull
 // figures, when --plot is set.
-func (f *plotFlags) writeAudit(rep *auditReport) error {
+func (f *plotFlags) writeAudit(rep *audit.Report) error {
 	if f.dir == "" {
 		return nil
 	}
@@ -114,8 +115,9 @@ func (f *plotFlags) write(pics []*picture.Picture) error {
 
 // auditSites gathers what the audit figure draws from a report; false
 // when no site was matched.
-func auditSites(rep *auditReport) (picture.AuditSites, bool) {
-	a := picture.AuditSites{Source: rep.Measured, Unit: rep.Unit, OutlierThreshold: rep.OutlierThreshold, Verdict: rep.Verdict}
+func auditSites(rep *audit.Report) (picture.AuditSites, bool) {
+	a := picture.AuditSites{Source: rep.Measured, Unit: rep.Unit, OutlierThreshold: rep.OutlierThreshold, Verdict: string(rep.Verdict),
+		Missing: rep.MissingAt(), Extra: rep.ExtraAt()}
 	if len(rep.Sites) == 0 {
 		return a, false
 	}
@@ -125,23 +127,14 @@ func auditSites(rep *auditReport) (picture.AuditSites, bool) {
 	for _, s := range rep.Sites {
 		a.Position = append(a.Position, s.Position)
 		a.Residual = append(a.Residual, s.Residual)
-		a.Flagged = append(a.Flagged, s.Outlier || (s.WithinTolerance != nil && !*s.WithinTolerance))
-	}
-	if rep.reg != nil {
-		for _, j := range rep.Missing {
-			a.Missing = append(a.Missing, rep.reg.Predict(rep.designPos[j]))
-		}
-	}
-	for _, k := range rep.Extra {
-		if k >= 0 && k < len(rep.measuredPos) {
-			a.Extra = append(a.Extra, rep.measuredPos[k])
-		}
+		a.Flagged = append(a.Flagged, s.Flagged())
 	}
 	return a, true
 }
 
 // reportFlags holds the flags of "phasonhull report".
 type reportFlags struct {
+	in    inputFlags
 	audit auditFlags
 	out   string
 }
@@ -174,8 +167,8 @@ does not change the exit status.`,
 		},
 	}
 	fs := cmd.Flags()
-	f.audit.in.register(fs)
-	f.audit.registerAudit(fs)
+	f.in.register(fs)
+	f.audit.register(fs)
 	fs.StringVarP(&f.out, "out", "o", "", "write the report into `DIR` (required)")
 	fileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "design")
@@ -187,29 +180,28 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if f.out == "" {
 		return fmt.Errorf("--out DIR is required")
 	}
-	if err := f.audit.validate(); err != nil {
-		return err
-	}
-	p, err := f.audit.in.load(path, cmd.InOrStdin())
+	opt, err := f.audit.options()
 	if err != nil {
 		return err
 	}
-	var d *loadedDesign
-	if f.audit.designPath != "" {
-		if d, err = loadDesign(f.audit.designPath, f.audit.designUnit, f.audit.hullOptions()); err != nil {
-			return err
-		}
+	p, err := f.in.load(path, cmd.InOrStdin())
+	if err != nil {
+		return err
+	}
+	d, err := f.audit.loadDesign(opt.Hull)
+	if err != nil {
+		return err
 	}
 	progress := newProgress(cmd.ErrOrStderr())
 	progress("analysing " + p.Source)
 	var page report.Page
 	var res *hull.Result
 	if d == nil {
-		if res, err = hull.Analyze(p, f.audit.hullOptions()); err != nil {
+		if res, err = hull.Analyze(p, opt.Hull); err != nil {
 			return err
 		}
 	} else {
-		rep, err := auditSample(d, p, &f.audit, f.audit.hullOptions())
+		rep, err := audit.Run(d, p, opt)
 		if err != nil {
 			return err
 		}
@@ -261,9 +253,12 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 }
 
 // auditSummary is the part of an audit the page shows.
-func auditSummary(rep *auditReport) *report.Audit {
-	a := &report.Audit{Verdict: rep.Verdict, Reasons: rep.Reasons, Design: rep.Design}
-	u := spaced(rep.Unit)
+func auditSummary(rep *audit.Report) *report.Audit {
+	a := &report.Audit{Verdict: string(rep.Verdict), Reasons: rep.Reasons, Design: rep.Design}
+	u := ""
+	if rep.Unit != "" {
+		u = " " + rep.Unit
+	}
 	add := func(k, v string) { a.Rows = append(a.Rows, [2]string{k, v}) }
 	add("sites", fmt.Sprintf("design %d, measured %d: %d matched, %d missing, %d extra", rep.DesignSites, rep.MeasuredSites, rep.Matched, len(rep.Missing), len(rep.Extra)))
 	if rep.Scale != nil {

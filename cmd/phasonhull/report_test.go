@@ -83,7 +83,7 @@ func TestReportDemo(t *testing.T) {
 	if got, _ := os.ReadFile(filepath.Join(dir, "audit.json")); string(got) != want {
 		t.Error("audit.json differs from audit --json")
 	}
-	if analysis["schema"] != "phasonhull.analysis/1" || audit["schema"] != auditSchema {
+	if analysis["schema"] != "phasonhull.analysis/1" || audit["schema"] != "phasonhull.audit/1" {
 		t.Errorf("schemas %v and %v", analysis["schema"], audit["schema"])
 	}
 	// The page shows what the JSON says: class and verdict.

@@ -126,24 +126,22 @@ func NewSpec(family string) Spec {
 // ReadSpec reads a JSON design spec from r; name is used in messages.
 // Fields not given take NewSpec's defaults. Unknown fields, trailing data,
 // values of the wrong type, inputs over MaxSpecBytes and specs Validate
-// refuses are errors that name the file and the field.
+// refuses are refused with a *pattern.InputError that names the file, the
+// line and column where they are known, and the field.
 func ReadSpec(r io.Reader, name string) (Spec, error) {
 	data, err := io.ReadAll(io.LimitReader(r, MaxSpecBytes+1))
 	if err != nil {
-		return Spec{}, fmt.Errorf("reading %s: %w", name, err)
+		return Spec{}, &pattern.InputError{File: name, Err: err}
 	}
 	if len(data) > MaxSpecBytes {
-		return Spec{}, fmt.Errorf("reading %s: a design spec is at most %d bytes", name, MaxSpecBytes)
+		return Spec{}, &pattern.InputError{File: name, Err: fmt.Errorf("a design spec is at most %d bytes", MaxSpecBytes)}
 	}
 	s := Spec{Sites: DefaultSites, Seed: DefaultSeed}
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&s); err != nil {
 		line, col, msg := describeJSONError(data, err)
-		if line > 0 {
-			return Spec{}, fmt.Errorf("reading %s:%d:%d: %w", name, line, col, msg)
-		}
-		return Spec{}, fmt.Errorf("reading %s: %w", name, msg)
+		return Spec{}, &pattern.InputError{File: name, Line: line, Col: col, Err: msg}
 	}
 	rest := int(dec.InputOffset())
 	for rest < len(data) && strings.ContainsRune(" \t\r\n", rune(data[rest])) {
@@ -151,10 +149,10 @@ func ReadSpec(r io.Reader, name string) (Spec, error) {
 	}
 	if rest < len(data) {
 		line, col := lineCol(data, rest)
-		return Spec{}, fmt.Errorf("reading %s:%d:%d: unexpected data after the spec object", name, line, col)
+		return Spec{}, &pattern.InputError{File: name, Line: line, Col: col, Err: errors.New("unexpected data after the spec object")}
 	}
 	if err := s.Validate(); err != nil {
-		return Spec{}, fmt.Errorf("reading %s: %w", name, err)
+		return Spec{}, &pattern.InputError{File: name, Err: err}
 	}
 	return s, nil
 }

@@ -3,6 +3,7 @@ package design
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"math"
 	"os"
 	"path/filepath"
@@ -159,6 +160,10 @@ func TestReadSpecRefusals(t *testing.T) {
 		_, err := ReadSpec(strings.NewReader(c.json), "spec.json")
 		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("ReadSpec(%q): err = %v, want it to contain %q", c.json, err, c.want)
+		}
+		var ie *pattern.InputError
+		if !errors.As(err, &ie) || ie.File != "spec.json" {
+			t.Errorf("ReadSpec(%q): err %v (%T) is not an *InputError naming the file", c.json, err, err)
 		}
 	}
 	big := `{"family": "periodic", "cell": [` + strings.Repeat("1, ", MaxSpecBytes/3) + `1]}`

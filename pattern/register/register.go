@@ -423,51 +423,6 @@ func swaps(ds, ms chain, matchedM []int) []Swap {
 	return out
 }
 
-// Limits are what an audit allows of a registration.
-type Limits struct {
-	// MaxMissing and MaxExtra are the numbers of missing and extra sites
-	// allowed.
-	MaxMissing, MaxExtra int
-	// Tolerance, when positive, is the largest residual allowed of a
-	// matched site, in the measured unit.
-	Tolerance float64
-}
-
-// OutOfTolerance returns the design indices of matched sites whose
-// residual exceeds tol in magnitude, ascending.
-func (r *Result) OutOfTolerance(tol float64) []int {
-	out := []int{}
-	for _, m := range r.Matches {
-		if math.Abs(m.Residual) > tol {
-			out = append(out, m.Design)
-		}
-	}
-	return out
-}
-
-// Failures returns one sentence per way the registration breaks the
-// limits; none means it passes. unit names the measured unit in the
-// sentences.
-func (r *Result) Failures(l Limits, unit string) []string {
-	var out []string
-	if len(r.Missing) > l.MaxMissing {
-		out = append(out, fmt.Sprintf("%d design site(s) missing, %d allowed", len(r.Missing), l.MaxMissing))
-	}
-	if len(r.Extra) > l.MaxExtra {
-		out = append(out, fmt.Sprintf("%d extra measured site(s), %d allowed", len(r.Extra), l.MaxExtra))
-	}
-	if l.Tolerance > 0 {
-		if bad := r.OutOfTolerance(l.Tolerance); len(bad) > 0 {
-			u := unit
-			if u != "" {
-				u = " " + u
-			}
-			out = append(out, fmt.Sprintf("%d matched site(s) beyond the tolerance of %g%s (largest residual %.4g%s)", len(bad), l.Tolerance, u, r.Max, u))
-		}
-	}
-	return out
-}
-
 // ErrNoResiduals is returned by Screen when no residual is a number.
 var ErrNoResiduals = errors.New("no finite residuals")
 

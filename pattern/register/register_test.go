@@ -432,28 +432,6 @@ func TestRefusals(t *testing.T) {
 	}
 }
 
-func TestFailures(t *testing.T) {
-	d := modulatedDesign(t, 100)
-	s := sample{scale: 1, noise: 3, seed: 11, missing: []int{5}, displaced: map[int]float64{50: 40}}
-	x, _, _ := s.build(d)
-	r, err := Register(d, x, Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if f := r.Failures(Limits{MaxMissing: 1}, "nm"); len(f) != 0 {
-		t.Errorf("one missing site allowed: failures %q", f)
-	}
-	if f := r.Failures(Limits{}, "nm"); len(f) != 1 {
-		t.Errorf("no missing site allowed: failures %q", f)
-	}
-	if got := r.OutOfTolerance(20); !slices.Equal(got, []int{50}) {
-		t.Errorf("out of a 20 nm tolerance: %v, want [50]", got)
-	}
-	if f := r.Failures(Limits{MaxMissing: 1, Tolerance: 20}, "nm"); len(f) != 1 {
-		t.Errorf("tolerance 20 nm: failures %q", f)
-	}
-}
-
 func TestScreen(t *testing.T) {
 	rng := rand.New(rand.NewPCG(12, 0))
 	r := make([]float64, 400)
@@ -474,27 +452,6 @@ func TestScreen(t *testing.T) {
 	}
 	if _, err := Screen([]float64{math.NaN()}, 0); err == nil {
 		t.Error("all NaN: no error")
-	}
-}
-
-// Unit factors are exact powers of ten (SI prefixes; common practice).
-func TestUnitFactor(t *testing.T) {
-	for _, c := range []struct {
-		from, to string
-		want     float64
-	}{
-		{"mm", "um", 1000}, {"um", "mm", 1e-3}, {"nm", "m", 1e-9}, {"cm", "mm", 10},
-		{"µm", "nm", 1000}, {"mm", "mm", 1}, {"", "", 1}, {"px", "px", 1},
-	} {
-		got, err := UnitFactor(c.from, c.to)
-		if err != nil || got != c.want {
-			t.Errorf("UnitFactor(%q, %q) = %v, %v; want %v", c.from, c.to, got, err, c.want)
-		}
-	}
-	for _, c := range [][2]string{{"mm", ""}, {"", "nm"}, {"px", "mm"}, {"mm", "deg"}} {
-		if _, err := UnitFactor(c[0], c[1]); err == nil {
-			t.Errorf("UnitFactor(%q, %q): no error", c[0], c[1])
-		}
 	}
 }
 
