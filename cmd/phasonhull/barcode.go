@@ -10,7 +10,6 @@ import (
 	"os"
 	"slices"
 	"strconv"
-	"strings"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
@@ -119,7 +118,7 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	var source string
 	if f.points != "" {
 		var err error
-		if pts, err = readPointsFile(f.points, cmd.InOrStdin()); err != nil {
+		if pts, err = readInput(f.points, cmd.InOrStdin(), pattern.ReadPoints); err != nil {
 			return err
 		}
 		source = f.points
@@ -280,70 +279,3 @@ func (r *barcodeReport) print(w io.Writer) error {
 }
 
 func fmtLength(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
-
-// readPointsFile reads a point cloud from path ("-": stdin).
-func readPointsFile(path string, stdin io.Reader) ([][]float64, error) {
-	if path == "-" {
-		return readPoints(stdin, "<stdin>")
-	}
-	file, err := os.Open(path)
-	if err != nil {
-		return nil, &pattern.InputError{File: path, Err: err}
-	}
-	defer file.Close()
-	return readPoints(file, path)
-}
-
-// readPoints reads one point a row: coordinates separated by commas (with
-// optional white space around them) or by white space alone; '#' starts a
-// comment; blank lines are skipped. Every row must have as many
-// coordinates as the first. Faults are reported with the line and the
-// field number.
-func readPoints(r io.Reader, name string) ([][]float64, error) {
-	var pts [][]float64
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), 16<<20)
-	line := 0
-	for sc.Scan() {
-		line++
-		text := sc.Text()
-		if i := strings.IndexByte(text, '#'); i >= 0 {
-			text = text[:i]
-		}
-		text = strings.TrimSpace(text)
-		if text == "" {
-			continue
-		}
-		var fields []string
-		if strings.Contains(text, ",") {
-			fields = strings.Split(text, ",")
-		} else {
-			fields = strings.Fields(text)
-		}
-		p := make([]float64, len(fields))
-		for k, fld := range fields {
-			fld = strings.TrimSpace(fld)
-			if fld == "" {
-				return nil, &pattern.InputError{File: name, Line: line, Col: k + 1, Err: errors.New("empty coordinate")}
-			}
-			x, err := strconv.ParseFloat(fld, 64)
-			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-				return nil, &pattern.InputError{File: name, Line: line, Col: k + 1, Err: fmt.Errorf("%q is not a finite number", fld)}
-			}
-			p[k] = x
-		}
-		if len(pts) > 0 && len(p) != len(pts[0]) {
-			col := min(len(p), len(pts[0])) + 1
-			return nil, &pattern.InputError{File: name, Line: line, Col: col,
-				Err: fmt.Errorf("%d coordinates, but the first point has %d", len(p), len(pts[0]))}
-		}
-		pts = append(pts, p)
-	}
-	if err := sc.Err(); err != nil {
-		return nil, &pattern.InputError{File: name, Line: line + 1, Err: err}
-	}
-	if len(pts) == 0 {
-		return nil, &pattern.InputError{File: name, Err: errors.New("no points")}
-	}
-	return pts, nil
-}

@@ -240,7 +240,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		return err
 	}
 	rep.Source, rep.Sites, rep.Unit = p.Source, p.Len(), p.Unit
-	m, info, err := f.buildModel(p.Len(), f.theta)
+	m, info, err := f.buildModel(p.Len(), f.theta, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
@@ -359,8 +359,9 @@ func (f *spectrumFlags) check(cmd *cobra.Command, args []string) error {
 }
 
 // buildModel turns the flags into a spectrum.Model for n sites; theta is
-// the almost-Mathieu angle (ignored without --harper).
-func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *operatorInfo, error) {
+// the almost-Mathieu angle (ignored without --harper). The files of
+// --table and --onsite-file may be "-", read from stdin.
+func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spectrum.Model, *operatorInfo, error) {
 	var m spectrum.Model
 	switch spectrum.Kind(f.model) {
 	case spectrum.Hopping, spectrum.Springs:
@@ -385,12 +386,10 @@ func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *ope
 	case "power":
 		m.Law = spectrum.Power{T0: f.t0, Power: f.power}
 	case "table":
-		file, err := os.Open(f.table)
-		if err != nil {
-			return m, nil, fmt.Errorf("--table: %w", err)
-		}
-		defer file.Close()
-		t, err := spectrum.ReadTable(file, f.table)
+		t, err := readInput(f.table, stdin, func(r io.Reader, name string) (spectrum.Table, error) {
+			d, c, err := pattern.ReadCouplings(r, name)
+			return spectrum.Table{D: d, T: c}, err
+		})
 		if err != nil {
 			return m, nil, err
 		}
@@ -405,12 +404,7 @@ func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *ope
 	m.OnSite.Constant = f.onsite
 	onsite := fmt.Sprintf("%g", f.onsite)
 	if f.onsiteFile != "" {
-		file, err := os.Open(f.onsiteFile)
-		if err != nil {
-			return m, nil, fmt.Errorf("--onsite-file: %w", err)
-		}
-		defer file.Close()
-		v, err := spectrum.ReadValues(file, f.onsiteFile)
+		v, err := readInput(f.onsiteFile, stdin, pattern.ReadValues)
 		if err != nil {
 			return m, nil, err
 		}
@@ -501,12 +495,7 @@ func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *
 
 // runMeasured analyses measured levels.
 func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) error {
-	file, err := os.Open(f.eigenvalues)
-	if err != nil {
-		return err
-	}
-	defer file.Close()
-	v, err := spectrum.ReadValues(file, f.eigenvalues)
+	v, err := readInput(f.eigenvalues, cmd.InOrStdin(), pattern.ReadValues)
 	if err != nil {
 		return err
 	}
@@ -550,7 +539,7 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 	if err != nil {
 		return err
 	}
-	m, _, err := f.buildModel(spec.Sites, nil)
+	m, _, err := f.buildModel(spec.Sites, nil, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
