@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"slices"
 	"strconv"
 	"text/tabwriter"
@@ -99,7 +98,7 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	if f.threshold < 0 || math.IsNaN(f.threshold) || math.IsInf(f.threshold, 0) {
 		return fmt.Errorf("--threshold %v: must be a finite length, or 0 for the enclosing radius", f.threshold)
 	}
-	if f.prime < 2 || !isPrime(f.prime) {
+	if !rips.IsPrime(f.prime) {
 		return fmt.Errorf("--prime %d: not a prime", f.prime)
 	}
 	if f.minPersistence < 0 || math.IsNaN(f.minPersistence) {
@@ -160,86 +159,34 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	return rep.print(w)
 }
 
-// isTerminal reports whether w is a terminal (a character device).
-func isTerminal(w io.Writer) bool {
-	file, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := file.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
-}
-
-// isPrime reports whether p is prime, by trial division.
-func isPrime(p int) bool {
-	for d := 2; d*d <= p; d++ {
-		if p%d == 0 {
-			return false
-		}
-	}
-	return p >= 2
-}
-
-// barcodeBar is one bar in the JSON report; Death is null for a bar that
-// never ends.
-type barcodeBar struct {
-	Dim   int      `json:"dim"`
-	Birth float64  `json:"birth"`
-	Death *float64 `json:"death"`
-}
-
 // barcodeReport is what "phasonhull barcode" prints.
 type barcodeReport struct {
-	Source          string       `json:"source"`
-	Points          int          `json:"points"`
-	Dim             int          `json:"dim"`
-	Prime           int          `json:"prime"`
-	Threshold       float64      `json:"threshold"`
-	EnclosingRadius float64      `json:"enclosing_radius"`
-	MinPersistence  float64      `json:"min_persistence"`
-	Counts          []int        `json:"counts"`
-	Bars            []barcodeBar `json:"bars"`
-
-	bars []rips.Bar
+	Source          string     `json:"source"`
+	Points          int        `json:"points"`
+	Dim             int        `json:"dim"`
+	Prime           int        `json:"prime"`
+	Threshold       float64    `json:"threshold"`
+	EnclosingRadius float64    `json:"enclosing_radius"`
+	MinPersistence  float64    `json:"min_persistence"`
+	Counts          []int      `json:"counts"`
+	Bars            []rips.Bar `json:"bars"`
 }
 
-// newBarcodeReport keeps the bars at least minPersistence long, sorted by
-// dimension, then persistence (longest first), then birth.
+// newBarcodeReport keeps the bars at least minPersistence long, in the
+// order of rips.ComparePersistence.
 func newBarcodeReport(source string, dim int, d *rips.Diagram, minPersistence float64) *barcodeReport {
 	r := &barcodeReport{
 		Source: source, Points: d.Points, Dim: dim, Prime: d.Prime, Threshold: d.Threshold,
 		EnclosingRadius: d.EnclosingRadius, MinPersistence: minPersistence,
-		Counts: make([]int, dim+1), Bars: []barcodeBar{},
+		Counts: make([]int, dim+1), Bars: []rips.Bar{},
 	}
 	for _, b := range d.Bars {
 		if b.Persistence() >= minPersistence {
-			r.bars = append(r.bars, b)
+			r.Bars = append(r.Bars, b)
+			r.Counts[b.Dim]++
 		}
 	}
-	slices.SortStableFunc(r.bars, func(a, b rips.Bar) int {
-		switch {
-		case a.Dim != b.Dim:
-			return a.Dim - b.Dim
-		case a.Persistence() > b.Persistence():
-			return -1
-		case a.Persistence() < b.Persistence():
-			return 1
-		case a.Birth < b.Birth:
-			return -1
-		case a.Birth > b.Birth:
-			return 1
-		}
-		return 0
-	})
-	for _, b := range r.bars {
-		r.Counts[b.Dim]++
-		jb := barcodeBar{Dim: b.Dim, Birth: b.Birth}
-		if !b.Essential() {
-			death := b.Death
-			jb.Death = &death
-		}
-		r.Bars = append(r.Bars, jb)
-	}
+	slices.SortStableFunc(r.Bars, rips.ComparePersistence)
 	return r
 }
 
@@ -265,7 +212,7 @@ func (r *barcodeReport) print(w io.Writer) error {
 	fmt.Fprintln(bw)
 	tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "dim\tbirth\tdeath\tpersistence\t")
-	for _, b := range r.bars {
+	for _, b := range r.Bars {
 		death, pers := "inf", "inf"
 		if !b.Essential() {
 			death, pers = fmtLength(b.Death), fmtLength(b.Persistence())
