@@ -214,9 +214,7 @@ func runAudit(cmd *cobra.Command, path string, f *auditFlags) error {
 	}
 	var buf bytes.Buffer
 	if f.json {
-		enc := json.NewEncoder(&buf)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(rep); err != nil {
+		if err := writeJSON(&buf, rep); err != nil {
 			return internalErr(err)
 		}
 	} else {

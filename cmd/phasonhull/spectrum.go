@@ -2,7 +2,6 @@ package main
 
 import (
 	"bufio"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -685,9 +684,7 @@ func writeSpectrumLevels(out io.Writer, op *spectrum.Operator, rep *spectrumRepo
 // write prints the report as text or JSON.
 func (rep *spectrumReport) write(out io.Writer, asJSON bool) error {
 	if asJSON {
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		return enc.Encode(rep)
+		return writeJSON(out, rep)
 	}
 	var b strings.Builder
 	r := rep.Spectrum
