@@ -61,9 +61,9 @@ point cloud, in dimensions 0 to --dim with coefficients in Z/--prime.
 
 The cloud is either the landmark cloud of a pattern (FILE, or - for standard
 input, read and embedded as "phasonhull embed" does) or, with --points, a
-file of points: one point a row, coordinates separated by commas or white
-space, '#' starting a comment; every row must have the same number of
-coordinates.
+file of points: one point a row, coordinates separated by commas,
+semicolons or white space, '#' starting a comment, no header row; every row
+must have the same number of coordinates.
 
 A bar [birth, death) is a class born when edges of length birth join the
 complex and killed at length death. Bars of zero persistence are left out.
