@@ -10,6 +10,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/kdtree"
+	"gonum.org/v1/gonum/stat"
 )
 
 // Parameters of the window choice.
@@ -266,7 +267,7 @@ func ChooseWindow(spacings []float64, opt Options) (*WindowChoice, error) {
 	if r := ch.Rank[c]; r <= c {
 		ch.RankWindow = max(r, 1)
 	}
-	spread := stdDev(d)
+	spread := stat.PopStdDev(d, nil)
 	for k := 1; k <= c; k++ {
 		f := s.falseNeighbours(k, spread, nu)
 		ch.FalseNeighbours = append(ch.FalseNeighbours, f)
@@ -281,20 +282,6 @@ func ChooseWindow(spacings []float64, opt Options) (*WindowChoice, error) {
 		ch.Window = c
 	}
 	return ch, nil
-}
-
-// stdDev returns the standard deviation of v about its mean.
-func stdDev(v []float64) float64 {
-	var m float64
-	for _, x := range v {
-		m += x
-	}
-	m /= float64(len(v))
-	var s float64
-	for _, x := range v {
-		s += (x - m) * (x - m)
-	}
-	return math.Sqrt(s / float64(len(v)))
 }
 
 // falseNeighbours returns the fraction of sampled vectors of window k

@@ -68,3 +68,21 @@ func ExampleParseTileLengths() {
 	// Output:
 	// LSLLSLSL: 9 sites, the last at 11.090
 }
+
+// ReadPoints takes a point cloud, one point a row, and refuses a row of
+// another dimension with its line; ReadCouplings and ReadValues read the
+// tables that go with a pattern the same way.
+func ExampleReadPoints() {
+	pts, err := pattern.ReadPoints(strings.NewReader("# x, y\n0, 0\n1, 0\n0.5, 0.866\n"), "triangle.csv")
+	fmt.Println(pts, err)
+
+	_, err = pattern.ReadPoints(strings.NewReader("0 0\n1 0\n0.5 0.866 1\n"), "bent.txt")
+	fmt.Println(err)
+
+	d, c, err := pattern.ReadCouplings(strings.NewReader("distance,coupling\n1,1\n1.618,0.5\n"), "hopping.csv")
+	fmt.Println(d, c, err)
+	// Output:
+	// [[0 0] [1 0] [0.5 0.866]] <nil>
+	// bent.txt:3: expected 2 columns like the first data row (line 1), got 3
+	// [1 1.618] [1 0.5] <nil>
+}

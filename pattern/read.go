@@ -183,28 +183,14 @@ func (rd *reader) wrap(line, col int, err error) error {
 var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
 
 func read(r io.Reader, name string, opt ReadOptions, lim limits) (*Pattern, error) {
-	rd := &reader{name: name, file: name, opt: opt, lim: lim}
-	if name == "-" {
-		rd.file = "<stdin>"
-	}
 	if err := checkOptions(opt); err != nil {
 		return nil, err
 	}
-	br := bufio.NewReaderSize(r, 64<<10)
-	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
-		br.Discard(len(utf8BOM))
-	}
-	head, err := br.Peek(sniffBytes)
-	complete := err != nil // the whole input fits in head
-	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
-		return nil, rd.errorf(0, 0, "reading: %w", err)
-	}
-	if len(head) == 0 {
-		return nil, rd.errorf(0, 0, "is empty")
-	}
-	if err := rd.checkText(head, complete); err != nil {
+	rd, br, head, err := openText(r, name, lim)
+	if err != nil {
 		return nil, err
 	}
+	rd.opt = opt
 	format := opt.Format
 	if format == "" || format == FormatAuto {
 		format = detect(head)
@@ -217,6 +203,33 @@ func read(r io.Reader, name string, opt ReadOptions, lim limits) (*Pattern, erro
 	default:
 		return rd.readColumns(br, format)
 	}
+}
+
+// openText starts one read of a text input named name ("-" for standard
+// input): it skips a UTF-8 byte-order mark and refuses, with an
+// *InputError, input that is empty or whose first bytes are not UTF-8
+// text. head is the start of the input, left unread in br.
+func openText(r io.Reader, name string, lim limits) (rd *reader, br *bufio.Reader, head []byte, err error) {
+	rd = &reader{name: name, file: name, lim: lim}
+	if name == "-" {
+		rd.file = "<stdin>"
+	}
+	br = bufio.NewReaderSize(r, 64<<10)
+	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
+		br.Discard(len(utf8BOM))
+	}
+	head, err = br.Peek(sniffBytes)
+	complete := err != nil // the whole input fits in head
+	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
+		return nil, nil, nil, rd.errorf(0, 0, "reading: %w", err)
+	}
+	if len(head) == 0 {
+		return nil, nil, nil, rd.errorf(0, 0, "is empty")
+	}
+	if err := rd.checkText(head, complete); err != nil {
+		return nil, nil, nil, err
+	}
+	return rd, br, head, nil
 }
 
 // checkOptions refuses options that no input could satisfy. These are

@@ -25,7 +25,11 @@ func (t *table) rows() int { return len(t.lines) }
 // readColumns reads numeric columns and builds the Pattern that format
 // asks for (FormatAuto chooses by the number of columns).
 func (rd *reader) readColumns(br *bufio.Reader, format Format) (*Pattern, error) {
-	t, err := rd.readTable(br, format)
+	t, err := rd.readTable(br, tableRules{
+		columns: func(n, line int) error { return rd.checkColumns(n, format, line) },
+		header:  true,
+		noun:    "sites",
+	})
 	if err != nil {
 		return nil, err
 	}
@@ -39,19 +43,26 @@ func (rd *reader) readColumns(br *bufio.Reader, format Format) (*Pattern, error)
 	}
 }
 
-// readTable reads the rows of a column file, checking the header, the
-// column count and every number.
-func (rd *reader) readTable(br *bufio.Reader, format Format) (*table, error) {
+// tableRules says what a numeric table may hold.
+type tableRules struct {
+	columns func(n, line int) error // refuses a column count; nil takes any
+	header  bool                    // a first row of column names is allowed
+	noun    string                  // what the rows are, for the limit's message
+}
+
+// dataLines calls row with the fields of every line of the input that
+// holds data: comments are stripped, blank lines skipped, and an empty
+// field is refused. The fields are reused between calls.
+func (rd *reader) dataLines(br *bufio.Reader, row func(line int, fields []string) error) error {
 	lr := &lineReader{rd: rd, br: br}
-	t := &table{}
-	var header, buf []string
+	var buf []string
 	for {
 		text, ok, err := lr.next()
 		if err != nil {
-			return nil, err
+			return err
 		}
 		if !ok {
-			break
+			return nil
 		}
 		text = strings.TrimSpace(stripComment(text))
 		if text == "" {
@@ -60,39 +71,57 @@ func (rd *reader) readTable(br *bufio.Reader, format Format) (*table, error) {
 		fields, col := splitFields(text, buf)
 		buf = fields
 		if col > 0 {
-			return nil, rd.errorf(lr.line, col, "empty field (two separators in a row?)")
+			return rd.errorf(lr.line, col, "empty field (two separators in a row?)")
 		}
-		if t.headerLine == 0 && t.rows() == 0 && isHeader(joinUnits(fields)) {
+		if err := row(lr.line, fields); err != nil {
+			return err
+		}
+	}
+}
+
+// readTable reads the rows of a column file, checking the header, the
+// column count and every number.
+func (rd *reader) readTable(br *bufio.Reader, rules tableRules) (*table, error) {
+	t := &table{}
+	var header []string
+	err := rd.dataLines(br, func(line int, fields []string) error {
+		if rules.header && t.headerLine == 0 && t.rows() == 0 && isHeader(joinUnits(fields)) {
 			fields = joinUnits(fields)
-			unit, err := rd.headerUnit(fields, lr.line)
+			unit, err := rd.headerUnit(fields, line)
 			if err != nil {
-				return nil, err
+				return err
 			}
-			t.headerLine, t.unit, header = lr.line, unit, slices.Clone(fields)
-			continue
+			t.headerLine, t.unit, header = line, unit, slices.Clone(fields)
+			return nil
 		}
 		if t.cols == 0 {
-			if err := rd.checkColumns(len(fields), format, lr.line); err != nil {
-				return nil, err
+			if rules.columns != nil {
+				if err := rules.columns(len(fields), line); err != nil {
+					return err
+				}
 			}
 			if header != nil && len(header) != len(fields) {
-				return nil, rd.errorf(lr.line, 0, "the header (line %d) names %d columns but the first data row has %d", t.headerLine, len(header), len(fields))
+				return rd.errorf(line, 0, "the header (line %d) names %d columns but the first data row has %d", t.headerLine, len(header), len(fields))
 			}
 			t.cols = len(fields)
 		} else if len(fields) != t.cols {
-			return nil, rd.errorf(lr.line, 0, "expected %d columns like the first data row (line %d), got %d", t.cols, t.lines[0], len(fields))
+			return rd.errorf(line, 0, "expected %d columns like the first data row (line %d), got %d", t.cols, t.lines[0], len(fields))
 		}
 		if t.rows() >= rd.lim.sites {
-			return nil, rd.errorf(lr.line, 0, "more than %d sites; inputs are limited to %d", rd.lim.sites, rd.lim.sites)
+			return rd.errorf(line, 0, "more than %d %s; inputs are limited to %d", rd.lim.sites, rules.noun, rd.lim.sites)
 		}
 		for j, f := range fields {
 			v, err := parseNumber(f)
 			if err != nil {
-				return nil, rd.wrap(lr.line, j+1, err)
+				return rd.wrap(line, j+1, err)
 			}
 			t.vals = append(t.vals, v)
 		}
-		t.lines = append(t.lines, lr.line)
+		t.lines = append(t.lines, line)
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	if t.rows() == 0 {
 		if t.headerLine > 0 {

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"strconv"
@@ -95,9 +94,7 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	}
 	out := cmd.OutOrStdout()
 	if f.json {
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		return enc.Encode(res)
+		return writeJSON(out, res)
 	}
 	return printAnalysis(out, res, f.allLabels)
 }

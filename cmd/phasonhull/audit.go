@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -218,9 +217,7 @@ func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
 	}
 	var buf bytes.Buffer
 	if f.json {
-		enc := json.NewEncoder(&buf)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(rep); err != nil {
+		if err := writeJSON(&buf, rep); err != nil {
 			return internalErr(err)
 		}
 	} else if err := rep.WriteText(&buf); err != nil {

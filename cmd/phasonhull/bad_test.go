@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -79,6 +80,25 @@ var badSpecs = []badCase{
 	{"spec_syntax.json", nil, "invalid character ','", ":2:18", "a doubled comma"},
 }
 
+// badNumbers are the files of the corpus that go with a pattern rather
+// than being one: point clouds (barcode --points), coupling tables
+// (spectrum --table), measured levels (spectrum --eigenvalues) and
+// per-site terms (spectrum --onsite-file). Their flags come before the
+// file; a spectrum run also asks for --out, which must not be written.
+var badNumbers = []badCase{
+	{"points_ragged.csv", []string{"barcode", "--points"}, "expected 2 columns like the first data row (line 2), got 3", ":4", "a 3-D point among 2-D ones"},
+	{"points_word.txt", []string{"barcode", "--points"}, `"1mm" is not a number`, ":4:2", "a unit glued to a coordinate"},
+	{"points_header.csv", []string{"barcode", "--points"}, `"start" is not a number`, ":1:1", "a header with an index column: a cloud has no header"},
+	{"couplings_descending.csv", []string{"spectrum", "--design", specPath("lattice.json"), "--hopping", "table", "--table"}, "distance 1.2 does not exceed 1.618 on line 4; distances must ascend", ":5:1", "distances out of order"},
+	{"couplings_short_row.csv", []string{"spectrum", "--design", specPath("lattice.json"), "--hopping", "table", "--table"}, "expected 2 columns like the first data row (line 2), got 1", ":3", "a distance without its coupling"},
+	{"couplings_zero_distance.csv", []string{"spectrum", "--design", specPath("lattice.json"), "--hopping", "table", "--table"}, "distance 0 is not positive", ":2:1", "a zero distance"},
+	{"levels_infinite.csv", []string{"spectrum", "--theta", "0.3", "--eigenvalues"}, `"+Inf" is not a finite number`, ":5:1", "an infinite level"},
+	{"levels_unit_field.csv", []string{"spectrum", "--theta", "0.3", "--eigenvalues"}, `"3.75GHz" is not a number`, ":5:1", "a unit glued to a level"},
+	{"onsite_nan.txt", []string{"spectrum", "--design", specPath("lattice.json"), "--onsite-file"}, `"NaN" is not a finite number`, ":4:1", "NaN among on-site terms"},
+}
+
+func specPath(name string) string { return filepath.Join("..", "..", "testdata", "spectrum", name) }
+
 func badPath(name string) string { return filepath.Join("..", "..", "testdata", "bad", name) }
 
 // checkRefusal runs args and asserts a refusal: status 2, nothing on
@@ -112,8 +132,10 @@ func checkRefusal(t *testing.T, args []string, stdin io.Reader, file string, c b
 	}
 }
 
-// TestBadInputs runs every file of the corpus through analyze, and
-// through embed --out, which must leave no output file.
+// TestBadInputs runs every pattern file of the corpus through analyze,
+// and through embed --out, which must leave no output file; every design
+// spec through generate --spec --out; every other file through the
+// command and flag that read it.
 func TestBadInputs(t *testing.T) {
 	if n := len(badInputs) + len(badSpecs); n < 30 {
 		t.Fatalf("corpus has %d cases, want at least 30", n)
@@ -134,6 +156,18 @@ func TestBadInputs(t *testing.T) {
 			file := badPath(c.file)
 			out := filepath.Join(t.TempDir(), "design.csv")
 			checkRefusal(t, []string{"generate", "--spec", file, "--out", out}, nil, file, c, out)
+		})
+	}
+	for _, c := range badNumbers {
+		listed[c.file] = true
+		t.Run(c.file, func(t *testing.T) {
+			file := badPath(c.file)
+			args, out := append(slices.Clone(c.flags), file), ""
+			if args[0] == "spectrum" {
+				out = filepath.Join(t.TempDir(), "levels.csv")
+				args = append(args, "--out", out)
+			}
+			checkRefusal(t, args, nil, file, c, out)
 		})
 	}
 	// Every file in the folder is in a table, so none is left unchecked.

@@ -7,10 +7,8 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"slices"
 	"strconv"
-	"strings"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
@@ -64,9 +62,9 @@ point cloud, in dimensions 0 to --dim with coefficients in Z/--prime.
 
 The cloud is either the landmark cloud of a pattern (FILE, or - for standard
 input, read and embedded as "phasonhull embed" does) or, with --points, a
-file of points: one point a row, coordinates separated by commas or white
-space, '#' starting a comment; every row must have the same number of
-coordinates.
+file of points: one point a row, coordinates separated by commas,
+semicolons or white space, '#' starting a comment, no header row; every row
+must have the same number of coordinates.
 
 A bar [birth, death) is a class born when edges of length birth join the
 complex and killed at length death. Bars of zero persistence are left out.
@@ -103,7 +101,7 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	if f.threshold < 0 || math.IsNaN(f.threshold) || math.IsInf(f.threshold, 0) {
 		return fmt.Errorf("--threshold %v: must be a finite length, or 0 for the enclosing radius", f.threshold)
 	}
-	if f.prime < 2 || !isPrime(f.prime) {
+	if !rips.IsPrime(f.prime) {
 		return fmt.Errorf("--prime %d: not a prime", f.prime)
 	}
 	if f.minPersistence < 0 || math.IsNaN(f.minPersistence) {
@@ -122,7 +120,7 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	var source string
 	if f.points != "" {
 		var err error
-		if pts, err = readPointsFile(f.points, cmd.InOrStdin()); err != nil {
+		if pts, err = readInput(f.points, cmd.InOrStdin(), pattern.ReadPoints); err != nil {
 			return err
 		}
 		source = f.points
@@ -164,86 +162,34 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	return rep.print(w)
 }
 
-// isTerminal reports whether w is a terminal (a character device).
-func isTerminal(w io.Writer) bool {
-	file, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := file.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
-}
-
-// isPrime reports whether p is prime, by trial division.
-func isPrime(p int) bool {
-	for d := 2; d*d <= p; d++ {
-		if p%d == 0 {
-			return false
-		}
-	}
-	return p >= 2
-}
-
-// barcodeBar is one bar in the JSON report; Death is null for a bar that
-// never ends.
-type barcodeBar struct {
-	Dim   int      `json:"dim"`
-	Birth float64  `json:"birth"`
-	Death *float64 `json:"death"`
-}
-
 // barcodeReport is what "phasonhull barcode" prints.
 type barcodeReport struct {
-	Source          string       `json:"source"`
-	Points          int          `json:"points"`
-	Dim             int          `json:"dim"`
-	Prime           int          `json:"prime"`
-	Threshold       float64      `json:"threshold"`
-	EnclosingRadius float64      `json:"enclosing_radius"`
-	MinPersistence  float64      `json:"min_persistence"`
-	Counts          []int        `json:"counts"`
-	Bars            []barcodeBar `json:"bars"`
-
-	bars []rips.Bar
+	Source          string     `json:"source"`
+	Points          int        `json:"points"`
+	Dim             int        `json:"dim"`
+	Prime           int        `json:"prime"`
+	Threshold       float64    `json:"threshold"`
+	EnclosingRadius float64    `json:"enclosing_radius"`
+	MinPersistence  float64    `json:"min_persistence"`
+	Counts          []int      `json:"counts"`
+	Bars            []rips.Bar `json:"bars"`
 }
 
-// newBarcodeReport keeps the bars at least minPersistence long, sorted by
-// dimension, then persistence (longest first), then birth.
+// newBarcodeReport keeps the bars at least minPersistence long, in the
+// order of rips.ComparePersistence.
 func newBarcodeReport(source string, dim int, d *rips.Diagram, minPersistence float64) *barcodeReport {
 	r := &barcodeReport{
 		Source: source, Points: d.Points, Dim: dim, Prime: d.Prime, Threshold: d.Threshold,
 		EnclosingRadius: d.EnclosingRadius, MinPersistence: minPersistence,
-		Counts: make([]int, dim+1), Bars: []barcodeBar{},
+		Counts: make([]int, dim+1), Bars: []rips.Bar{},
 	}
 	for _, b := range d.Bars {
 		if b.Persistence() >= minPersistence {
-			r.bars = append(r.bars, b)
+			r.Bars = append(r.Bars, b)
+			r.Counts[b.Dim]++
 		}
 	}
-	slices.SortStableFunc(r.bars, func(a, b rips.Bar) int {
-		switch {
-		case a.Dim != b.Dim:
-			return a.Dim - b.Dim
-		case a.Persistence() > b.Persistence():
-			return -1
-		case a.Persistence() < b.Persistence():
-			return 1
-		case a.Birth < b.Birth:
-			return -1
-		case a.Birth > b.Birth:
-			return 1
-		}
-		return 0
-	})
-	for _, b := range r.bars {
-		r.Counts[b.Dim]++
-		jb := barcodeBar{Dim: b.Dim, Birth: b.Birth}
-		if !b.Essential() {
-			death := b.Death
-			jb.Death = &death
-		}
-		r.Bars = append(r.Bars, jb)
-	}
+	slices.SortStableFunc(r.Bars, rips.ComparePersistence)
 	return r
 }
 
@@ -269,7 +215,7 @@ func (r *barcodeReport) print(w io.Writer) error {
 	fmt.Fprintln(bw)
 	tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "dim\tbirth\tdeath\tpersistence\t")
-	for _, b := range r.bars {
+	for _, b := range r.Bars {
 		death, pers := "inf", "inf"
 		if !b.Essential() {
 			death, pers = fmtLength(b.Death), fmtLength(b.Persistence())
@@ -283,70 +229,3 @@ func (r *barcodeReport) print(w io.Writer) error {
 }
 
 func fmtLength(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
-
-// readPointsFile reads a point cloud from path ("-": stdin).
-func readPointsFile(path string, stdin io.Reader) ([][]float64, error) {
-	if path == "-" {
-		return readPoints(stdin, "<stdin>")
-	}
-	file, err := os.Open(path)
-	if err != nil {
-		return nil, &pattern.InputError{File: path, Err: err}
-	}
-	defer file.Close()
-	return readPoints(file, path)
-}
-
-// readPoints reads one point a row: coordinates separated by commas (with
-// optional white space around them) or by white space alone; '#' starts a
-// comment; blank lines are skipped. Every row must have as many
-// coordinates as the first. Faults are reported with the line and the
-// field number.
-func readPoints(r io.Reader, name string) ([][]float64, error) {
-	var pts [][]float64
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), 16<<20)
-	line := 0
-	for sc.Scan() {
-		line++
-		text := sc.Text()
-		if i := strings.IndexByte(text, '#'); i >= 0 {
-			text = text[:i]
-		}
-		text = strings.TrimSpace(text)
-		if text == "" {
-			continue
-		}
-		var fields []string
-		if strings.Contains(text, ",") {
-			fields = strings.Split(text, ",")
-		} else {
-			fields = strings.Fields(text)
-		}
-		p := make([]float64, len(fields))
-		for k, fld := range fields {
-			fld = strings.TrimSpace(fld)
-			if fld == "" {
-				return nil, &pattern.InputError{File: name, Line: line, Col: k + 1, Err: errors.New("empty coordinate")}
-			}
-			x, err := strconv.ParseFloat(fld, 64)
-			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-				return nil, &pattern.InputError{File: name, Line: line, Col: k + 1, Err: fmt.Errorf("%q is not a finite number", fld)}
-			}
-			p[k] = x
-		}
-		if len(pts) > 0 && len(p) != len(pts[0]) {
-			col := min(len(p), len(pts[0])) + 1
-			return nil, &pattern.InputError{File: name, Line: line, Col: col,
-				Err: fmt.Errorf("%d coordinates, but the first point has %d", len(p), len(pts[0]))}
-		}
-		pts = append(pts, p)
-	}
-	if err := sc.Err(); err != nil {
-		return nil, &pattern.InputError{File: name, Line: line + 1, Err: err}
-	}
-	if len(pts) == 0 {
-		return nil, &pattern.InputError{File: name, Err: errors.New("no points")}
-	}
-	return pts, nil
-}

@@ -2,7 +2,6 @@ package main
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -183,11 +182,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		return err
 	}
 	if f.jsonOut != "" {
-		if err := writeFileAtomic(f.jsonOut, func(file io.Writer) error {
-			enc := json.NewEncoder(file)
-			enc.SetIndent("", "  ")
-			return enc.Encode(sum)
-		}); err != nil {
+		if err := writeFileAtomic(f.jsonOut, func(file io.Writer) error { return writeJSON(file, sum) }); err != nil {
 			return err
 		}
 	}

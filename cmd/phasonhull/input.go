@@ -1,8 +1,10 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
+	"os"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -82,4 +84,24 @@ func (f *inputFlags) load(path string, stdin io.Reader) (*pattern.Pattern, error
 		return pattern.Read(stdin, "-", opt)
 	}
 	return pattern.ReadFile(path, opt)
+}
+
+// readInput reads the file at path with read, one of pattern's readers;
+// path "-" reads stdin. A file that cannot be opened is refused like bad
+// input, with an *pattern.InputError naming it (exit status 2).
+func readInput[T any](path string, stdin io.Reader, read func(r io.Reader, name string) (T, error)) (T, error) {
+	if path == "-" {
+		return read(stdin, "-")
+	}
+	file, err := os.Open(path)
+	if err != nil {
+		var zero T
+		var pe *os.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
+		return zero, &pattern.InputError{File: path, Err: err}
+	}
+	defer file.Close()
+	return read(file, path)
 }

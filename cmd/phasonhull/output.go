@@ -1,12 +1,14 @@
 package main
 
 import (
+	"bytes"
+	"encoding/json"
 	"io"
+	"os"
+	"phasonhull/cmd/phasonhull/internal/outfile"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
-
-	"phasonhull/cmd/phasonhull/internal/outfile"
 )
 
 // argsAreFiles is the annotation of a command whose positional arguments
@@ -73,4 +75,30 @@ func runPaths(cmd *cobra.Command, args []string) (ins, outs []outfile.Path) {
 // failed or stopped run leaves path as it was.
 func writeFileAtomic(path string, write func(w io.Writer) error) error {
 	return outfile.WriteFile(path, write)
+}
+
+// writeJSON writes v to w as indented JSON, the form of every JSON report.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
+}
+
+// indentJSON returns v as indented JSON, as writeJSON writes it.
+func indentJSON(v any) ([]byte, error) {
+	var b bytes.Buffer
+	if err := writeJSON(&b, v); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// isTerminal reports whether w is a terminal (a character device).
+func isTerminal(w io.Writer) bool {
+	file, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := file.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }

@@ -1,12 +1,9 @@
 package main
 
 import (
-	"bytes"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 
 	"github.com/spf13/cobra"
@@ -275,28 +272,14 @@ func auditSummary(rep *audit.Report) *report.Audit {
 	return a
 }
 
-func indentJSON(v any) ([]byte, error) {
-	var b bytes.Buffer
-	enc := json.NewEncoder(&b)
-	enc.SetIndent("", "  ")
-	if err := enc.Encode(v); err != nil {
-		return nil, err
-	}
-	return b.Bytes(), nil
-}
-
 // newProgress returns a function that shows a one-line progress message on
 // w when w is a terminal, and does nothing otherwise; an empty message
 // clears the line.
-func newProgress(w any) func(string) {
-	f, ok := w.(*os.File)
-	if !ok {
-		return func(string) {}
-	}
-	if st, err := f.Stat(); err != nil || st.Mode()&os.ModeCharDevice == 0 {
+func newProgress(w io.Writer) func(string) {
+	if !isTerminal(w) {
 		return func(string) {}
 	}
 	return func(msg string) {
-		fmt.Fprintf(f, "\r\033[K%s", msg)
+		fmt.Fprintf(w, "\r\033[K%s", msg)
 	}
 }

@@ -2,7 +2,6 @@ package main
 
 import (
 	"bufio"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -244,7 +243,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		return err
 	}
 	rep.Source, rep.Sites, rep.Unit = p.Source, p.Len(), p.Unit
-	m, info, err := f.buildModel(p.Len(), f.theta)
+	m, info, err := f.buildModel(p.Len(), f.theta, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
@@ -363,8 +362,9 @@ func (f *spectrumFlags) check(cmd *cobra.Command, args []string) error {
 }
 
 // buildModel turns the flags into a spectrum.Model for n sites; theta is
-// the almost-Mathieu angle (ignored without --harper).
-func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *operatorInfo, error) {
+// the almost-Mathieu angle (ignored without --harper). The files of
+// --table and --onsite-file may be "-", read from stdin.
+func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spectrum.Model, *operatorInfo, error) {
 	var m spectrum.Model
 	switch spectrum.Kind(f.model) {
 	case spectrum.Hopping, spectrum.Springs:
@@ -389,12 +389,10 @@ func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *ope
 	case "power":
 		m.Law = spectrum.Power{T0: f.t0, Power: f.power}
 	case "table":
-		file, err := os.Open(f.table)
-		if err != nil {
-			return m, nil, fmt.Errorf("--table: %w", err)
-		}
-		defer file.Close()
-		t, err := spectrum.ReadTable(file, f.table)
+		t, err := readInput(f.table, stdin, func(r io.Reader, name string) (spectrum.Table, error) {
+			d, c, err := pattern.ReadCouplings(r, name)
+			return spectrum.Table{D: d, T: c}, err
+		})
 		if err != nil {
 			return m, nil, err
 		}
@@ -409,12 +407,7 @@ func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *ope
 	m.OnSite.Constant = f.onsite
 	onsite := fmt.Sprintf("%g", f.onsite)
 	if f.onsiteFile != "" {
-		file, err := os.Open(f.onsiteFile)
-		if err != nil {
-			return m, nil, fmt.Errorf("--onsite-file: %w", err)
-		}
-		defer file.Close()
-		v, err := spectrum.ReadValues(file, f.onsiteFile)
+		v, err := readInput(f.onsiteFile, stdin, pattern.ReadValues)
 		if err != nil {
 			return m, nil, err
 		}
@@ -505,12 +498,7 @@ func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *
 
 // runMeasured analyses measured levels.
 func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) error {
-	file, err := os.Open(f.eigenvalues)
-	if err != nil {
-		return err
-	}
-	defer file.Close()
-	v, err := spectrum.ReadValues(file, f.eigenvalues)
+	v, err := readInput(f.eigenvalues, cmd.InOrStdin(), pattern.ReadValues)
 	if err != nil {
 		return err
 	}
@@ -554,7 +542,7 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 	if err != nil {
 		return err
 	}
-	m, _, err := f.buildModel(spec.Sites, nil)
+	m, _, err := f.buildModel(spec.Sites, nil, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
@@ -700,9 +688,7 @@ func writeSpectrumLevels(out io.Writer, op *spectrum.Operator, rep *spectrumRepo
 // write prints the report as text or JSON.
 func (rep *spectrumReport) write(out io.Writer, asJSON bool) error {
 	if asJSON {
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		return enc.Encode(rep)
+		return writeJSON(out, rep)
 	}
 	var b strings.Builder
 	r := rep.Spectrum

@@ -246,7 +246,7 @@ func TestSpectrumCommandRefuses(t *testing.T) {
 		args []string
 		want string
 	}{
-		{[]string{"--eigenvalues", "../../testdata/spectrum/bad_levels.csv", "--theta", "0.3", "--out", out}, "line 3"},
+		{[]string{"--eigenvalues", "../../testdata/spectrum/bad_levels.csv", "--theta", "0.3", "--out", out}, "bad_levels.csv:3:1: \"not-a-level\" is not a number"},
 		{[]string{"--eigenvalues", "../../testdata/spectrum/harper_levels.csv", "--out", out}, "--theta, --period or --pattern"},
 		{[]string{"--eigenvalues", "../../testdata/spectrum/harper_levels.csv", "--theta", "0.3", "--decay", "2"}, "--decay describes an operator"},
 		{[]string{"--design", lat, "--hopping", "table", "--table", bad, "--out", out}, "outside the coupling table"},

@@ -125,16 +125,7 @@ func (a *analysis) topCocycles(k int) ([]rips.Cocycle, error) {
 			h1 = append(h1, i)
 		}
 	}
-	slices.SortStableFunc(h1, func(i, j int) int {
-		pi, pj := dg.Bars[i].Persistence(), dg.Bars[j].Persistence()
-		switch {
-		case pi > pj:
-			return -1
-		case pi < pj:
-			return 1
-		}
-		return 0
-	})
+	slices.SortStableFunc(h1, func(i, j int) int { return rips.ComparePersistence(dg.Bars[i], dg.Bars[j]) })
 	if len(h1) < k {
 		return nil, fmt.Errorf("measuring angles: %d H1 bars, need %d", len(h1), k)
 	}

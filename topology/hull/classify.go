@@ -314,18 +314,7 @@ func reportBars(bars []rips.Bar, tau float64) []Bar {
 			order = append(order, b)
 		}
 	}
-	slices.SortStableFunc(order, func(x, y rips.Bar) int {
-		if x.Dim != y.Dim {
-			return x.Dim - y.Dim
-		}
-		switch px, py := x.Persistence(), y.Persistence(); {
-		case px > py:
-			return -1
-		case px < py:
-			return 1
-		}
-		return 0
-	})
+	slices.SortStableFunc(order, rips.ComparePersistence)
 	for _, b := range order {
 		r := Bar{Dim: b.Dim, Birth: b.Birth, Significant: b.Persistence() > tau}
 		if !b.Essential() {

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/stat"
+
 	"phasonhull/embed"
 )
 
@@ -73,16 +75,9 @@ const (
 
 func classifyNoise(u []float64) noiseKind {
 	n := len(u)
-	var m float64
-	for _, v := range u {
-		m += v
-	}
-	m /= float64(n)
-	var s0 float64
-	for _, v := range u {
-		s0 += (v - m) * (v - m)
-	}
-	if math.Sqrt(s0/float64(n)) <= 1e-9*math.Abs(m) {
+	m, v := stat.PopMeanVariance(u, nil)
+	s0 := v * float64(n)
+	if math.Sqrt(v) <= 1e-9*math.Abs(m) {
 		return exactLattice
 	}
 	if n < 50 {
@@ -177,13 +172,5 @@ func (a *analysis) setIndependent() {
 // cellFitFactor·σ, σ = sd(spacings)/√2. Independent spacings wander away
 // like a random walk, far beyond that.
 func (a *analysis) latticeFits(u []float64) bool {
-	var m, v float64
-	for _, x := range u {
-		m += x
-	}
-	m /= float64(len(u))
-	for _, x := range u {
-		v += (x - m) * (x - m)
-	}
-	return a.cellFits(1, v/float64(len(u)))
+	return a.cellFits(1, stat.PopVariance(u, nil))
 }

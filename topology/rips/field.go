@@ -13,7 +13,7 @@ type field struct {
 }
 
 func newField(p int) (field, error) {
-	if p < 2 || p > maxPrime || !isPrime(p) {
+	if p < 2 || p > maxPrime || !IsPrime(p) {
 		return field{}, fmt.Errorf("coefficients Z/%d: %d is not a prime in [2, %d]", p, p, maxPrime)
 	}
 	f := field{p: uint32(p), inv: make([]uint32, p)}
@@ -43,8 +43,9 @@ func (f *field) lift(a uint32) int {
 	return int(a)
 }
 
-// isPrime reports whether p is prime, by trial division.
-func isPrime(p int) bool {
+// IsPrime reports whether p is prime, by trial division; Options.Prime
+// must be one.
+func IsPrime(p int) bool {
 	if p < 2 {
 		return false
 	}

@@ -1,13 +1,9 @@
 package spectrum
 
 import (
-	"bufio"
 	"errors"
 	"fmt"
-	"io"
 	"math"
-	"strconv"
-	"strings"
 )
 
 // Law gives the coupling (a hopping t or a spring constant k) between two
@@ -105,81 +101,4 @@ func (l Table) String() string {
 		return "t from an empty table"
 	}
 	return fmt.Sprintf("t from a table of %d rows, d in [%g, %g], linear between rows", len(l.D), l.D[0], l.D[len(l.D)-1])
-}
-
-// maxTableRows bounds the rows ReadTable accepts.
-const maxTableRows = 1_000_000
-
-// ReadTable reads a coupling table: one row per line, a distance and a
-// coupling separated by a comma, semicolon, tab or spaces. Lines starting
-// with '#' and blank lines are skipped, and so is a first line that holds
-// no numbers (a header). Distances must be finite, positive and strictly
-// ascending; couplings finite. name is used in messages.
-func ReadTable(r io.Reader, name string) (Table, error) {
-	var t Table
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), 1<<20)
-	line, data := 0, 0
-	for sc.Scan() {
-		line++
-		s := strings.TrimSpace(sc.Text())
-		if s == "" || s[0] == '#' {
-			continue
-		}
-		f := splitFields(s)
-		if len(f) != 2 {
-			if data == 0 && !looksNumeric(f) {
-				data++ // a header line
-				continue
-			}
-			return Table{}, fmt.Errorf("reading %s: line %d: want two fields (distance, coupling), got %d", name, line, len(f))
-		}
-		d, err1 := strconv.ParseFloat(f[0], 64)
-		v, err2 := strconv.ParseFloat(f[1], 64)
-		if err1 != nil || err2 != nil {
-			if data == 0 && !looksNumeric(f) {
-				data++
-				continue
-			}
-			return Table{}, fmt.Errorf("reading %s: line %d: %q is not two numbers", name, line, s)
-		}
-		data++
-		if math.IsNaN(d) || math.IsInf(d, 0) || math.IsNaN(v) || math.IsInf(v, 0) {
-			return Table{}, fmt.Errorf("reading %s: line %d: values must be finite", name, line)
-		}
-		if d <= 0 {
-			return Table{}, fmt.Errorf("reading %s: line %d: distance %g must be positive", name, line, d)
-		}
-		if n := len(t.D); n > 0 && d <= t.D[n-1] {
-			return Table{}, fmt.Errorf("reading %s: line %d: distance %g does not exceed the previous row's %g; distances must ascend", name, line, d, t.D[n-1])
-		}
-		if len(t.D) >= maxTableRows {
-			return Table{}, fmt.Errorf("reading %s: more than %d rows", name, maxTableRows)
-		}
-		t.D, t.T = append(t.D, d), append(t.T, v)
-	}
-	if err := sc.Err(); err != nil {
-		return Table{}, fmt.Errorf("reading %s: line %d: %w", name, line+1, err)
-	}
-	if len(t.D) < 2 {
-		return Table{}, fmt.Errorf("reading %s: a coupling table needs at least two rows, got %d", name, len(t.D))
-	}
-	return t, nil
-}
-
-// splitFields splits a line on commas, semicolons, tabs and spaces.
-func splitFields(s string) []string {
-	return strings.FieldsFunc(s, func(r rune) bool {
-		return r == ',' || r == ';' || r == ' ' || r == '\t'
-	})
-}
-
-// looksNumeric reports whether any field parses as a number.
-func looksNumeric(f []string) bool {
-	for _, s := range f {
-		if _, err := strconv.ParseFloat(s, 64); err == nil {
-			return true
-		}
-	}
-	return false
 }

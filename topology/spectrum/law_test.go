@@ -41,28 +41,3 @@ func TestTableInterpolatesAndRefuses(t *testing.T) {
 		}
 	}
 }
-
-func TestReadTable(t *testing.T) {
-	tab, err := ReadTable(strings.NewReader("# measured couplings\ndistance,coupling\n1.0, 2.0\n1.5;1.0\n2.0\t0.5\n"), "t.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	if len(tab.D) != 3 || tab.D[1] != 1.5 || tab.T[2] != 0.5 {
-		t.Errorf("read %+v", tab)
-	}
-	for _, c := range []struct{ in, want string }{
-		{"1,2\n", "at least two rows"},
-		{"1,2\n1,3\n", "line 2"},
-		{"1,2\n0.5,3\n", "ascend"},
-		{"1,2\n2,x\n", "line 2"},
-		{"1,2\n2,3,4\n", "two fields"},
-		{"-1,2\n2,3\n", "positive"},
-		{"1,2\n2,NaN\n", "finite"},
-		{"", "at least two rows"},
-	} {
-		_, err := ReadTable(strings.NewReader(c.in), "t.csv")
-		if err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "t.csv") {
-			t.Errorf("ReadTable(%q): %v, want an error naming the file and %q", c.in, err, c.want)
-		}
-	}
-}

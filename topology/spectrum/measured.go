@@ -1,64 +1,14 @@
 package spectrum
 
 import (
-	"bufio"
 	"errors"
 	"fmt"
-	"io"
 	"math"
 	"slices"
-	"strconv"
-	"strings"
 )
 
 // Measured is the method of a Result computed from measured levels.
 const Measured Method = "measured"
-
-// MaxValues bounds the levels ReadValues accepts.
-const MaxValues = 10_000_000
-
-// ReadValues reads measured levels — resonance frequencies, squared
-// frequencies or energies — one per line: the first field of each line
-// (fields separated by commas, semicolons, tabs or spaces). Blank lines
-// and lines starting with '#' are skipped, and so is a first line whose
-// first field is not a number (a header). Every value must be finite; at
-// least two are needed. name is used in messages.
-func ReadValues(r io.Reader, name string) ([]float64, error) {
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), 1<<20)
-	var v []float64
-	line, seen := 0, 0
-	for sc.Scan() {
-		line++
-		s := strings.TrimSpace(sc.Text())
-		if s == "" || s[0] == '#' {
-			continue
-		}
-		seen++
-		f := splitFields(s)
-		x, err := strconv.ParseFloat(f[0], 64)
-		if err != nil {
-			if seen == 1 {
-				continue // a header
-			}
-			return nil, fmt.Errorf("reading %s: line %d: %q is not a number", name, line, f[0])
-		}
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return nil, fmt.Errorf("reading %s: line %d: %v is not a finite number", name, line, x)
-		}
-		if len(v) >= MaxValues {
-			return nil, fmt.Errorf("reading %s: more than %d values", name, MaxValues)
-		}
-		v = append(v, x)
-	}
-	if err := sc.Err(); err != nil {
-		return nil, fmt.Errorf("reading %s: line %d: %w", name, line+1, err)
-	}
-	if len(v) < 2 {
-		return nil, fmt.Errorf("reading %s: %d value(s); a spectrum needs at least two", name, len(v))
-	}
-	return v, nil
-}
 
 // AnalyzeMeasured finds the gaps of a measured spectrum — the levels of a
 // sample, in any order — wider than MinGap, their IDS (levels at or below

@@ -60,24 +60,8 @@ func TestMeasuredMatchesOperator(t *testing.T) {
 	}
 }
 
-func TestReadValues(t *testing.T) {
-	v, err := ReadValues(strings.NewReader("# resonances\nfrequency_GHz,q\n1.5,200\n\n2.5 100\n0.5\n"), "f.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !slices.Equal(v, []float64{1.5, 2.5, 0.5}) {
-		t.Errorf("read %v", v)
-	}
-	for _, c := range []struct{ in, want string }{
-		{"1\n", "at least two"},
-		{"1\nx\n", "line 2"},
-		{"1\n2\nInf\n", "finite"},
-		{"", "at least two"},
-	} {
-		if _, err := ReadValues(strings.NewReader(c.in), "f.csv"); err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "f.csv") {
-			t.Errorf("ReadValues(%q): %v, want an error naming the file and %q", c.in, err, c.want)
-		}
-	}
+// A NaN level is refused.
+func TestAnalyzeMeasuredRefusesNaN(t *testing.T) {
 	if _, err := AnalyzeMeasured([]float64{1, math.NaN()}, Options{}); err == nil {
 		t.Error("NaN level accepted")
 	}

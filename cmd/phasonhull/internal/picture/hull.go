@@ -202,7 +202,7 @@ func Persistence(r *hull.Result) (*Picture, error) {
 	var ticks []plot.Tick
 	for _, d := range dims {
 		bs := slices.Clone(byDim[d])
-		sort.SliceStable(bs, func(i, j int) bool { return bs[i].Persistence() > bs[j].Persistence() })
+		slices.SortStableFunc(bs, rips.ComparePersistence)
 		limit := shownHk
 		if d == 0 {
 			limit = shownH0
