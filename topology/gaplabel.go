@@ -21,12 +21,17 @@ const labelTol = 1e-12
 // countable group of values of the trace on K0 of the crossed product; for
 // a circle hull rotated by θ that group is Z + Zθ (Pimsner & Voiculescu,
 // J. Operator Theory 4, 1980), for a two-torus Z + Zθ1 + Zθ2.
+//
+// Label is the one gap-label type of the module: the hull analysis lists
+// its labels with it and a spectrum's gaps carry it; its JSON form is
+// {"ids": …, "coeffs": […]}.
 type Label struct {
 	// IDS is the integrated density of states, strictly inside (0, 1).
-	IDS float64
+	IDS float64 `json:"ids"`
 	// Coeffs are the integers with IDS = Coeffs[0] + Σ_i Coeffs[i+1]·θ_i:
-	// [n, m] for one angle, [n, m1, m2] for two.
-	Coeffs []int
+	// [n, m] for one angle, [n, m1, m2] for two; for the labels of a
+	// period p (PeriodicLabels), IDS = Coeffs[0] + Coeffs[1]/p.
+	Coeffs []int `json:"coeffs"`
 }
 
 // Labels lists the gap labels n + m1·θ1 (+ m2·θ2 ...) that fall strictly

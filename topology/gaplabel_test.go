@@ -1,6 +1,7 @@
 package topology
 
 import (
+	"encoding/json"
 	"math"
 	"slices"
 	"testing"
@@ -154,5 +155,21 @@ func TestMatchLabel(t *testing.T) {
 	}
 	if _, ok := MatchLabel(0.5, nil, 1); ok {
 		t.Error("matched in an empty list")
+	}
+}
+
+// TestLabelJSON pins the JSON form of a label, which the analysis and the
+// spectrum reports both print: {"ids": …, "coeffs": […]}.
+func TestLabelJSON(t *testing.T) {
+	b, err := json.Marshal(Label{IDS: 0.25, Coeffs: []int{1, -2}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got, want := string(b), `{"ids":0.25,"coeffs":[1,-2]}`; got != want {
+		t.Errorf("JSON form %s, want %s", got, want)
+	}
+	var back Label
+	if err := json.Unmarshal(b, &back); err != nil || back.IDS != 0.25 || !slices.Equal(back.Coeffs, []int{1, -2}) {
+		t.Errorf("read back %+v (%v)", back, err)
 	}
 }

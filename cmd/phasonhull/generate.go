@@ -127,7 +127,7 @@ func (f *generateFlags) apply(fs *pflag.FlagSet, s *design.Spec) error {
 		s.Seed = f.seed
 	}
 	if set("amp") {
-		if s.Family != "modulated" {
+		if s.Family != design.Modulated {
 			s.Amp = f.amp
 			return nil
 		}
@@ -148,6 +148,16 @@ func (f *generateFlags) apply(fs *pflag.FlagSet, s *design.Spec) error {
 	return nil
 }
 
+// familyHelp lists the design families with their help from the family
+// table, one entry a line or two.
+func familyHelp() string {
+	var b strings.Builder
+	for _, f := range design.Families() {
+		fmt.Fprintf(&b, "  %-13s %s\n", f, strings.ReplaceAll(f.Help(), "\n", "\n"+strings.Repeat(" ", 16)))
+	}
+	return b.String()
+}
+
 // newGenerateCmd builds "phasonhull generate".
 func newGenerateCmd() *cobra.Command {
 	var f generateFlags
@@ -159,18 +169,7 @@ file. Comment lines at its top record every parameter, and a "# spec:" line
 holds the whole design as JSON, so a file documents its own design.
 
 Families (L = --spacing, angles and phases in turns):
-  periodic      a repeated cell of spacings (--cell)
-  modulated     x_n = n·L + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ))
-  loop          sites an arc --step·perimeter apart on r(φ) = R(1 + Σ_k (c_k cos kφ
-                + s_k sin kφ)); x_n = n·L + amp·X_n/R; rotation number = --step
-  circle-map    x_n = n·L + amp·sin 2πψ_n, ψ_{n+1} = ψ_n + Ω − (K/2π) sin 2πψ_n
-  two-angle     x_n = n·L + a sin 2π(nθ1+φ1) + a2 sin 2π(nθ2+φ2)
-  sturmian      two tiles in the mechanical word of slope θ and intercept ρ; the
-                letter that sorts second has frequency θ
-  substitution  the tile word of a substitution rule, iterated from its first letter
-  random        independent spacings: uniform on [L(1−spread), L(1+spread)], or
-                exponential L(1−spread) + L·spread·E (mean L, sd L·spread)
-
+` + familyHelp() + `
 Perturbations, applied in this order from --seed: --missing, --extra, --noise,
 --drift. A flag that the family does not use is refused, as are parameters
 that would make a spacing zero or negative. With --spec FILE the file must be
@@ -212,12 +211,12 @@ func runGenerate(cmd *cobra.Command, args []string, f *generateFlags) error {
 			return err
 		}
 		if len(args) == 1 {
-			s.Family = args[0]
+			s.Family = design.Family(args[0])
 		}
 	case len(args) == 1:
-		s = design.NewSpec(args[0])
+		s = design.NewSpec(design.Family(args[0]))
 	default:
-		return fmt.Errorf("generate needs a FAMILY (%s) or --spec FILE", strings.Join(design.Families(), ", "))
+		return fmt.Errorf("generate needs a FAMILY (%s) or --spec FILE", design.FamilyNames())
 	}
 	if err := f.apply(cmd.Flags(), &s); err != nil {
 		return err

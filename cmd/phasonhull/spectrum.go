@@ -18,8 +18,6 @@ import (
 
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
-	"phasonhull/topology"
-	"phasonhull/topology/hull"
 	"phasonhull/topology/spectrum"
 )
 
@@ -428,8 +426,9 @@ func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spe
 	return m, info, nil
 }
 
-// labelOptions chooses what labels the gaps, in order: --theta, --period,
-// the design's own angle(s) or period, the hull analysis of the pattern.
+// labelOptions builds the options of the gap analysis: the flags, and the
+// labels spectrum.ChooseLabels picks from --theta, --period, the design
+// (spec, when f.design is set) and the pattern p.
 func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
 	opt := spectrum.Options{MinGap: f.minGap, MaxCoeff: f.maxCoeff}
 	if opt.MinGap == 0 && p != nil {
@@ -444,51 +443,33 @@ func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *
 	default:
 		return opt, fmt.Errorf("--method %q: want auto, values or counting", f.method)
 	}
-	switch {
-	case len(f.theta) > 0:
-		opt.Angles, rep.LabelSource = f.theta, "given (--theta)"
-	case f.period > 0:
-		opt.Period, rep.LabelSource = f.period, "given (--period)"
-	case f.design != "" && spec.Theta != 0:
-		// A valid spec has θ ≠ 0 exactly when its family takes θ.
-		opt.Angles = []float64{spec.Theta}
-		if spec.Theta2 != 0 {
-			opt.Angles = append(opt.Angles, spec.Theta2)
-		}
-		rep.LabelSource = "the design's θ"
-	case f.design != "" && spec.Family == "periodic":
-		opt.Period, rep.LabelSource = len(spec.Cell), "the design's cell"
-	default:
-		res, err := hull.Analyze(p, hull.Options{MaxCoeff: f.maxCoeff})
-		if err != nil {
-			return opt, err
-		}
-		rep.LabelSource = fmt.Sprintf("recovered by the hull analysis (%s hull)", res.Hull.Class)
-		switch {
-		case res.Hull.Class == hull.Finite:
-			opt.Period = res.Hull.Period
-		case len(res.Angles) > 0:
-			// Circle, torus, and the Cantor hull of a Sturmian word.
-			opt.Angles = res.Angles
-			// An uncertain angle widens the match by |m|·σ.
-			sig := 0.0
-			for _, s := range res.AngleUncertainty {
-				sig = max(sig, s)
-			}
-			opt.Resolution = spectrum.DefaultResolution/float64(p.Len()) + float64(f.maxCoeff)*sig
-		case res.Hull.Class == hull.Point:
-			rep.Notes = append(rep.Notes, "the pattern is periodic with one site per cell: its gap-label group is Z, no gap inside the spectrum has a label")
-		case len(res.GapLabels.Labels) > 0:
-			// A hull whose group is not Z + Zθ: its own label list.
-			for _, l := range res.GapLabels.Labels {
-				opt.Labels = append(opt.Labels, topology.Label{IDS: l.IDS, Coeffs: l.Coeffs})
-			}
-			rep.Generators = res.GapLabels.Generators
-		default:
-			rep.Warnings = append(rep.Warnings, "the hull analysis could not decide the class ("+res.Hull.Reason+"); the gaps are not labelled — give --theta or --period")
-		}
-		rep.Warnings = append(rep.Warnings, res.Warnings...)
+	src := spectrum.LabelSources{Angles: f.theta, Period: f.period, Pattern: p, MaxCoeff: f.maxCoeff}
+	if f.design != "" {
+		src.Design = &spec
 	}
+	l, err := spectrum.ChooseLabels(src)
+	if err != nil {
+		return opt, err
+	}
+	opt = l.Apply(opt)
+	switch l.Source {
+	case spectrum.GivenAngles:
+		rep.LabelSource = "given (--theta)"
+	case spectrum.GivenPeriod:
+		rep.LabelSource = "given (--period)"
+	case spectrum.DesignAngles:
+		rep.LabelSource = "the design's θ"
+	case spectrum.DesignCell:
+		rep.LabelSource = "the design's cell"
+	case spectrum.HullAnalysis:
+		rep.LabelSource = fmt.Sprintf("recovered by the hull analysis (%s hull)", l.Class)
+	}
+	rep.Generators = l.Generators
+	rep.Notes = append(rep.Notes, l.Notes...)
+	if l.Unresolved != "" {
+		rep.Warnings = append(rep.Warnings, "the hull analysis could not decide the class ("+l.Unresolved+"); the gaps are not labelled — give --theta or --period")
+	}
+	rep.Warnings = append(rep.Warnings, l.Warnings...)
 	rep.Angles, rep.Period = opt.Angles, opt.Period
 	if rep.Angles == nil {
 		rep.Angles = []float64{}

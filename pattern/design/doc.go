@@ -9,6 +9,12 @@
 //
 // # Families
 //
+// A family is a Family constant with one entry in the family table
+// (family.go): its parameters, its help text, its checks and generator,
+// what its spec fixes in closed form (Spec.ClosedForm: a period, or the
+// construction's rotation numbers) and the parameter that moves its
+// pattern along its hull (Family.PhaseParam, Spec.ShiftPhase).
+//
 // Positions are in the pattern's unit; L is the mean spacing (field
 // "spacing", default 1) of the families that use one.
 //

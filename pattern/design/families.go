@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"strings"
 
 	"phasonhull/pattern"
 )
@@ -14,26 +13,6 @@ import (
 type base struct {
 	pos  []float64
 	word string
-}
-
-// family is one design family: the fields it uses, its formula for the
-// notes, its parameter checks (on a spec with defaults) and its builder.
-type family struct {
-	uses    map[string]bool
-	formula string
-	check   func(Spec) error
-	build   func(Spec) (base, error)
-}
-
-// takes lists the family's fields in documentation order.
-func (f family) takes() string {
-	var names []string
-	for _, p := range familyParams() {
-		if f.uses[p.name] {
-			names = append(names, p.name)
-		}
-	}
-	return strings.Join(names, ", ")
 }
 
 // Random streams: each random choice draws from its own PCG stream of the
@@ -57,34 +36,6 @@ func uses(names ...string) map[string]bool {
 		m[n] = true
 	}
 	return m
-}
-
-// lookupFamily returns the family of the given name.
-func lookupFamily(name string) (family, bool) {
-	switch name {
-	case "periodic":
-		return family{uses("cell"), "a repeated cell of spacings", checkPeriodic, buildPeriodic}, true
-	case "modulated":
-		return family{uses("spacing", "theta", "phase", "sin", "cos", "amp"),
-			"x_n = n·L + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ))", checkModulated, buildModulated}, true
-	case "loop":
-		return family{uses("spacing", "phase", "amp", "radius-cos", "radius-sin", "step"),
-			"x_n = n·L + amp·X_n/R, X_n the first coordinate of points an arc step·perimeter apart on r(φ) = R(1 + Σ_k (c_k cos kφ + s_k sin kφ))", checkLoop, buildLoop}, true
-	case "circle-map":
-		return family{uses("spacing", "phase", "amp", "omega", "k"),
-			"x_n = n·L + amp·sin 2πψ_n, ψ_{n+1} = ψ_n + Ω − (K/2π) sin 2πψ_n, ψ_0 = phase", checkCircleMap, buildCircleMap}, true
-	case "two-angle":
-		return family{uses("spacing", "theta", "phase", "amp", "theta2", "phase2", "amp2"),
-			"x_n = n·L + amp·sin 2π(nθ1+φ1) + amp2·sin 2π(nθ2+φ2)", checkTwoAngle, buildTwoAngle}, true
-	case "sturmian":
-		return family{uses("tiles", "theta", "intercept"),
-			"tile n is the second letter when ⌊(n+1)θ+ρ⌋ − ⌊nθ+ρ⌋ = 1, else the first", checkSturmian, buildSturmian}, true
-	case "substitution":
-		return family{uses("tiles", "rule"), "the tile word of a substitution rule iterated from its first letter", checkSubstitution, buildSubstitution}, true
-	case "random":
-		return family{uses("spacing", "dist", "spread"), "independent random spacings", checkRandom, buildRandom}, true
-	}
-	return family{}, false
 }
 
 // checkTurn refuses an angle outside the open interval (0, 1) turns.

@@ -29,7 +29,7 @@ const (
 // family does not use must be left zero.
 type Spec struct {
 	// Family is one of Families().
-	Family string `json:"family"`
+	Family Family `json:"family"`
 	// Sites is the number of sites of the design before perturbation.
 	Sites int `json:"sites"`
 	// Spacing is the mean spacing L (default 1) of the periodic-lattice
@@ -110,16 +110,10 @@ type Spec struct {
 	Seed uint64 `json:"seed"`
 }
 
-// Families returns the names of the design families, in documentation
-// order.
-func Families() []string {
-	return []string{"periodic", "modulated", "loop", "circle-map", "two-angle", "sturmian", "substitution", "random"}
-}
-
 // NewSpec returns the spec of the given family with the default number of
 // sites and the default seed; the family's own parameters are left for the
 // caller to set.
-func NewSpec(family string) Spec {
+func NewSpec(family Family) Spec {
 	return Spec{Family: family, Sites: DefaultSites, Seed: DefaultSeed}
 }
 
@@ -283,28 +277,8 @@ func (s Spec) WithDefaults() Spec {
 	if fam.uses["spacing"] && s.Spacing == 0 {
 		s.Spacing = 1
 	}
-	switch s.Family {
-	case "modulated":
-		if s.Amp != 0 && len(s.Sin) == 0 {
-			s.Sin, s.Amp = []float64{s.Amp}, 0
-		}
-	case "sturmian":
-		if len(s.Tiles) == 0 {
-			s.Tiles = defaultTiles()
-		}
-	case "substitution":
-		if len(s.Tiles) == 0 {
-			if r, err := parseRule(s.Rule); err == nil && r.alphabet == "AB" {
-				s.Tiles = defaultTiles()
-			}
-		}
-	case "random":
-		if s.Dist == "" {
-			s.Dist = "uniform"
-		}
-		if s.Spread == 0 {
-			s.Spread = 0.5
-		}
+	if fam.defaults != nil {
+		fam.defaults(&s)
 	}
 	return s
 }
@@ -321,9 +295,9 @@ func (s Spec) prepare() (Spec, base, error) {
 	fam, ok := lookupFamily(s.Family)
 	if !ok {
 		if s.Family == "" {
-			return s, base{}, fmt.Errorf("family: missing; choose one of %s", strings.Join(Families(), ", "))
+			return s, base{}, fmt.Errorf("family: missing; choose one of %s", FamilyNames())
 		}
-		return s, base{}, fmt.Errorf("family %q: unknown; choose one of %s", s.Family, strings.Join(Families(), ", "))
+		return s, base{}, fmt.Errorf("family %q: unknown; choose one of %s", s.Family, FamilyNames())
 	}
 	if s.Sites < pattern.MinSites {
 		return s, base{}, fmt.Errorf("sites = %d: a design needs at least %d sites", s.Sites, pattern.MinSites)
@@ -357,7 +331,7 @@ func (s Spec) prepare() (Spec, base, error) {
 			return s, base{}, fmt.Errorf("%s = %s has no effect on the %s family (it takes %s)", p.name, p.text(&s), s.Family, fam.takes())
 		}
 	}
-	if s.Family == "modulated" && s.Amp != 0 && len(s.Sin) > 0 {
+	if s.Family == Modulated && s.Amp != 0 && len(s.Sin) > 0 {
 		return s, base{}, fmt.Errorf("amp = %s and sin = %s: amp is shorthand for the first sine amplitude; give one of them", formatFloat(s.Amp), formatList(s.Sin))
 	}
 	c := s.WithDefaults()
@@ -426,7 +400,7 @@ func countOf(f float64, n int) int { return int(math.Round(f * float64(n))) }
 // of JSON, so that a generated file documents its own design.
 func (s Spec) Comments() []string {
 	c := s.WithDefaults()
-	lines := []string{"family = " + c.Family, "sites = " + strconv.Itoa(c.Sites)}
+	lines := []string{"family = " + string(c.Family), "sites = " + strconv.Itoa(c.Sites)}
 	if c.Unit != "" {
 		lines = append(lines, "unit = "+c.Unit)
 	}
@@ -434,7 +408,7 @@ func (s Spec) Comments() []string {
 		for _, p := range familyParams() {
 			// Empty lists, and amp once WithDefaults has moved it into
 			// sin, would only say "nothing": leave them out.
-			if fam.uses[p.name] && (p.set(&c) || !p.list) && (p.name != "amp" || c.Family != "modulated") {
+			if fam.uses[p.name] && (p.set(&c) || !p.list) && (p.name != "amp" || c.Family != Modulated) {
 				lines = append(lines, p.name+" = "+p.text(&c))
 			}
 		}

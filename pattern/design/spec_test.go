@@ -30,21 +30,21 @@ func allFamilies() []Spec {
 	for _, f := range Families() {
 		s := NewSpec(f)
 		switch f {
-		case "periodic":
+		case Periodic:
 			s.Cell = []float64{1, 1.5}
-		case "modulated":
+		case Modulated:
 			s.Theta, s.Sin, s.Cos, s.Phase = 0.2763, []float64{0.1, 0.02}, []float64{0, 0.01}, 0.3
-		case "loop":
+		case Loop:
 			s.Step, s.Amp, s.RadiusCos = 0.381966, 0.2, []float64{0.1, 0.2}
-		case "circle-map":
+		case CircleMap:
 			s.Omega, s.K, s.Amp = 0.3, 0.7, 0.1
-		case "two-angle":
+		case TwoAngle:
 			s.Theta, s.Theta2, s.Amp, s.Amp2 = 0.4142, 0.7320508, 0.1, 0.05
-		case "sturmian":
+		case Sturmian:
 			s.Theta, s.Intercept = 0.381966, 0.2
-		case "substitution":
+		case Substitution:
 			s.Rule = "period-doubling"
-		case "random":
+		case Random:
 			s.Dist = "exponential"
 		}
 		s.Unit = "um"
@@ -68,7 +68,7 @@ func TestRoundTrip(t *testing.T) {
 		if err := pattern.WriteCSV(&b, p, s.Comments()); err != nil {
 			t.Fatal(err)
 		}
-		q, err := pattern.Read(&b, s.Family+".csv", pattern.ReadOptions{})
+		q, err := pattern.Read(&b, string(s.Family)+".csv", pattern.ReadOptions{})
 		if err != nil {
 			t.Fatalf("%s: reading back: %v", s.Family, err)
 		}
@@ -93,7 +93,7 @@ func TestCommentsTraceBack(t *testing.T) {
 		if !strings.HasPrefix(last, "spec: ") {
 			t.Fatalf("%s: last comment %q", s.Family, last)
 		}
-		if !slicesContain(lines, "family = "+s.Family) || !slicesContain(lines, "noise = 0.01") || !slicesContain(lines, "seed = 9") {
+		if !slicesContain(lines, "family = "+string(s.Family)) || !slicesContain(lines, "noise = 0.01") || !slicesContain(lines, "seed = 9") {
 			t.Errorf("%s: comments %q lack a parameter", s.Family, lines)
 		}
 		back, err := ReadSpec(strings.NewReader(strings.TrimPrefix(last, "spec: ")), "comment")
@@ -137,7 +137,7 @@ func TestExampleSpecs(t *testing.T) {
 			t.Errorf("%s: %v", path, err)
 			continue
 		}
-		if p.Source != "generated" || len(p.Notes) == 0 || !strings.Contains(p.Notes[0], s.Family) {
+		if p.Source != "generated" || len(p.Notes) == 0 || !strings.Contains(p.Notes[0], string(s.Family)) {
 			t.Errorf("%s: source %q, notes %q", path, p.Source, p.Notes)
 		}
 	}
@@ -177,7 +177,7 @@ func TestReadSpecRefusals(t *testing.T) {
 // and its value).
 func TestValidateRefusals(t *testing.T) {
 	mod := func(f func(*Spec)) Spec { s := modulatedSpec(200); f(&s); return s }
-	fam := func(name string, f func(*Spec)) Spec { s := NewSpec(name); f(&s); return s }
+	fam := func(name Family, f func(*Spec)) Spec { s := NewSpec(name); f(&s); return s }
 	for _, c := range []struct {
 		s    Spec
 		want string

@@ -341,18 +341,18 @@ func (a *analysis) labels() {
 	case Finite:
 		p := a.res.Hull.Period
 		g.Generators = append(g.Generators, 1/float64(p))
-		g.Labels = labelsFrom(topology.PeriodicLabels(p))
+		g.Labels = topology.PeriodicLabels(p)
 	case Circle, Torus:
 		g.Generators = append(g.Generators, a.res.Angles...)
-		g.Labels = labelsFrom(topology.Labels(a.res.Angles, a.opt.MaxCoeff))
+		g.Labels = topology.Labels(a.res.Angles, a.opt.MaxCoeff)
 	case Cantor:
 		switch m := a.module; {
 		case len(a.res.Angles) > 0:
 			g.Generators = append(g.Generators, a.res.Angles...)
-			g.Labels = labelsFrom(topology.Labels(a.res.Angles, a.opt.MaxCoeff))
+			g.Labels = topology.Labels(a.res.Angles, a.opt.MaxCoeff)
 		case m != nil && m.Rank == 1:
 			g.Generators = []float64{1, m.Basis[0]}
-			g.Labels = labelsFrom(topology.PeriodicLabels(m.Denominator))
+			g.Labels = topology.PeriodicLabels(m.Denominator)
 		case m != nil:
 			gens := m.Basis[1:]
 			if m.Denominator > 1 {
@@ -360,13 +360,13 @@ func (a *analysis) labels() {
 			}
 			g.Generators = append(g.Generators, gens...)
 			if len(gens) <= maxLabelGenerators {
-				g.Labels = labelsFrom(topology.Labels(gens, a.opt.MaxCoeff))
+				g.Labels = topology.Labels(gens, a.opt.MaxCoeff)
 			} else {
 				a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the factor frequencies show too few integer relations at the precision %d letters allow (rank %d): the gap-label group is not resolved and no labels are listed; more sites would resolve it", a.p.Len()-1, m.Rank))
 			}
 		}
 	}
 	if g.Labels == nil {
-		g.Labels = []Label{}
+		g.Labels = []topology.Label{}
 	}
 }

@@ -64,7 +64,7 @@ type AngleCheck struct {
 
 // Reference is what a design spec fixes of its hull in closed form.
 type Reference struct {
-	Family string `json:"family"`
+	Family design.Family `json:"family"`
 	// Class is the hull class the spec implies, "" when it does not fix
 	// one; Period goes with the point and finite classes.
 	Class  Class `json:"class,omitempty"`
@@ -76,23 +76,12 @@ type Reference struct {
 	Note string `json:"note,omitempty"`
 }
 
-// SpecReference returns what a design spec fixes of its hull. The angles
-// are the construction's rotation numbers, exact by construction:
-//
-//   - modulated: g·θ, g the greatest common divisor of the harmonic orders
-//     with a nonzero amplitude (a modulation in harmonics 2, 4, ... of θ
-//     turns with angle 2θ); a circle.
-//   - two-angle: θ and θ2 (a torus), or the one whose amplitude is
-//     nonzero (a circle).
-//   - loop: the arc step (a circle); circle-map with K = 0: Ω, a rigid
-//     rotation (a circle). A circle map with K > 0 has a rotation number
-//     that depends on Ω and K and is not fixed.
-//   - sturmian: the slope θ; substitution "fibonacci": the frequency 1/φ²
-//     of its letter B, the slope of the Fibonacci word. The class of a
-//     tile chain is not fixed: a word of two tile lengths may look like
-//     clusters to the analysis.
-//   - periodic: a point or finite hull with the smallest period of the
-//     cell.
+// SpecReference returns what a design spec fixes of its hull: the class
+// and angles of its closed form (design.Spec.ClosedForm, which says per
+// family what the construction fixes). A period makes a point or finite
+// hull; one angle a circle and two a torus, except for the angles of a
+// tile word (Sturmian, substitution), which fix no class: a word of two
+// tile lengths may look like clusters to the analysis.
 //
 // An angle within 10⁻⁹ of a rational p/q with q no larger than the number
 // of sites makes the design periodic over its length, and the reference
@@ -100,110 +89,36 @@ type Reference struct {
 func SpecReference(s design.Spec) Reference {
 	c := s.WithDefaults()
 	ref := Reference{Family: c.Family}
-	var angles []float64
-	class := Circle
-	switch c.Family {
-	case "periodic":
-		p := cellPeriod(c.Cell)
-		ref.Class, ref.Period = Finite, p
-		if p == 1 {
-			ref.Class = Point
-		}
+	fixed := c.ClosedForm()
+	switch {
+	case fixed.Period == 1:
+		ref.Class, ref.Period = Point, 1
 		return ref
-	case "modulated":
-		g := 0
-		for k := 1; k <= max(len(c.Sin), len(c.Cos)); k++ {
-			if at(c.Sin, k-1) != 0 || at(c.Cos, k-1) != 0 {
-				g = gcd(g, k)
-			}
-		}
-		if g == 0 {
-			ref.Class, ref.Period = Point, 1
-			return ref
-		}
-		angles = []float64{float64(g) * c.Theta}
-	case "two-angle":
-		switch {
-		case c.Amp != 0 && c.Amp2 != 0:
-			angles, class = []float64{c.Theta, c.Theta2}, Torus
-		case c.Amp != 0:
-			angles = []float64{c.Theta}
-		case c.Amp2 != 0:
-			angles = []float64{c.Theta2}
-		default:
-			ref.Class, ref.Period = Point, 1
-			return ref
-		}
-	case "loop":
-		if c.Amp == 0 {
-			ref.Class, ref.Period = Point, 1
-			return ref
-		}
-		angles = []float64{c.Step}
-	case "circle-map":
-		if c.Amp == 0 {
-			ref.Class, ref.Period = Point, 1
-			return ref
-		}
-		if c.K != 0 {
-			ref.Note = "the rotation number of a circle map with K > 0 depends on Ω and K: the spec does not fix it"
-			return ref
-		}
-		angles = []float64{c.Omega}
-	case "sturmian":
-		angles, class = []float64{c.Theta}, ""
-	case "substitution":
-		if c.Rule != "fibonacci" {
-			ref.Note = "the spec fixes no angle for the substitution rule " + c.Rule
-			return ref
-		}
-		phi := (1 + math.Sqrt(5)) / 2
-		angles, class = []float64{1 / (phi * phi)}, ""
-	default:
-		ref.Note = "the " + c.Family + " family fixes no hull"
+	case fixed.Period > 1:
+		ref.Class, ref.Period = Finite, fixed.Period
+		return ref
+	case fixed.Note != "":
+		ref.Note = fixed.Note
+		return ref
+	case len(fixed.Angles) == 0:
+		ref.Note = "the " + string(c.Family) + " family fixes no hull"
 		return ref
 	}
-	for _, a := range angles {
+	class := Circle
+	switch {
+	case fixed.Tiling:
+		class = ""
+	case len(fixed.Angles) == 2:
+		class = Torus
+	}
+	for _, a := range fixed.Angles {
 		if p, q, ok := nearRational(a, c.Sites); ok {
 			ref.Note = fmt.Sprintf("the angle %.10g is the rational %d/%d: the design is periodic over its length, and the spec fixes nothing else", a, p, q)
 			return ref
 		}
 	}
-	ref.Class, ref.Angles = class, topology.CanonicalBasis(angles)
+	ref.Class, ref.Angles = class, topology.CanonicalBasis(fixed.Angles)
 	return ref
-}
-
-func at(v []float64, i int) float64 {
-	if i < len(v) {
-		return v[i]
-	}
-	return 0
-}
-
-func gcd(a, b int) int {
-	for b != 0 {
-		a, b = b, a%b
-	}
-	return a
-}
-
-// cellPeriod returns the smallest p dividing len(cell) for which the cell
-// repeats itself every p entries.
-func cellPeriod(cell []float64) int {
-	n := len(cell)
-	for p := 1; p < n; p++ {
-		if n%p != 0 {
-			continue
-		}
-		ok := true
-		for i := p; i < n && ok; i++ {
-			ok = cell[i] == cell[i-p]
-		}
-		if ok {
-			return p
-		}
-	}
-	return max(n, 1)
 }
 
 // nearRational reports whether a lies within 10⁻⁹ of p/q for some q ≤ maxQ

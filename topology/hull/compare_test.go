@@ -17,7 +17,7 @@ func near(a, b, tol float64) bool { return math.Abs(a-b) <= tol }
 // (closed forms of each family; see the design package documentation).
 func TestSpecReference(t *testing.T) {
 	phi := (1 + math.Sqrt(5)) / 2
-	spec := func(family string, set func(*design.Spec)) design.Spec {
+	spec := func(family design.Family, set func(*design.Spec)) design.Spec {
 		s := design.NewSpec(family)
 		set(&s)
 		if err := s.Validate(); err != nil {

@@ -105,15 +105,9 @@ type GapLabels struct {
 	// MaxCoeff bounds the angle coefficients listed.
 	MaxCoeff int `json:"max_coeff"`
 	// Labels are the values the integrated density of states may take in
-	// a spectral gap, inside (0, 1), sorted.
-	Labels []Label `json:"labels"`
-}
-
-// Label is one gap label: IDS = coeffs[0] + Σ coeffs[i]·angles[i−1]; for a
-// finite hull of period p, IDS = coeffs[0]/p.
-type Label struct {
-	IDS    float64 `json:"ids"`
-	Coeffs []int   `json:"coeffs"`
+	// a spectral gap, inside (0, 1), sorted: IDS = coeffs[0] +
+	// Σ coeffs[i]·Generators[i] over the generators other than 1.
+	Labels []topology.Label `json:"labels"`
 }
 
 // Embedding reports the delay embedding the analysis ran on.
@@ -157,14 +151,6 @@ type Bar struct {
 	Birth       float64  `json:"birth"`
 	Death       *float64 `json:"death"`
 	Significant bool     `json:"significant"`
-}
-
-func labelsFrom(ls []topology.Label) []Label {
-	out := make([]Label, len(ls))
-	for i, l := range ls {
-		out[i] = Label{IDS: l.IDS, Coeffs: l.Coeffs}
-	}
-	return out
 }
 
 // Trace is the delay cloud an analysis ran on, for pictures and reports.

@@ -58,6 +58,11 @@
 // never forced: the angle may be off, the coefficients above MaxCoeff, or
 // the operator may break the pattern's symmetry.
 //
+// ChooseLabels decides what labels a spectrum: given angles or a period,
+// a design's own angles or cell, or the hull analysis of the pattern
+// (hull.Result.LabelGroup), in that order, and how wide a match is when
+// the angles were measured; Labelling.Apply puts its choice into Options.
+//
 // # Boundary states and the gap label
 //
 // EdgeModes moves the pattern through one turn of its phase (a Sweep,

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
@@ -15,34 +16,26 @@ import (
 type Sweep func(s float64) (*pattern.Pattern, error)
 
 // PhaseSweep returns the sweep of a design through one turn of its phase:
-// the field Phase (φ of modulated and two-angle, ψ_0 of circle-map, the
-// starting arc fraction of loop) or, for the sturmian family, Intercept,
-// advanced by s from the spec's own value. Other families have no phase
-// and are refused.
+// the parameter its family's entry names (design.Family.PhaseParam: φ of
+// modulated and two-angle, ψ_0 of circle-map, the starting arc fraction of
+// loop, the intercept of sturmian), advanced by s from the spec's own
+// value. Families without a phase are refused.
 func PhaseSweep(spec design.Spec) (Sweep, error) {
 	if err := spec.Validate(); err != nil {
 		return nil, fmt.Errorf("spectrum: %w", err)
 	}
-	var field *float64
-	s0 := spec
-	switch spec.Family {
-	case "modulated", "two-angle", "circle-map", "loop":
-		field = &s0.Phase
-	case "sturmian":
-		field = &s0.Intercept
-	default:
-		return nil, fmt.Errorf("spectrum: the %s family has no phase to sweep (modulated, two-angle, circle-map, loop and sturmian have one)", spec.Family)
-	}
-	base := *field
-	return func(s float64) (*pattern.Pattern, error) {
-		c := s0
-		u := base + s
-		c.Phase, c.Intercept = spec.Phase, spec.Intercept
-		if spec.Family == "sturmian" {
-			c.Intercept = u - math.Floor(u) // the intercept lies in [0, 1)
-		} else {
-			c.Phase = u - math.Floor(u)
+	if _, ok := spec.ShiftPhase(0); !ok {
+		var with []string
+		for _, f := range design.Families() {
+			if f.PhaseParam() != "" {
+				with = append(with, string(f))
+			}
 		}
+		return nil, fmt.Errorf("spectrum: the %s family has no phase to sweep (%s and %s have one)",
+			spec.Family, strings.Join(with[:len(with)-1], ", "), with[len(with)-1])
+	}
+	return func(s float64) (*pattern.Pattern, error) {
+		c, _ := spec.ShiftPhase(s)
 		return design.Generate(c)
 	}, nil
 }

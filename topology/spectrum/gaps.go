@@ -100,18 +100,11 @@ type Gap struct {
 	IDS float64 `json:"ids"`
 	// Label is the gap label the IDS matched within the resolution, nil
 	// when it matched none (or Options gave no angles).
-	Label *Label `json:"label"`
+	Label *topology.Label `json:"label"`
 	// Boundary are the levels inside the gap that sit on an end of an
 	// open chain (or at the seam of a periodic one); they are not counted
 	// in Below.
 	Boundary []BoundaryState `json:"boundary_states"`
-}
-
-// Label is a gap label: IDS = Coeffs[0] + Σ_i Coeffs[i]·θ_i, or
-// Coeffs[0] + Coeffs[1]/p for a period p (see topology.Label).
-type Label struct {
-	IDS    float64 `json:"ids"`
-	Coeffs []int   `json:"coeffs"`
 }
 
 // BoundaryState is a level inside a bulk gap whose eigenvector lies at an
@@ -457,7 +450,8 @@ func finish(res *Result, gaps []Gap, opt Options) error {
 
 	for i := range gaps {
 		if l, ok := topology.MatchLabel(gaps[i].IDS, labels, res.Resolution); ok {
-			gaps[i].Label = &Label{IDS: l.IDS, Coeffs: slices.Clone(l.Coeffs)}
+			l.Coeffs = slices.Clone(l.Coeffs) // the gap owns its label
+			gaps[i].Label = &l
 		}
 		if gaps[i].Boundary == nil {
 			gaps[i].Boundary = []BoundaryState{}
