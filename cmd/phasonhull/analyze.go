@@ -84,7 +84,7 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 			return fmt.Errorf("--memory: %w", err)
 		}
 	}
-	res, err := hull.Analyze(p, opt)
+	res, err := hull.AnalyzeContext(cmd.Context(), p, opt)
 	if err != nil {
 		return err
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -201,11 +202,11 @@ func runAudit(cmd *cobra.Command, path string, f *auditFlags) error {
 	}
 	var d *loadedDesign
 	if f.designPath != "" {
-		if d, err = loadDesign(f.designPath, f.designUnit, f.hullOptions()); err != nil {
+		if d, err = loadDesign(cmd.Context(), f.designPath, f.designUnit, f.hullOptions()); err != nil {
 			return err
 		}
 	}
-	rep, err := auditSample(d, p, f, f.hullOptions())
+	rep, err := auditSample(cmd.Context(), d, p, f, f.hullOptions())
 	if err != nil {
 		return err
 	}
@@ -254,7 +255,7 @@ type loadedDesign struct {
 // loadDesign reads a design: a JSON object with a "family" key is a design
 // spec, anything else a positions file for the readers. unit, when set,
 // overrides the design's unit.
-func loadDesign(path, unit string, opt hull.Options) (*loadedDesign, error) {
+func loadDesign(ctx context.Context, path, unit string, opt hull.Options) (*loadedDesign, error) {
 	d := &loadedDesign{path: path}
 	spec, isSpec, err := readSpecIfSpec(path)
 	if err != nil {
@@ -290,7 +291,7 @@ func loadDesign(path, unit string, opt hull.Options) (*loadedDesign, error) {
 	if unit != "" {
 		d.p.Unit = strings.TrimSpace(unit)
 	}
-	d.hull, d.hullErr = hull.Analyze(d.p, opt)
+	d.hull, d.hullErr = hull.AnalyzeContext(ctx, d.p, opt)
 	return d, nil
 }
 
@@ -456,7 +457,7 @@ type auditHull struct {
 // auditSample audits p against the design d (nil: against its own hull).
 // Its errors are the user's to fix (exit status 2); a sample that fails is
 // a report with verdict "fail".
-func auditSample(d *loadedDesign, p *pattern.Pattern, f *auditFlags, opt hull.Options) (*auditReport, error) {
+func auditSample(ctx context.Context, d *loadedDesign, p *pattern.Pattern, f *auditFlags, opt hull.Options) (*auditReport, error) {
 	rep := &auditReport{
 		Schema: auditSchema, Measured: p.Source, Unit: p.Unit, MeasuredSites: p.Len(),
 		MeasuredOrder: "file", Reasons: []string{}, Missing: []int{}, Extra: []int{},
@@ -471,7 +472,7 @@ func auditSample(d *loadedDesign, p *pattern.Pattern, f *auditFlags, opt hull.Op
 		}
 		rep.Tolerance = &tol
 	}
-	mres, merr := hull.Analyze(p, opt)
+	mres, merr := hull.AnalyzeContext(ctx, p, opt)
 	if merr != nil {
 		rep.Reasons = append(rep.Reasons, fmt.Sprintf("the sample's hull could not be analysed: %v", merr))
 	} else {

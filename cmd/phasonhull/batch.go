@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
@@ -148,7 +149,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	var d *loadedDesign
 	if f.audit.designPath != "" {
 		// The design is analysed once, with every core.
-		if d, err = loadDesign(f.audit.designPath, f.audit.designUnit, opt); err != nil {
+		if d, err = loadDesign(cmd.Context(), f.audit.designPath, f.audit.designUnit, opt); err != nil {
 			return err
 		}
 	}
@@ -163,7 +164,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				rows[i] = batchOne(files[i], d, &f.audit, opt)
+				rows[i] = batchOne(cmd.Context(), files[i], d, &f.audit, opt)
 			}
 		}()
 	}
@@ -267,7 +268,7 @@ func batchFiles(args, skip []string) ([]string, error) {
 
 // batchOne analyses or audits one file. A panic is caught and reported in
 // the row as a bug, so that one file cannot stop the batch.
-func batchOne(path string, d *loadedDesign, f *auditFlags, opt hull.Options) (row batchRow) {
+func batchOne(ctx context.Context, path string, d *loadedDesign, f *auditFlags, opt hull.Options) (row batchRow) {
 	row = batchRow{File: path, Angles: []float64{}, Uncertainty: []float64{}, Reasons: []string{}}
 	defer func() {
 		if r := recover(); r != nil {
@@ -282,12 +283,12 @@ func batchOne(path string, d *loadedDesign, f *auditFlags, opt hull.Options) (ro
 	row.Sites, row.Unit = p.Len(), p.Unit
 	var res *hull.Result
 	if d == nil {
-		if res, err = hull.Analyze(p, opt); err != nil {
+		if res, err = hull.AnalyzeContext(ctx, p, opt); err != nil {
 			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
 			return row
 		}
 	} else {
-		rep, err := auditSample(d, p, f, opt)
+		rep, err := auditSample(ctx, d, p, f, opt)
 		if err != nil {
 			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
 			return row

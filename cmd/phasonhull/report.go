@@ -204,7 +204,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	}
 	var d *loadedDesign
 	if f.audit.designPath != "" {
-		if d, err = loadDesign(f.audit.designPath, f.audit.designUnit, f.audit.hullOptions()); err != nil {
+		if d, err = loadDesign(cmd.Context(), f.audit.designPath, f.audit.designUnit, f.audit.hullOptions()); err != nil {
 			return err
 		}
 	}
@@ -213,11 +213,11 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	var page report.Page
 	var res *hull.Result
 	if d == nil {
-		if res, err = hull.Analyze(p, f.audit.hullOptions()); err != nil {
+		if res, err = hull.AnalyzeContext(cmd.Context(), p, f.audit.hullOptions()); err != nil {
 			return err
 		}
 	} else {
-		rep, err := auditSample(d, p, &f.audit, f.audit.hullOptions())
+		rep, err := auditSample(cmd.Context(), d, p, &f.audit, f.audit.hullOptions())
 		if err != nil {
 			return err
 		}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bufio"
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -245,7 +246,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		return err
 	}
 	rep.Operator = info
-	opt, err := f.labelOptions(p, spec, rep)
+	opt, err := f.labelOptions(cmd.Context(), p, spec, rep)
 	if err != nil {
 		return err
 	}
@@ -433,7 +434,7 @@ func (f *spectrumFlags) buildModel(n int, theta []float64) (spectrum.Model, *ope
 
 // labelOptions chooses what labels the gaps, in order: --theta, --period,
 // the design's own angle(s) or period, the hull analysis of the pattern.
-func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
+func (f *spectrumFlags) labelOptions(ctx context.Context, p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
 	opt := spectrum.Options{MinGap: f.minGap, MaxCoeff: f.maxCoeff}
 	if opt.MinGap == 0 && p != nil {
 		// Not narrower than 4 mean level spacings of this chain, so that
@@ -462,7 +463,7 @@ func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *
 	case f.design != "" && spec.Family == "periodic":
 		opt.Period, rep.LabelSource = len(spec.Cell), "the design's cell"
 	default:
-		res, err := hull.Analyze(p, hull.Options{MaxCoeff: f.maxCoeff})
+		res, err := hull.AnalyzeContext(ctx, p, hull.Options{MaxCoeff: f.maxCoeff})
 		if err != nil {
 			return opt, err
 		}
@@ -519,7 +520,7 @@ func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) erro
 	} else if len(f.theta) == 0 && f.period == 0 {
 		return errors.New("--eigenvalues needs the angle(s) to label with: give --theta, --period or --pattern FILE")
 	}
-	opt, err := f.labelOptions(p, design.Spec{}, rep)
+	opt, err := f.labelOptions(cmd.Context(), p, design.Spec{}, rep)
 	if err != nil {
 		return err
 	}
