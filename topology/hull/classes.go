@@ -12,7 +12,8 @@ import (
 // rule in the decision list (see rules in decide.go).
 type ClassInfo struct {
 	Class Class
-	// Summary says what the class means, in a phrase.
+	// Summary says what the class means, in a phrase short enough for one
+	// line of a help text.
 	Summary string
 	// Betti gives the Betti numbers (b0, b1, b2) the class reports.
 	Betti string
@@ -36,7 +37,7 @@ type ClassInfo struct {
 // classTable is the class table, in the order the classes are listed.
 var classTable = []ClassInfo{
 	{
-		Class: Point, Summary: "periodic, one site per period (all spacings equal up to noise)",
+		Class: Point, Summary: "periodic, one site per period",
 		Betti: "(1, 0, 0)", Generators: "1: no label inside the spectrum",
 		betti: func(int) []int { return []int{1, 0, 0} },
 	},
@@ -61,13 +62,13 @@ var classTable = []ClassInfo{
 		labels: angleLabels,
 	},
 	{
-		Class: Cantor, Summary: "a tiling of a few tile lengths with an aperiodic word of low complexity (Sturmian, substitution): the hull is a Cantor set",
+		Class: Cantor, Summary: "tiles whose aperiodic word has low complexity: a Cantor set",
 		Betti: "none (read from the tile word, not the barcodes)", Generators: "1 and the factor frequencies of the word",
 		betti:  noBetti,
 		labels: wordLabels,
 	},
 	{
-		Class: Disordered, Summary: "no low-dimensional hull at the resolution of the data (independent spacings, a random tiling)",
+		Class: Disordered, Summary: "no low-dimensional hull at the resolution of the data",
 		Betti: "none", Generators: "1: no label",
 		betti: noBetti,
 	},
