@@ -193,10 +193,14 @@ type analysis struct {
 	siteWarnings []string  // what siteSteps found, reported unless the tiling route decides
 	u            []float64 // dimensionless spacings
 	em           *embed.Result
-	pool         [][]float64      // the vectors the topology works on (see poolSize)
-	cloud        *cloud           // the delay cloud as the barcode rule read it
-	reading      *reading         // what its barcodes said; nil when no rule read them
-	module       *topology.Module // the group of factor frequencies of an aperiodic tiling
+	pool         [][]float64 // the vectors the topology works on (see poolSize)
+	cloud        *cloud      // the delay cloud as the barcode rule read it
+	reading      *reading    // what its barcodes said; nil when no rule read them
+	// undecided is the unresolved verdict of a rule that read the chain
+	// and named no class (the tiling's, the barcodes'): the rules after it
+	// for chains without a hull model may still decide, else it stands.
+	undecided *verdict
+	module    *topology.Module // the group of factor frequencies of an aperiodic tiling
 }
 
 func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error) {

@@ -30,7 +30,8 @@ var rules = []rule{
 	// spacings that vary independently, disordered).
 	(*analysis).periodRule,
 	// A tiling of a few tile lengths, read through its word: finite,
-	// cantor, disordered, or unresolved when the word is too short.
+	// cantor, disordered; a word too short to tell leaves it undecided,
+	// and the delay-cloud rules after it do not run.
 	(*analysis).tilingRule,
 	// From here on the class rests on the delay cloud; this rule decides
 	// nothing and only reports what the cloud was built around.
@@ -38,15 +39,16 @@ var rules = []rule{
 	// No direction above the noise floor: point (or disordered).
 	(*analysis).noiseOnlyRule,
 	// Barcodes of the cloud: the class whose Betti numbers they show
-	// (circle, torus).
+	// (circle, torus); otherwise undecided.
 	(*analysis).barcodeRule,
-	// The barcodes named no class; a lattice shaken beyond the noise
-	// tolerance: point.
+	// Undecided so far; a lattice shaken beyond the noise tolerance:
+	// point.
 	(*analysis).shakenLatticeRule,
 	// Spacings that carry no information about their neighbours, filling
 	// every direction of the window: disordered.
 	(*analysis).disorderRule,
-	// Nothing decided: unresolved, with what would decide.
+	// Nothing decided: the undecided verdict, unresolved, with what would
+	// decide.
 	(*analysis).unresolvedRule,
 }
 
@@ -98,6 +100,9 @@ func (a *analysis) periodRule(context.Context) (*verdict, error) {
 // cloudWarnings reports what the delay cloud was built around: the sites
 // left out and a window that did not settle. It decides nothing.
 func (a *analysis) cloudWarnings(context.Context) (*verdict, error) {
+	if a.undecided != nil {
+		return nil, nil
+	}
 	a.res.Warnings = append(a.res.Warnings, a.siteWarnings...)
 	if c := a.em.Choice; c != nil && !c.Settled {
 		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the delay window did not settle up to %d: the spacings keep filling new directions, as independent random spacings do", c.Cap))
@@ -107,7 +112,7 @@ func (a *analysis) cloudWarnings(context.Context) (*verdict, error) {
 
 // noiseOnlyRule: a cloud with no direction above the noise floor.
 func (a *analysis) noiseOnlyRule(context.Context) (*verdict, error) {
-	if a.em.Whitened.Kept != 0 {
+	if a.undecided != nil || a.em.Whitened.Kept != 0 {
 		return nil, nil
 	}
 	if classifyNoise(a.cleanSpacings()) == independentSpacings {
@@ -118,9 +123,12 @@ func (a *analysis) noiseOnlyRule(context.Context) (*verdict, error) {
 }
 
 // barcodeRule reads the barcodes of the delay cloud (see readBarcodes) and
-// proposes the class whose Betti numbers they show, if any. The reading is
-// kept for the rules after it.
+// proposes the class whose Betti numbers they show, if any; otherwise the
+// chain is undecided with the Betti numbers read.
 func (a *analysis) barcodeRule(ctx context.Context) (*verdict, error) {
+	if a.undecided != nil {
+		return nil, nil
+	}
 	c := &cloud{points: a.pool, landmarkIdx: a.em.Landmarks, landmarks: a.em.LandmarkCloud, cover: a.em.CoverRadius, components: a.em.Whitened.Kept}
 	r, err := readBarcodes(ctx, c, a.opt)
 	if err != nil {
@@ -142,18 +150,23 @@ func (a *analysis) barcodeRule(ctx context.Context) (*verdict, error) {
 	if r.confidence < 1 {
 		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the Betti numbers changed across landmark subsamples (%v): the class is uncertain; more sites or less noise would settle it", r.persistence.Subsamples))
 	}
+	if v == nil {
+		a.undecided = &verdict{class: Unresolved, betti: r.betti[:], confidence: r.confidence, band: r.band, reason: unresolvedReason(r.betti)}
+	}
 	return v, nil
 }
 
-// shakenLatticeRule: after barcodes that named no class, a uniform lattice
-// with position noise beyond the embedding's tolerance is a point hull.
-// The scale band of the barcodes read on the way is kept.
+// shakenLatticeRule: a chain left undecided whose spacings are those of a
+// uniform lattice with position noise beyond the embedding's tolerance is
+// a point hull; its scatter about the lattice is the disorder figure. The
+// scale band of barcodes read on the way is kept.
 func (a *analysis) shakenLatticeRule(context.Context) (*verdict, error) {
 	u := a.cleanSpacings()
 	if classifyNoise(u) != jitteredLattice || !a.latticeFits(u) {
 		return nil, nil
 	}
-	return &verdict{class: Point, period: 1, confidence: 1, band: a.reading.band,
+	a.periodicResiduals()
+	return &verdict{class: Point, period: 1, confidence: 1, band: a.undecided.band,
 		reason: "the spacings are those of a uniform lattice with independent position noise (autocorrelation −1/2 at lag 1, none beyond): a periodic chain with one site per period, shaken"}, nil
 }
 
@@ -172,16 +185,14 @@ func (a *analysis) disorderRule(context.Context) (*verdict, error) {
 	if c == nil || c.Settled || a.em.Whitened.Kept != a.em.Window || mi >= independentMI {
 		return nil, nil
 	}
-	r := a.reading
-	return &verdict{class: Disordered, confidence: r.confidence, band: r.band,
+	u := a.undecided
+	return &verdict{class: Disordered, confidence: u.confidence, band: u.band,
 		reason: fmt.Sprintf("consecutive spacings share almost no information (%.3f nats) and the delay vectors fill every direction of the window (dimension %.1f of %d): no low-dimensional hull at the resolution of the data", mi, dim, a.em.Window)}, nil
 }
 
-// unresolvedRule closes the list: the barcodes' Betti numbers, and what
-// would decide.
+// unresolvedRule closes the list: the undecided verdict stands.
 func (a *analysis) unresolvedRule(context.Context) (*verdict, error) {
-	r := a.reading
-	return &verdict{class: Unresolved, betti: r.betti[:], confidence: r.confidence, band: r.band, reason: unresolvedReason(r.betti)}, nil
+	return a.undecided, nil
 }
 
 // independent is the verdict on independent spacings that are nearly

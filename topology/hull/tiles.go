@@ -44,7 +44,8 @@ type TileReport struct {
 // tilingRule reads the chain as a tiling when it is one, and proposes its
 // class from the word: periodic words are finite hulls, Sturmian and other
 // aperiodic words of low complexity Cantor hulls, positive-entropy words
-// disordered, words too short to tell unresolved. A tiling is read through
+// disordered. A word too short to tell leaves the chain undecided (see
+// analysis.undecided) and the delay cloud unread. A tiling is read through
 // its word, which accounts for missing sites itself.
 //
 // For a Sturmian word the angle is the frequency of one letter (Bellissard,
@@ -110,7 +111,9 @@ func (a *analysis) tilingRule(context.Context) (*verdict, error) {
 		v = &verdict{class: Disordered, confidence: 1,
 			reason: fmt.Sprintf("a tiling of %d tile lengths whose word has positive entropy (complexity grows by at least %.2f nats per letter): a random tiling, with no low-dimensional hull", len(t.Lengths), ws.Growth)}
 	default:
-		v = &verdict{class: Unresolved, confidence: 0,
+		// Too short to tell: the rules for chains without a hull model
+		// (a shaken lattice, independent spacings) still apply.
+		a.undecided = &verdict{class: Unresolved, confidence: 0,
 			reason: fmt.Sprintf("a tiling of %d tile lengths, but the word is too short to tell its order (complexity examined up to n = %d); more sites would decide", len(t.Lengths), ws.Examined)}
 	}
 	a.tileResiduals(t, word)
