@@ -1,5 +1,10 @@
-// Package topology reads the shape of a hull off its landmark cloud:
-// Vietoris–Rips persistent homology written here, the classification of the
-// hull from its barcodes, circular coordinates, the effective step angle and
-// the gap-label group it implies.
+// Package topology holds the measurements the hull analysis makes on a
+// hull once its shape is known: circular coordinates from a persistent H1
+// cocycle, rotation numbers and their least-squares refinement on the site
+// positions, the gap labels an angle or a period implies, frequency modules
+// and integer relations among measured frequencies.
+//
+// The persistence engine is package topology/rips; the analysis that ties
+// the pipeline together and names the class of a hull is package
+// topology/hull.
 package topology

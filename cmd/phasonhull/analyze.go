@@ -32,10 +32,8 @@ func newAnalyzeCmd() *cobra.Command {
 readers take) and reports its hull — the space of its local configurations —
 with the effective step angle of the shift on it and the gap labels it allows.
 
-Classes: point (periodic, one site per period), finite (periodic with p sites
-per period), circle (one incommensurate angle), torus (two), unresolved (the
-data cannot decide; the reason says what would).
-
+Classes:
+` + classList() + `
 The angle is the rotation number of the shift on the recovered hull, in turns,
 folded into [0, 1/2]; it is measured from circular coordinates and refined by
 a least-squares fit of the positions, with a one-sigma uncertainty. Gap labels
@@ -71,6 +69,16 @@ README).`,
 	return cmd
 }
 
+// classList lists the hull classes for the help text, one a line, from
+// the analysis's class table.
+func classList() string {
+	var b strings.Builder
+	for _, c := range hull.Classes() {
+		fmt.Fprintf(&b, "  %-11s %s\n", c.Class, c.Summary)
+	}
+	return b.String()
+}
+
 func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	p, err := f.in.load(path, cmd.InOrStdin())
 	if err != nil {
@@ -85,7 +93,7 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 			return fmt.Errorf("--memory: %w", err)
 		}
 	}
-	res, err := hull.Analyze(p, opt)
+	res, err := hull.AnalyzeContext(cmd.Context(), p, opt)
 	if err != nil {
 		return err
 	}

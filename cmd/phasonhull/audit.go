@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -179,7 +180,7 @@ func (f *auditFlags) options() (audit.Options, error) {
 
 // loadDesign reads the design of --design and analyses its hull; nil
 // without --design.
-func (f *auditFlags) loadDesign(opt hull.Options) (*audit.Design, error) {
+func (f *auditFlags) loadDesign(ctx context.Context, opt hull.Options) (*audit.Design, error) {
 	if f.designPath == "" {
 		return nil, nil
 	}
@@ -187,7 +188,7 @@ func (f *auditFlags) loadDesign(opt hull.Options) (*audit.Design, error) {
 	if err != nil {
 		return nil, fmt.Errorf("design: %w", err)
 	}
-	return audit.NewDesign(file, opt), nil
+	return audit.NewDesign(ctx, file, opt), nil
 }
 
 func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
@@ -204,11 +205,11 @@ func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
 	if err != nil {
 		return err
 	}
-	d, err := f.audit.loadDesign(opt.Hull)
+	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
 	if err != nil {
 		return err
 	}
-	rep, err := audit.Run(d, p, opt)
+	rep, err := audit.Run(cmd.Context(), d, p, opt)
 	if err != nil {
 		return err
 	}

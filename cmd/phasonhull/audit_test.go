@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -58,7 +59,7 @@ func TestAuditFlagsReachTheLibrary(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	rep, err := audit.Run(audit.NewDesign(f, ho), p, audit.Options{AllowMissing: 50, AllowExtra: 3, Tolerance: pattern.Length{Value: 3, Unit: "nm"},
+	rep, err := audit.Run(context.Background(), audit.NewDesign(context.Background(), f, ho), p, audit.Options{AllowMissing: 50, AllowExtra: 3, Tolerance: pattern.Length{Value: 3, Unit: "nm"},
 		Drift: true, Direction: register.Forward, Gate: 0.3, Hull: ho})
 	if err != nil {
 		t.Fatal(err)

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -141,7 +142,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	}
 	jobs = min(jobs, len(files))
 	// The design is analysed once, with every core.
-	d, err := f.audit.loadDesign(opt.Hull)
+	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
 	if err != nil {
 		return err
 	}
@@ -156,7 +157,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				rows[i] = batchOne(files[i], &f.in, d, opt)
+				rows[i] = batchOne(cmd.Context(), files[i], &f.in, d, opt)
 			}
 		}()
 	}
@@ -256,7 +257,7 @@ func batchFiles(args, skip []string) ([]string, error) {
 
 // batchOne analyses or audits one file. A panic is caught and reported in
 // the row as a bug, so that one file cannot stop the batch.
-func batchOne(path string, in *inputFlags, d *audit.Design, opt audit.Options) (row batchRow) {
+func batchOne(ctx context.Context, path string, in *inputFlags, d *audit.Design, opt audit.Options) (row batchRow) {
 	row = batchRow{File: path, Angles: []float64{}, Uncertainty: []float64{}, Reasons: []string{}}
 	defer func() {
 		if r := recover(); r != nil {
@@ -271,12 +272,12 @@ func batchOne(path string, in *inputFlags, d *audit.Design, opt audit.Options) (
 	row.Sites, row.Unit = p.Len(), p.Unit
 	var res *hull.Result
 	if d == nil {
-		if res, err = hull.Analyze(p, opt.Hull); err != nil {
+		if res, err = hull.AnalyzeContext(ctx, p, opt.Hull); err != nil {
 			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
 			return row
 		}
 	} else {
-		rep, err := audit.Run(d, p, opt)
+		rep, err := audit.Run(ctx, d, p, opt)
 		if err != nil {
 			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
 			return row

@@ -185,7 +185,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	d, err := f.audit.loadDesign(opt.Hull)
+	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
 	if err != nil {
 		return err
 	}
@@ -194,11 +194,11 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	var page report.Page
 	var res *hull.Result
 	if d == nil {
-		if res, err = hull.Analyze(p, opt.Hull); err != nil {
+		if res, err = hull.AnalyzeContext(cmd.Context(), p, opt.Hull); err != nil {
 			return err
 		}
 	} else {
-		rep, err := audit.Run(d, p, opt)
+		rep, err := audit.Run(cmd.Context(), d, p, opt)
 		if err != nil {
 			return err
 		}

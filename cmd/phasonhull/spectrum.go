@@ -2,6 +2,7 @@ package main
 
 import (
 	"bufio"
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -246,7 +247,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		return err
 	}
 	rep.Operator = info
-	opt, err := f.labelOptions(p, spec, rep)
+	opt, err := f.labelOptions(cmd.Context(), p, spec, rep)
 	if err != nil {
 		return err
 	}
@@ -429,7 +430,7 @@ func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spe
 // labelOptions builds the options of the gap analysis: the flags, and the
 // labels spectrum.ChooseLabels picks from --theta, --period, the design
 // (spec, when f.design is set) and the pattern p.
-func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
+func (f *spectrumFlags) labelOptions(ctx context.Context, p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
 	opt := spectrum.Options{MinGap: f.minGap, MaxCoeff: f.maxCoeff}
 	if opt.MinGap == 0 && p != nil {
 		// Not narrower than 4 mean level spacings of this chain, so that
@@ -447,7 +448,7 @@ func (f *spectrumFlags) labelOptions(p *pattern.Pattern, spec design.Spec, rep *
 	if f.design != "" {
 		src.Design = &spec
 	}
-	l, err := spectrum.ChooseLabels(src)
+	l, err := spectrum.ChooseLabels(ctx, src)
 	if err != nil {
 		return opt, err
 	}
@@ -492,7 +493,7 @@ func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) erro
 	} else if len(f.theta) == 0 && f.period == 0 {
 		return errors.New("--eigenvalues needs the angle(s) to label with: give --theta, --period or --pattern FILE")
 	}
-	opt, err := f.labelOptions(p, design.Spec{}, rep)
+	opt, err := f.labelOptions(cmd.Context(), p, design.Spec{}, rep)
 	if err != nil {
 		return err
 	}

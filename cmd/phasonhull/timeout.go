@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -11,10 +12,11 @@ import (
 )
 
 // bindTimeout gives root the persistent flag --timeout and makes every
-// command honour it: with a positive limit, the command runs in a
-// goroutine of its own, and when the limit passes first the run ends with
-// a refusal (exit status 2) while the command's later output is dropped.
-// The binary exits right after, which ends the abandoned goroutine.
+// command honour it: with a positive limit, the command runs under a
+// context with that deadline, which the long computations check (the hull
+// analysis, the persistence engine). When the limit passes, the command's
+// output is closed, so no partial report follows, and the run ends with a
+// refusal (exit status 2) as soon as the command returns.
 func bindTimeout(root *cobra.Command) {
 	var limit time.Duration
 	root.PersistentFlags().DurationVar(&limit, "timeout", 0,
@@ -39,44 +41,40 @@ func bindTimeout(root *cobra.Command) {
 	wrap(root)
 }
 
-// bounded runs f, which writes through cmd, for at most limit. A panic in
-// f is raised again on the caller's goroutine, so that the guard of run
-// reports it.
+// bounded runs f, which writes through cmd and computes under
+// cmd.Context(), with a deadline limit from now. At the deadline the
+// outputs are closed; once f returns, a run whose outputs were closed is
+// refused whatever f returned. A panic in f goes up to the guard of run.
 func bounded(cmd *cobra.Command, limit time.Duration, f func() error) error {
+	parent := cmd.Context()
+	if parent == nil {
+		parent = context.Background()
+	}
+	ctx, cancel := context.WithTimeout(parent, limit)
+	defer cancel()
+	cmd.SetContext(ctx)
 	out, errw := &gate{w: cmd.OutOrStdout()}, &gate{w: cmd.ErrOrStderr()}
 	cmd.SetOut(out)
 	cmd.SetErr(errw)
-	done := make(chan error, 1)
-	panics := make(chan any, 1)
-	go func() {
-		defer func() {
-			if r := recover(); r != nil {
-				panics <- r
-			}
-		}()
-		done <- f()
-	}()
-	timer := time.NewTimer(limit)
-	defer timer.Stop()
-	select {
-	case err := <-done:
-		return err
-	case r := <-panics:
-		panic(r)
-	case <-timer.C:
-		// Close the gates first: nothing the command writes from now on
-		// reaches the user, so no partial report follows the refusal.
+	// Close the gates at the deadline: nothing the command writes from
+	// then on reaches the user.
+	stop := context.AfterFunc(ctx, func() {
 		out.close()
 		errw.close()
+	})
+	err := f()
+	if !stop() {
+		// The deadline passed and the gates closed.
 		return fmt.Errorf("stopped after --timeout %v: the run took longer; give a larger --timeout or a shorter input", limit)
 	}
+	return err
 }
 
 // errTimedOut is returned to a command that writes after its time is up.
 var errTimedOut = errors.New("the run was stopped by --timeout")
 
-// gate is a writer that can be closed from another goroutine: after close,
-// writes are dropped with errTimedOut.
+// gate is a writer that can be closed from another goroutine (the
+// deadline's): after close, writes are dropped with errTimedOut.
 type gate struct {
 	mu     sync.Mutex
 	w      io.Writer

@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -64,13 +65,13 @@ type Design struct {
 }
 
 // NewDesign analyses the hull of the design read into f.
-func NewDesign(f *design.File, opt hull.Options) *Design {
+func NewDesign(ctx context.Context, f *design.File, opt hull.Options) *Design {
 	d := &Design{File: f}
 	if f.Spec != nil {
 		ref := hull.SpecReference(*f.Spec)
 		d.Reference = &ref
 	}
-	d.Hull, d.HullErr = hull.Analyze(f.Pattern, opt)
+	d.Hull, d.HullErr = hull.AnalyzeContext(ctx, f.Pattern, opt)
 	return d
 }
 
@@ -201,7 +202,7 @@ func (r *Report) ExtraAt() []float64 {
 // the sample's own hull. Its errors are the caller's to fix (options, or a
 // design and sample whose units cannot be compared); a sample that fails
 // is a Report with the verdict Fail and its reasons.
-func Run(d *Design, sample *pattern.Pattern, opt Options) (*Report, error) {
+func Run(ctx context.Context, d *Design, sample *pattern.Pattern, opt Options) (*Report, error) {
 	if err := opt.Validate(); err != nil {
 		return nil, err
 	}
@@ -222,7 +223,7 @@ func Run(d *Design, sample *pattern.Pattern, opt Options) (*Report, error) {
 		}
 		a.tol, rep.Tolerance = tol, &tol
 	}
-	rep.Hull.Measured, a.measuredErr = hull.Analyze(sample, opt.Hull)
+	rep.Hull.Measured, a.measuredErr = hull.AnalyzeContext(ctx, sample, opt.Hull)
 	if d == nil {
 		a.screenOwnHull(sample)
 	} else if err := a.registerOnDesign(sample); err != nil {

@@ -2,6 +2,7 @@ package audit_test
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"math"
 	"math/rand/v2"
@@ -33,7 +34,7 @@ func readDesign(t *testing.T, name string) *audit.Design {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return audit.NewDesign(f, hull.Options{})
+	return audit.NewDesign(context.Background(), f, hull.Options{})
 }
 
 // readSample reads a shipped sample.
@@ -49,7 +50,7 @@ func readSample(t *testing.T, name string) *pattern.Pattern {
 // run audits and fails the test on an error.
 func run(t *testing.T, d *audit.Design, p *pattern.Pattern, opt audit.Options) *audit.Report {
 	t.Helper()
-	rep, err := audit.Run(d, p, opt)
+	rep, err := audit.Run(context.Background(), d, p, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -340,7 +341,7 @@ func TestRunRefuses(t *testing.T) {
 		"tolerance unit":    {p, audit.Options{Tolerance: length(t, "0.02deg")}},
 		"tolerance no unit": {noUnit, audit.Options{Tolerance: length(t, "3nm")}},
 	} {
-		if rep, err := audit.Run(nil, c.p, c.opt); err == nil {
+		if rep, err := audit.Run(context.Background(), nil, c.p, c.opt); err == nil {
 			t.Errorf("%s: no error, verdict %v", name, rep.Verdict)
 		}
 	}

@@ -1,6 +1,7 @@
 package audit_test
 
 import (
+	"context"
 	"fmt"
 	"log"
 
@@ -19,12 +20,12 @@ func ExampleRun() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	d := audit.NewDesign(f, hull.Options{})
+	d := audit.NewDesign(context.Background(), f, hull.Options{})
 	sample, err := pattern.ReadFile("../../testdata/demo/lw0412_cmm.csv", pattern.ReadOptions{})
 	if err != nil {
 		log.Fatal(err)
 	}
-	rep, err := audit.Run(d, sample, audit.Options{})
+	rep, err := audit.Run(context.Background(), d, sample, audit.Options{})
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -33,7 +34,7 @@ func ExampleRun() {
 	fmt.Printf("offset %.2f %s, scale %+.1f ppm\n", *rep.Offset, rep.Unit, (*rep.Scale-1)*1e6)
 	fmt.Println("hulls agree:", rep.Hull.Comparison.Agree)
 
-	rep, err = audit.Run(d, sample, audit.Options{AllowMissing: 1})
+	rep, err = audit.Run(context.Background(), d, sample, audit.Options{AllowMissing: 1})
 	if err != nil {
 		log.Fatal(err)
 	}

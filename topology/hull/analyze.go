@@ -1,6 +1,7 @@
 package hull
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -9,7 +10,6 @@ import (
 	"phasonhull/embed"
 	"phasonhull/pattern"
 	"phasonhull/topology"
-	"phasonhull/topology/rips"
 )
 
 // Defaults of Options.
@@ -94,7 +94,16 @@ func (o Options) withDefaults() (Options, error) {
 	return o, nil
 }
 
-// Analyze runs the hull analysis of a pattern.
+// Analyze runs the hull analysis of a pattern: AnalyzeContext without a
+// deadline.
+func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
+	return AnalyzeContext(context.Background(), p, opt)
+}
+
+// AnalyzeContext runs the hull analysis of a pattern. It stops with an
+// error wrapping ctx.Err() once ctx is done: the analysis checks it
+// between its steps, between landmark subsamples and inside the
+// persistence computation.
 //
 // The steps, each reported in the Result:
 //
@@ -104,19 +113,27 @@ func (o Options) withDefaults() (Options, error) {
 //     site indices skip over the missing sites.
 //  2. The spacings are embedded (package embed): the window, the whitened
 //     cloud, its noise level.
-//  3. An exact periodicity test on the spacings (see spacingPeriod) decides
-//     the point and finite classes: their hull is a set of p points.
-//  4. Otherwise Vietoris–Rips barcodes of the landmarks give Betti numbers
-//     by the significance rule (see readBetti), repeated on Subsamples
-//     landmark sets; (1,1,0) is a circle, (1,2,1) a torus, anything else
-//     unresolved.
-//  5. For a circle or torus, circular coordinates from the most persistent
+//  3. The class is decided by an ordered list of rules, the first that
+//     proposes a class deciding (see rules): an exact period of the
+//     spacings (point, finite); a tiling of a few tile lengths read
+//     through its word (finite, cantor, disordered); a cloud with no
+//     direction above the noise (point); Vietoris–Rips barcodes of the
+//     landmarks of the delay cloud, read by the significance rule on
+//     Subsamples landmark sets, naming the class whose Betti numbers they
+//     show ((1,1,0) a circle, (1,2,1) a torus); a shaken lattice (point);
+//     independent spacings filling the window (disordered); otherwise
+//     unresolved, with what would decide. Classes lists every class.
+//  4. For a circle or torus, circular coordinates from the most persistent
 //     H1 cocycles give the rotation number(s) of the shift, refined by a
-//     least-squares fit of the site positions (see measureAngles).
-//  6. The gap labels follow from the angles.
-func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
+//     least-squares fit of the site positions (see measureAngles); every
+//     hull with a model gets the scatter of the sites about it.
+//  5. The gap labels follow from the class and the angles.
+func AnalyzeContext(ctx context.Context, p *pattern.Pattern, opt Options) (*Result, error) {
 	opt, err := opt.withDefaults()
 	if err != nil {
+		return nil, fmt.Errorf("hull analysis: %w", err)
+	}
+	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("hull analysis: %w", err)
 	}
 	res := &Result{
@@ -129,24 +146,39 @@ func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, fmt.Errorf("hull analysis: %w", err)
 	}
-	if err := a.classify(); err != nil {
+	if err := a.decide(ctx); err != nil {
 		return nil, fmt.Errorf("hull analysis: %w", err)
 	}
-	if err := a.measureAngles(); err != nil {
+	if err := a.model(ctx); err != nil {
 		return nil, fmt.Errorf("hull analysis: %w", err)
-	}
-	a.decideDisorder()
-	if res.Disorder != nil && res.Tiles == nil && (res.Hull.Class == Circle || res.Hull.Class == Torus) {
-		if mi, dim, ok := a.disorderFigures(); ok {
-			res.Disorder.MutualInformation, res.Disorder.IntrinsicDimension = mi, dim
-		}
 	}
 	a.labels()
 	res.Trace.Cloud, res.Trace.Rows, res.Trace.Landmarks = a.pool, a.em.Rows[:len(a.pool)], a.em.Landmarks
-	if a.diagram != nil {
-		res.Trace.Bars = a.diagram.Bars
+	if a.reading != nil {
+		res.Trace.Bars = a.reading.diagram.Bars
 	}
 	return res, nil
+}
+
+// model measures what the decided class has a model for: the angles of a
+// circle or torus, the scatter of the sites about a periodic cell; and,
+// for a hull with angles read from the delay cloud, the disorder figures.
+func (a *analysis) model(ctx context.Context) error {
+	ci := info(a.res.Hull.Class)
+	switch {
+	case ci.angles > 0:
+		if err := a.measureAngles(ctx, ci.angles); err != nil {
+			return err
+		}
+		if a.res.Disorder != nil && a.res.Tiles == nil {
+			if mi, dim, ok := a.disorderFigures(); ok {
+				a.res.Disorder.MutualInformation, a.res.Disorder.IntrinsicDimension = mi, dim
+			}
+		}
+	case a.res.Hull.Period > 0 && a.res.Disorder == nil:
+		a.periodicResiduals()
+	}
+	return nil
 }
 
 // analysis carries the state shared by the steps of Analyze.
@@ -161,10 +193,14 @@ type analysis struct {
 	siteWarnings []string  // what siteSteps found, reported unless the tiling route decides
 	u            []float64 // dimensionless spacings
 	em           *embed.Result
-	pool         [][]float64      // the vectors the topology works on (see poolSize)
-	diagram      *rips.Diagram    // barcodes of the main landmark set
-	landmarks    [][]float64      // the landmarks behind diagram
-	module       *topology.Module // the group of factor frequencies of an aperiodic tiling
+	pool         [][]float64 // the vectors the topology works on (see poolSize)
+	cloud        *cloud      // the delay cloud as the barcode rule read it
+	reading      *reading    // what its barcodes said; nil when no rule read them
+	// undecided is the unresolved verdict of a rule that read the chain
+	// and named no class (the tiling's, the barcodes'): the rules after it
+	// for chains without a hull model may still decide, else it stands.
+	undecided *verdict
+	module    *topology.Module // the group of factor frequencies of an aperiodic tiling
 }
 
 func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error) {
@@ -332,41 +368,27 @@ func countTrue(v []bool) int {
 	return n
 }
 
-// labels fills in the gap-label group from the class and angles.
+// labels fills in the gap-label group from the class table.
 func (a *analysis) labels() {
 	g := &a.res.GapLabels
 	g.MaxCoeff = a.opt.MaxCoeff
 	g.Generators = []float64{1}
-	switch a.res.Hull.Class {
-	case Finite:
-		p := a.res.Hull.Period
-		g.Generators = append(g.Generators, 1/float64(p))
-		g.Labels = topology.PeriodicLabels(p)
-	case Circle, Torus:
-		g.Generators = append(g.Generators, a.res.Angles...)
-		g.Labels = topology.Labels(a.res.Angles, a.opt.MaxCoeff)
-	case Cantor:
-		switch m := a.module; {
-		case len(a.res.Angles) > 0:
-			g.Generators = append(g.Generators, a.res.Angles...)
-			g.Labels = topology.Labels(a.res.Angles, a.opt.MaxCoeff)
-		case m != nil && m.Rank == 1:
-			g.Generators = []float64{1, m.Basis[0]}
-			g.Labels = topology.PeriodicLabels(m.Denominator)
-		case m != nil:
-			gens := m.Basis[1:]
-			if m.Denominator > 1 {
-				gens = m.Basis
-			}
-			g.Generators = append(g.Generators, gens...)
-			if len(gens) <= maxLabelGenerators {
-				g.Labels = topology.Labels(gens, a.opt.MaxCoeff)
-			} else {
-				a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the factor frequencies show too few integer relations at the precision %d letters allow (rank %d): the gap-label group is not resolved and no labels are listed; more sites would resolve it", a.p.Len()-1, m.Rank))
-			}
-		}
+	if fill := info(a.res.Hull.Class).labels; fill != nil {
+		fill(a, g)
 	}
 	if g.Labels == nil {
 		g.Labels = []topology.Label{}
 	}
+}
+
+// cleanSpacings returns the dimensionless spacings with those across
+// missing or spurious sites dropped.
+func (a *analysis) cleanSpacings() []float64 {
+	out := make([]float64, 0, len(a.u))
+	for i, v := range a.u {
+		if a.clean[i] {
+			out = append(out, v)
+		}
+	}
+	return out
 }

@@ -1,13 +1,13 @@
 package hull
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
 	"slices"
 
 	"phasonhull/topology"
-	"phasonhull/topology/rips"
 )
 
 // measureAngles measures the effective step angle(s) of a circle or torus
@@ -28,32 +28,24 @@ import (
 // the maximum-likelihood estimate; its standard error is the reported
 // uncertainty. Where the fit cannot be made, the rough value stands, with
 // its own uncertainty.
-func (a *analysis) measureAngles() error {
-	k := 0
-	switch a.res.Hull.Class {
-	case Point, Finite:
-		if a.res.Disorder == nil {
-			a.periodicResiduals()
-		}
-		return nil
-	case Circle:
-		k = 1
-	case Torus:
-		k = 2
-	default:
-		return nil
-	}
-	cocycles, err := a.topCocycles(k)
+//
+// k is the number of angles: 1 for a circle, 2 for a torus.
+func (a *analysis) measureAngles(ctx context.Context, k int) error {
+	coords, err := a.reading.coordinates(a.cloud, k)
 	if err != nil {
 		return err
 	}
+	a.res.Trace.Coordinates = append(a.res.Trace.Coordinates, coords...)
 	rough := make([]float64, k)
 	roughErr := make([]float64, k)
-	for i, c := range cocycles {
+	for i, c := range coords {
 		rough[i], roughErr[i], err = a.roughAngle(c)
 		if err != nil {
 			return err
 		}
+	}
+	if err := ctx.Err(); err != nil {
+		return err
 	}
 	n, x := a.fitSites()
 	fit, h, err := bestFit(n[:min(len(n), poolSize)], x[:min(len(x), poolSize)], rough)
@@ -116,53 +108,11 @@ func (a *analysis) setAngles(f, e []float64) {
 	}
 }
 
-// topCocycles returns the cocycles of the k most persistent H1 bars.
-func (a *analysis) topCocycles(k int) ([]rips.Cocycle, error) {
-	dg := a.diagram
-	var h1 []int
-	for i, b := range dg.Bars {
-		if b.Dim == 1 {
-			h1 = append(h1, i)
-		}
-	}
-	slices.SortStableFunc(h1, func(i, j int) int { return rips.ComparePersistence(dg.Bars[i], dg.Bars[j]) })
-	if len(h1) < k {
-		return nil, fmt.Errorf("measuring angles: %d H1 bars, need %d", len(h1), k)
-	}
-	out := make([]rips.Cocycle, 0, k)
-	for _, bi := range h1[:k] {
-		found := false
-		for _, c := range dg.Cocycles {
-			if c.Bar == bi {
-				out = append(out, c)
-				found = true
-				break
-			}
-		}
-		if !found {
-			return nil, fmt.Errorf("measuring angles: no cocycle for H1 bar %d", bi)
-		}
-	}
-	return out, nil
-}
-
-// roughAngle returns the rotation number of the shift read off the circular
-// coordinate of cocycle c, and an uncertainty for it.
-func (a *analysis) roughAngle(c rips.Cocycle) (float64, float64, error) {
-	bar := a.diagram.Bars[c.Bar]
-	r, err := topology.DefaultScale(bar)
-	if err != nil {
-		return 0, 0, err
-	}
-	cm, err := topology.CircularCoordinates(a.landmarks, c, r)
-	if err != nil {
-		return 0, 0, err
-	}
-	coords, err := cm.Extend(a.pool)
-	if err != nil {
-		return 0, 0, err
-	}
-	a.res.Trace.Coordinates = append(a.res.Trace.Coordinates, coords)
+// roughAngle returns the rotation number of the shift read off a circular
+// coordinate of the delay vectors, and an uncertainty for it. The shift
+// moves a site's vector to the next site's, so the runs of consecutive
+// vectors carry the rotation.
+func (a *analysis) roughAngle(coords []float64) (float64, float64, error) {
 	// Runs of consecutive delay vectors (vectors across missing or
 	// spurious sites were left out of the cloud).
 	rows := a.em.Rows

@@ -1,7 +1,6 @@
 package hull
 
 import (
-	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/stat"
@@ -121,49 +120,6 @@ func (a *analysis) spacingSpread() {
 	}
 	rel := math.Sqrt(s / float64(len(u)))
 	a.res.Disorder = &Disorder{RMS: rel * a.res.MeanSpacing, Relative: rel, Model: "none: the spread of the spacings"}
-}
-
-// decideDisorder revisits an unresolved chain: a lattice with position
-// noise beyond the embedding's tolerance is a point hull; spacings that
-// carry no information about their neighbours, with delay vectors filling
-// every direction of the window, are disordered.
-func (a *analysis) decideDisorder() {
-	h := &a.res.Hull
-	if h.Class != Unresolved {
-		return
-	}
-	u := a.cleanSpacings()
-	if classifyNoise(u) == jitteredLattice && a.latticeFits(u) {
-		a.setPoint("the spacings are those of a uniform lattice with independent position noise (autocorrelation −1/2 at lag 1, none beyond): a periodic chain with one site per period, shaken")
-		return
-	}
-	a.spacingSpread()
-	mi, dim, ok := a.disorderFigures()
-	if !ok {
-		return
-	}
-	a.res.Disorder.MutualInformation, a.res.Disorder.IntrinsicDimension = mi, dim
-	c := a.em.Choice
-	if c != nil && !c.Settled && a.em.Whitened.Kept == a.em.Window && mi < independentMI {
-		h.Class, h.Betti = Disordered, []int{}
-		h.Reason = fmt.Sprintf("consecutive spacings share almost no information (%.3f nats) and the delay vectors fill every direction of the window (dimension %.1f of %d): no low-dimensional hull at the resolution of the data", mi, dim, a.em.Window)
-	}
-}
-
-// setPoint names a point hull.
-func (a *analysis) setPoint(reason string) {
-	h := &a.res.Hull
-	h.Class, h.Period, h.Betti, h.Confidence, h.Reason = Point, 1, []int{1, 0, 0}, 1, reason
-	a.periodicResiduals()
-}
-
-// setIndependent names the hull of independent spacings that are nearly
-// equal: small enough to pass for noise, but with no trace of a lattice.
-func (a *analysis) setIndependent() {
-	h := &a.res.Hull
-	h.Class, h.Betti, h.Confidence = Disordered, []int{}, 1
-	h.Reason = "the spacings vary independently of one another (no autocorrelation at any lag): the positions wander from any lattice like a random walk, so there is no hull at all; the spread of the spacings is the disorder"
-	a.spacingSpread()
 }
 
 // latticeFits checks a jittered lattice against the positions: on a

@@ -114,3 +114,45 @@ func resolvedCell(u []float64, p int) bool {
 	}
 	return sep >= sepFactor*scatter
 }
+
+// indexedSpacings returns the dimensionless spacings by site index (see
+// spacingPeriod): u[k] is the clean spacing from the site of index k, NaN
+// where none is known.
+func (a *analysis) indexedSpacings() []float64 {
+	last := a.index[len(a.index)-1]
+	u := make([]float64, last)
+	for k := range u {
+		u[k] = math.NaN()
+	}
+	for i, c := range a.clean {
+		if c {
+			u[a.index[i]] = a.u[i]
+		}
+	}
+	return u
+}
+
+// cellFitFactor bounds the scatter of the sites about a fitted periodic
+// cell, in units of the position noise the embedding measured.
+const cellFitFactor = 2
+
+// cellFits checks a period found on the spacings against the positions:
+// the sites must lie on the lattice with a periodic cell of p sites within
+// cellFitFactor times the position noise σ = √(ν/2) mean spacings (plus a
+// rounding floor). Differences of spacings damp a slow modulation, by
+// (2 sin πθ)² for the first; the positions do not, and a modulation, or
+// independent spacings wandering like a random walk, shows there as a
+// scatter far above the noise.
+func (a *analysis) cellFits(p int, nu float64) bool {
+	n, x := a.fitSites()
+	r, ok := cellResiduals(n, x, p)
+	if !ok {
+		return true
+	}
+	var ss float64
+	for _, v := range r {
+		ss += v * v
+	}
+	rms := math.Sqrt(ss/float64(len(r))) / a.res.MeanSpacing
+	return rms <= cellFitFactor*math.Sqrt(nu/2)+1e-9
+}

@@ -1,6 +1,7 @@
 package rips
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"slices"
@@ -25,6 +26,7 @@ type engine struct {
 	cocycles bool
 	budget   int64
 	prog     *progress
+	ctx      context.Context // checked with the memory (see checkpoint)
 
 	bars  []Bar
 	cocs  []Cocycle
@@ -182,7 +184,7 @@ func (e *engine) reduce(dim int, cols []simplex) (*pivotTable, error) {
 		vOff[ci] = uint32(len(vEntries))
 		if ci&1023 == 0 {
 			e.prog.report("dimension %d: %d of %d columns", dim, ci, len(cols))
-			if err := e.checkMemory(dim, int64(len(cols))*16+int64(len(vOff))*4+pivots.bytes()+int64(cap(vEntries))*16+w.bytes()); err != nil {
+			if err := e.checkpoint(dim, int64(len(cols))*16+int64(len(vOff))*4+pivots.bytes()+int64(cap(vEntries))*16+w.bytes()); err != nil {
 				return nil, err
 			}
 		}
@@ -218,7 +220,7 @@ func (e *engine) reduce(dim int, cols []simplex) (*pivotTable, error) {
 			if steps%4096 == 0 {
 				// A single column can run long and grow large.
 				e.prog.report("dimension %d: column %d of %d, its chain holds %d simplices", dim, ci, len(cols), len(w.streams))
-				if err := e.checkMemory(dim, int64(len(cols))*16+int64(len(vOff))*4+pivots.bytes()+int64(cap(vEntries))*16+w.bytes()); err != nil {
+				if err := e.checkpoint(dim, int64(len(cols))*16+int64(len(vOff))*4+pivots.bytes()+int64(cap(vEntries))*16+w.bytes()); err != nil {
 					return nil, err
 				}
 			}
@@ -343,9 +345,12 @@ func (e *engine) cocycle(sigma simplex, chain []entry) {
 	e.cocs = append(e.cocs, c)
 }
 
-// checkMemory refuses to go on when the reduction holds more than the
-// budget.
-func (e *engine) checkMemory(dim int, held int64) error {
+// checkpoint refuses to go on when the computation's context is done or
+// the reduction holds more than the budget.
+func (e *engine) checkpoint(dim int, held int64) error {
+	if err := e.ctx.Err(); err != nil {
+		return fmt.Errorf("dimension %d: %w", dim, err)
+	}
 	if held+e.metricBytes() > e.budget {
 		return fmt.Errorf("dimension %d: the reduction needs more than the memory budget of %s: %w", dim, formatBytes(e.budget), ErrBudget)
 	}

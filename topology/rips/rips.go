@@ -1,6 +1,7 @@
 package rips
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -121,11 +122,22 @@ func (d *Diagram) Betti(maxDim int, t float64) []int {
 // Bars of zero persistence (born and killed at the same length) are left
 // out. Lengths are computed in float64 and reported exactly as computed.
 func VietorisRips(points [][]float64, opt Options) (*Diagram, error) {
+	return VietorisRipsContext(context.Background(), points, opt)
+}
+
+// VietorisRipsContext is VietorisRips under a context: the reduction checks
+// ctx every 1024 columns and every 4096 steps of a long column, and returns
+// an error wrapping ctx.Err() once ctx is done.
+func VietorisRipsContext(ctx context.Context, points [][]float64, opt Options) (*Diagram, error) {
 	start := time.Now()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	e, err := newEngine(points, opt, start)
 	if err != nil {
 		return nil, err
 	}
+	e.ctx = ctx
 	if err := e.run(); err != nil {
 		return nil, err
 	}
@@ -188,7 +200,7 @@ func newEngine(points [][]float64, opt Options, start time.Time) (*engine, error
 	e := &engine{
 		m: m, n: n, maxDim: opt.MaxDim, f: f, b: b,
 		workers: opt.Workers, cocycles: opt.Cocycles, budget: opt.MemoryBudget,
-		prog: newProgress(opt.Progress, start),
+		prog: newProgress(opt.Progress, start), ctx: context.Background(),
 	}
 	counts := make([]int64, 7*(opt.MaxDim+1))
 	for i, c := range []*[]int64{&e.stats.Simplices, &e.stats.Cleared, &e.stats.Apparent, &e.stats.Columns,
@@ -212,6 +224,9 @@ func (e *engine) run() error {
 		e.nb = newNeighbours(e.m)
 	}
 	for dim := 1; dim <= e.maxDim; dim++ {
+		if err := e.ctx.Err(); err != nil {
+			return fmt.Errorf("dimension %d: %w", dim, err)
+		}
 		pivots, err := e.reduce(dim, cols)
 		if err != nil {
 			return err

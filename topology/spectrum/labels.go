@@ -1,6 +1,7 @@
 package spectrum
 
 import (
+	"context"
 	"errors"
 	"fmt"
 
@@ -84,7 +85,7 @@ type Labelling struct {
 // by |m|·σ ≤ MaxCoeff·σ, σ the largest standard uncertainty of the angles
 // (an angle off by σ moves the label n + mθ by |m|·σ); N is the number of
 // sites of the pattern.
-func ChooseLabels(src LabelSources) (Labelling, error) {
+func ChooseLabels(ctx context.Context, src LabelSources) (Labelling, error) {
 	switch {
 	case len(src.Angles) > 0:
 		return Labelling{Source: GivenAngles, Angles: src.Angles}, nil
@@ -105,7 +106,7 @@ func ChooseLabels(src LabelSources) (Labelling, error) {
 	if mc == 0 {
 		mc = DefaultMaxCoeff
 	}
-	res, err := hull.Analyze(src.Pattern, hull.Options{MaxCoeff: mc})
+	res, err := hull.AnalyzeContext(ctx, src.Pattern, hull.Options{MaxCoeff: mc})
 	if err != nil {
 		return Labelling{}, fmt.Errorf("spectrum: labels from the hull analysis: %w", err)
 	}

@@ -1,6 +1,7 @@
 package spectrum
 
 import (
+	"context"
 	"math"
 	"slices"
 	"strings"
@@ -32,7 +33,7 @@ func TestChooseLabelsOrder(t *testing.T) {
 		{"design θ and θ2", LabelSources{Design: &two}, DesignAngles, []float64{0.4142, 0.732}, 0},
 		{"design cell", LabelSources{Design: &per}, DesignCell, nil, 3},
 	} {
-		l, err := ChooseLabels(c.src)
+		l, err := ChooseLabels(context.Background(), c.src)
 		if err != nil {
 			t.Fatalf("%s: %v", c.name, err)
 		}
@@ -40,7 +41,7 @@ func TestChooseLabelsOrder(t *testing.T) {
 			t.Errorf("%s: %+v, want source %q, angles %v, period %d and the default width", c.name, l, c.source, c.angles, c.period)
 		}
 	}
-	if _, err := ChooseLabels(LabelSources{}); err == nil {
+	if _, err := ChooseLabels(context.Background(), LabelSources{}); err == nil {
 		t.Error("no source at all: no error")
 	}
 }
@@ -55,7 +56,7 @@ func TestChooseLabelsFromHull(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	l, err := ChooseLabels(LabelSources{Design: &loop, Pattern: p, MaxCoeff: 4})
+	l, err := ChooseLabels(context.Background(), LabelSources{Design: &loop, Pattern: p, MaxCoeff: 4})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -74,7 +75,7 @@ func TestChooseLabelsFromHull(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	l, err = ChooseLabels(LabelSources{Pattern: lattice})
+	l, err = ChooseLabels(context.Background(), LabelSources{Pattern: lattice})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -319,7 +319,7 @@ func TestTorusPictures(t *testing.T) {
 		t.Fatal(err)
 	}
 	if r.Hull.Class != hull.Torus || len(r.Trace.Coordinates) != 2 {
-		t.Skipf("the analysis found %s with %d coordinates, not a torus", r.Hull.Class, len(r.Trace.Coordinates))
+		t.Fatalf("the analysis found %s %v with %d coordinates, want a torus with 2 (%s)", r.Hull.Class, r.Hull.Betti, len(r.Trace.Coordinates), r.Hull.Reason)
 	}
 	pj, err := Projections(r)
 	if err != nil {

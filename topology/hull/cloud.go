@@ -1,13 +1,41 @@
 package hull
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"slices"
 
 	"phasonhull/embed"
+	"phasonhull/topology"
 	"phasonhull/topology/rips"
 )
+
+// cloud is what the topology stage reads a hull from: points in a
+// Euclidean space, a landmark set on them, and what the significance rule
+// needs to know of their sampling. It knows nothing of chains: a pattern
+// along a line feeds it its whitened delay vectors (see newAnalysis), and
+// any other source of points on a hull can feed it the same way.
+//
+// The stage runs barcodes → significance → circular coordinates:
+// readBarcodes gives the Betti numbers with their confidence and scale
+// band, and reading.coordinates the circular coordinate of every point
+// for the most persistent loops.
+type cloud struct {
+	// points are the points the landmarks and the circular coordinates
+	// come from.
+	points [][]float64
+	// landmarkIdx indexes the main landmark set in points, landmarks holds
+	// those points, cover is their cover radius (the largest distance of
+	// a point to its nearest landmark).
+	landmarkIdx []int
+	landmarks   [][]float64
+	cover       float64
+	// components is the number of directions of the cloud above the noise
+	// floor: a cloud in four or more may be a torus, whose loops and
+	// 2-cycle need a denser cover than a circle's loop.
+	components int
+}
 
 // The significance rule for bars. A bar of the landmark barcode is
 // significant when its persistence exceeds
@@ -40,161 +68,124 @@ const (
 	torusLandmarks = 300
 )
 
-// classify decides the class of the hull.
-func (a *analysis) classify() error {
-	h := &a.res.Hull
-	w := a.em.Whitened
-	nu := a.res.Embedding.NoiseVariance
+// reading is what the barcodes of a cloud say, over its landmark
+// subsamples.
+type reading struct {
+	// betti are the Betti numbers of the main landmark set, confidence the
+	// fraction of subsamples that agree with them, band the scales over
+	// which they hold.
+	betti      [3]int
+	confidence float64
+	band       []float64
+	// persistence reports the main barcode and every subsample's numbers.
+	persistence Persistence
+	// diagram is the main barcode, with cocycles, and landmarks the points
+	// behind it.
+	diagram   *rips.Diagram
+	landmarks [][]float64
+}
 
-	// An exact period decides the point and finite classes outright.
-	maxP := min(a.opt.MaxPeriod, len(a.u)/3)
-	if pt := spacingPeriod(a.indexedSpacings(), nu, maxP); pt.Period > 0 && a.cellFits(pt.Period, nu) {
-		a.res.Warnings = append(a.res.Warnings, a.siteWarnings...)
-		h.Period = pt.Period
-		h.Betti = []int{pt.Period, 0, 0}
-		h.Confidence = 1
-		if pt.Period == 1 {
-			if classifyNoise(a.cleanSpacings()) == independentSpacings {
-				a.setIndependent()
-				return nil
-			}
-			h.Class = Point
-			h.Reason = "all spacings are equal up to the measured noise: a periodic chain with one site per period"
-		} else {
-			h.Class = Finite
-			h.Reason = fmt.Sprintf("the spacings repeat with period %d up to the measured noise (mean squared difference %.3g times its noise expectation)", pt.Period, pt.Ratio)
-		}
-		return nil
-	}
-	// A chain of a few tile lengths is read through its word, which
-	// accounts for missing sites itself.
-	if done, err := a.tiles(); err != nil || done {
-		return err
-	}
-	a.res.Warnings = append(a.res.Warnings, a.siteWarnings...)
-	if c := a.em.Choice; c != nil && !c.Settled {
-		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the delay window did not settle up to %d: the spacings keep filling new directions, as independent random spacings do", c.Cap))
-	}
-	if w.Kept == 0 {
-		if classifyNoise(a.cleanSpacings()) == independentSpacings {
-			a.setIndependent()
-			return nil
-		}
-		h.Class, h.Betti, h.Period, h.Confidence = Point, []int{1, 0, 0}, 1, 1
-		h.Reason = "the delay vectors show no direction above the noise floor: all windows of spacings agree up to noise"
-		return nil
-	}
-
-	// A trace in four or more directions may be a torus, whose loops and
-	// 2-cycle need a denser cover than a circle's loop.
-	if w.Kept >= 4 && a.opt.Landmarks < torusLandmarks && len(a.em.Landmarks) < len(a.pool) {
-		idx, c, err := embed.Landmarks(a.pool, torusLandmarks, a.opt.Seed)
+// readBarcodes computes the barcodes of c on opt.Subsamples landmark sets
+// (the main one first, then sets drawn with the seeds after opt.Seed) and
+// reads their Betti numbers by the significance rule. A cloud that may be
+// a torus has its main landmark set made denser first: c.landmarkIdx,
+// c.landmarks and c.cover are updated.
+func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) {
+	if c.components >= 4 && opt.Landmarks < torusLandmarks && len(c.landmarkIdx) < len(c.points) {
+		idx, cover, err := embed.Landmarks(c.points, torusLandmarks, opt.Seed)
 		if err != nil {
-			return err
+			return nil, err
 		}
-		a.em.Landmarks, a.em.LandmarkCloud, a.em.CoverRadius = idx, pick(a.pool, idx), c
-		a.res.Embedding.Landmarks, a.res.Embedding.CoverRadius = len(idx), c
+		c.landmarkIdx, c.landmarks, c.cover = idx, pick(c.points, idx), cover
 	}
-	nLandmarks := max(a.opt.Landmarks, len(a.em.Landmarks))
+	nLandmarks := max(opt.Landmarks, len(c.landmarkIdx))
 
-	// Barcodes on Subsamples landmark sets; the first is the main one.
+	r := &reading{}
 	var main bettiReading
 	votes := map[[3]int]int{}
-	for s := range a.opt.Subsamples {
-		lm, cover := a.em.LandmarkCloud, a.em.CoverRadius
-		if s > 0 {
-			idx, c, err := embed.Landmarks(a.pool, nLandmarks, a.opt.Seed+uint64(s))
-			if err != nil {
-				return err
-			}
-			lm, cover = pick(a.pool, idx), c
+	for s := range opt.Subsamples {
+		if err := ctx.Err(); err != nil {
+			return nil, err
 		}
-		br, err := a.barcodes(lm, cover, a.opt.Seed+uint64(s), s == 0)
+		lm, cover := c.landmarks, c.cover
+		if s > 0 {
+			idx, cv, err := embed.Landmarks(c.points, nLandmarks, opt.Seed+uint64(s))
+			if err != nil {
+				return nil, err
+			}
+			lm, cover = pick(c.points, idx), cv
+		}
+		br, err := barcodes(ctx, c, lm, cover, opt, opt.Seed+uint64(s), s == 0, r)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		if s == 0 {
 			main = br
 		}
 		votes[br.betti]++
-		a.res.Persistence.Subsamples = append(a.res.Persistence.Subsamples, br.betti[:])
+		r.persistence.Subsamples = append(r.persistence.Subsamples, br.betti[:])
 	}
-	b := main.betti
-	h.Betti = b[:]
-	h.Confidence = float64(votes[b]) / float64(a.opt.Subsamples)
-	h.ScaleBand = main.band
-	switch {
-	case b == [3]int{1, 1, 0}:
-		h.Class = Circle
-		h.Reason = "one connected component and one persistent loop: the shift turns a circle"
-		if second := kthLargest(h1Persistences(a.diagram.Bars), 2); second > a.res.Persistence.Threshold/2 {
-			a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("a second loop (persistence %.3g) stands above half the significance threshold %.3g: the hull may be a torus seen through noise; more sites or less noise would decide", second, a.res.Persistence.Threshold))
-		}
-	case b == [3]int{1, 2, 1}:
-		h.Class = Torus
-		h.Reason = "one component, two persistent loops and one persistent 2-cycle: the shift turns a two-torus"
-	default:
-		h.Class = Unresolved
-		h.Reason = unresolvedReason(b, a.res)
-	}
-	if h.Confidence < 1 {
-		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the Betti numbers changed across landmark subsamples (%v): the class is uncertain; more sites or less noise would settle it", a.res.Persistence.Subsamples))
-	}
-	return nil
+	r.betti = main.betti
+	r.confidence = float64(votes[r.betti]) / float64(opt.Subsamples)
+	r.band = main.band
+	return r, nil
 }
 
-// indexedSpacings returns the dimensionless spacings by site index (see
-// spacingPeriod): u[k] is the clean spacing from the site of index k, NaN
-// where none is known.
-func (a *analysis) indexedSpacings() []float64 {
-	last := a.index[len(a.index)-1]
-	u := make([]float64, last)
-	for k := range u {
-		u[k] = math.NaN()
+// coordinates returns the circular coordinates, in turns, of every point
+// of c for the k most persistent loops of the main barcode (de Silva,
+// Morozov & Vejdemo-Johansson 2011): coordinates[i][j] is the i-th
+// coordinate of point j.
+func (r *reading) coordinates(c *cloud, k int) ([][]float64, error) {
+	cocycles, err := topCocycles(r.diagram, k)
+	if err != nil {
+		return nil, err
 	}
-	for i, c := range a.clean {
-		if c {
-			u[a.index[i]] = a.u[i]
+	out := make([][]float64, 0, k)
+	for _, co := range cocycles {
+		scale, err := topology.DefaultScale(r.diagram.Bars[co.Bar])
+		if err != nil {
+			return nil, err
 		}
+		cm, err := topology.CircularCoordinates(r.landmarks, co, scale)
+		if err != nil {
+			return nil, err
+		}
+		coords, err := cm.Extend(c.points)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, coords)
 	}
-	return u
+	return out, nil
 }
 
-// cellFitFactor bounds the scatter of the sites about a fitted periodic
-// cell, in units of the position noise the embedding measured.
-const cellFitFactor = 2
-
-// cellFits checks a period found on the spacings against the positions:
-// the sites must lie on the lattice with a periodic cell of p sites within
-// cellFitFactor times the position noise σ = √(ν/2) mean spacings (plus a
-// rounding floor). Differences of spacings damp a slow modulation, by
-// (2 sin πθ)² for the first; the positions do not, and a modulation, or
-// independent spacings wandering like a random walk, shows there as a
-// scatter far above the noise.
-func (a *analysis) cellFits(p int, nu float64) bool {
-	n, x := a.fitSites()
-	r, ok := cellResiduals(n, x, p)
-	if !ok {
-		return true
-	}
-	var ss float64
-	for _, v := range r {
-		ss += v * v
-	}
-	rms := math.Sqrt(ss/float64(len(r))) / a.res.MeanSpacing
-	return rms <= cellFitFactor*math.Sqrt(nu/2)+1e-9
-}
-
-// cleanSpacings returns the dimensionless spacings with those across
-// missing or spurious sites dropped.
-func (a *analysis) cleanSpacings() []float64 {
-	out := make([]float64, 0, len(a.u))
-	for i, v := range a.u {
-		if a.clean[i] {
-			out = append(out, v)
+// topCocycles returns the cocycles of the k most persistent H1 bars.
+func topCocycles(dg *rips.Diagram, k int) ([]rips.Cocycle, error) {
+	var h1 []int
+	for i, b := range dg.Bars {
+		if b.Dim == 1 {
+			h1 = append(h1, i)
 		}
 	}
-	return out
+	slices.SortStableFunc(h1, func(i, j int) int { return rips.ComparePersistence(dg.Bars[i], dg.Bars[j]) })
+	if len(h1) < k {
+		return nil, fmt.Errorf("measuring angles: %d H1 bars, need %d", len(h1), k)
+	}
+	out := make([]rips.Cocycle, 0, k)
+	for _, bi := range h1[:k] {
+		found := false
+		for _, c := range dg.Cocycles {
+			if c.Bar == bi {
+				out = append(out, c)
+				found = true
+				break
+			}
+		}
+		if !found {
+			return nil, fmt.Errorf("measuring angles: no cocycle for H1 bar %d", bi)
+		}
+	}
+	return out, nil
 }
 
 // bettiReading is the outcome of the significance rule on one landmark set.
@@ -203,12 +194,13 @@ type bettiReading struct {
 	band  []float64
 }
 
-// barcodes computes the barcode of one landmark set and reads its Betti
-// numbers. H2 is computed only when H1 shows two loops or more: a circle
-// needs no H2, a torus does.
-func (a *analysis) barcodes(lm [][]float64, cover float64, seed uint64, main bool) (bettiReading, error) {
-	opt := rips.Options{MaxDim: 1, Prime: cocyclePrime, Cocycles: main, MemoryBudget: a.opt.MemoryBudget, Workers: a.opt.Workers}
-	dg, err := rips.VietorisRips(lm, opt)
+// barcodes computes the barcode of one landmark set lm of c and reads its
+// Betti numbers; the main set's barcode and figures go into r. H2 is
+// computed only when H1 shows two loops or more: a circle needs no H2, a
+// torus does.
+func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Options, seed uint64, main bool, r *reading) (bettiReading, error) {
+	opt := rips.Options{MaxDim: 1, Prime: cocyclePrime, Cocycles: main, MemoryBudget: o.MemoryBudget, Workers: o.Workers}
+	dg, err := rips.VietorisRipsContext(ctx, lm, opt)
 	if err != nil {
 		return bettiReading{}, err
 	}
@@ -221,15 +213,15 @@ func (a *analysis) barcodes(lm [][]float64, cover float64, seed uint64, main boo
 	if b[1] >= 2 || loose[1] >= 2 {
 		// A 2-cycle needs a denser cover than a loop: H2 is computed on at
 		// least torusLandmarks landmarks.
-		if want := max(a.opt.Landmarks, torusLandmarks); len(lm) < want && len(lm) < len(a.pool) {
-			idx, c, err := embed.Landmarks(a.pool, want, seed)
+		if want := max(o.Landmarks, torusLandmarks); len(lm) < want && len(lm) < len(c.points) {
+			idx, cv, err := embed.Landmarks(c.points, want, seed)
 			if err != nil {
 				return bettiReading{}, err
 			}
-			lm, cover = pick(a.pool, idx), c
+			lm, cover = pick(c.points, idx), cv
 		}
 		opt.MaxDim = 2
-		if dg, err = rips.VietorisRips(lm, opt); err != nil {
+		if dg, err = rips.VietorisRipsContext(ctx, lm, opt); err != nil {
 			return bettiReading{}, err
 		}
 		tau, eps, noise = threshold(dg.Bars, cover)
@@ -237,8 +229,8 @@ func (a *analysis) barcodes(lm [][]float64, cover float64, seed uint64, main boo
 	}
 	br := bettiReading{betti: b, band: band(dg.Bars, tau)}
 	if main {
-		a.diagram, a.landmarks = dg, lm
-		p := &a.res.Persistence
+		r.diagram, r.landmarks = dg, lm
+		p := &r.persistence
 		p.Threshold, p.CoverRadius, p.SamplingGap, p.NoiseScale = tau, cover, eps, noise
 		p.Bars = reportBars(dg.Bars, tau)
 	}
@@ -331,7 +323,7 @@ func reportBars(bars []rips.Bar, tau float64) []Bar {
 
 // unresolvedReason says why Betti numbers b name no class, and what would
 // decide.
-func unresolvedReason(b [3]int, res *Result) string {
+func unresolvedReason(b [3]int) string {
 	switch {
 	case b[0] > 1:
 		return fmt.Sprintf("the trace falls apart into %d clusters without an exact period: a tiling of a few tile lengths, outliers, or too few sites; more sites (or the tile analysis) would decide", b[0])

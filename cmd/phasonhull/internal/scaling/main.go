@@ -4,7 +4,7 @@
 // prints the wall time (the median of several runs for the small sizes)
 // and the child's peak resident memory as a markdown table.
 //
-//	go run ./topology/hull/internal/scaling [-sizes 1000,10000] [-limit 3m] [-bin PATH]
+//	go run ./cmd/phasonhull/internal/scaling [-sizes 1000,10000] [-limit 3m] [-bin PATH]
 package main
 
 import (

@@ -1,0 +1,205 @@
+package hull
+
+import (
+	"context"
+	"fmt"
+)
+
+// verdict is a rule's proposal of a class, with what Result.Hull reports
+// about it.
+type verdict struct {
+	class  Class
+	period int
+	// betti nil means the class's own (see ClassInfo); the barcode rules
+	// give the numbers they read.
+	betti      []int
+	confidence float64
+	band       []float64
+	reason     string
+}
+
+// rule looks at the analysis and proposes a verdict, or nil to leave the
+// decision to the rules after it. A rule may record what it measured on
+// the way (warnings, the tiling, a disorder figure), never the class: the
+// class is set in one place, decide.
+type rule func(a *analysis, ctx context.Context) (*verdict, error)
+
+// rules is the decision list, in order; the first verdict stands.
+var rules = []rule{
+	// An exact period of the spacings: point or finite (or, for equal
+	// spacings that vary independently, disordered).
+	(*analysis).periodRule,
+	// A tiling of a few tile lengths, read through its word: finite,
+	// cantor, disordered; a word too short to tell leaves it undecided,
+	// and the delay-cloud rules after it do not run.
+	(*analysis).tilingRule,
+	// From here on the class rests on the delay cloud; this rule decides
+	// nothing and only reports what the cloud was built around.
+	(*analysis).cloudWarnings,
+	// No direction above the noise floor: point (or disordered).
+	(*analysis).noiseOnlyRule,
+	// Barcodes of the cloud: the class whose Betti numbers they show
+	// (circle, torus); otherwise undecided.
+	(*analysis).barcodeRule,
+	// Undecided so far; a lattice shaken beyond the noise tolerance:
+	// point.
+	(*analysis).shakenLatticeRule,
+	// Spacings that carry no information about their neighbours, filling
+	// every direction of the window: disordered.
+	(*analysis).disorderRule,
+	// Nothing decided: the undecided verdict, unresolved, with what would
+	// decide.
+	(*analysis).unresolvedRule,
+}
+
+// decide walks the decision list and sets the class from the first
+// verdict: the one place where Result.Hull is set.
+func (a *analysis) decide(ctx context.Context) error {
+	for _, r := range rules {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		v, err := r(a, ctx)
+		if err != nil {
+			return err
+		}
+		if v == nil {
+			continue
+		}
+		betti := v.betti
+		if betti == nil {
+			betti = info(v.class).betti(v.period)
+		}
+		a.res.Hull = Hull{Class: v.class, Betti: betti, Period: v.period, Confidence: v.confidence, ScaleBand: v.band, Reason: v.reason}
+		return nil
+	}
+	panic("hull: the decision list ended without a verdict")
+}
+
+// periodRule: an exact period of the spacings, checked against the
+// positions (see spacingPeriod and cellFits).
+func (a *analysis) periodRule(context.Context) (*verdict, error) {
+	nu := a.res.Embedding.NoiseVariance
+	maxP := min(a.opt.MaxPeriod, len(a.u)/3)
+	pt := spacingPeriod(a.indexedSpacings(), nu, maxP)
+	if pt.Period == 0 || !a.cellFits(pt.Period, nu) {
+		return nil, nil
+	}
+	a.res.Warnings = append(a.res.Warnings, a.siteWarnings...)
+	if pt.Period > 1 {
+		return &verdict{class: Finite, period: pt.Period, confidence: 1,
+			reason: fmt.Sprintf("the spacings repeat with period %d up to the measured noise (mean squared difference %.3g times its noise expectation)", pt.Period, pt.Ratio)}, nil
+	}
+	if classifyNoise(a.cleanSpacings()) == independentSpacings {
+		return a.independent(), nil
+	}
+	return &verdict{class: Point, period: 1, confidence: 1,
+		reason: "all spacings are equal up to the measured noise: a periodic chain with one site per period"}, nil
+}
+
+// cloudWarnings reports what the delay cloud was built around: the sites
+// left out and a window that did not settle. It decides nothing.
+func (a *analysis) cloudWarnings(context.Context) (*verdict, error) {
+	if a.undecided != nil {
+		return nil, nil
+	}
+	a.res.Warnings = append(a.res.Warnings, a.siteWarnings...)
+	if c := a.em.Choice; c != nil && !c.Settled {
+		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the delay window did not settle up to %d: the spacings keep filling new directions, as independent random spacings do", c.Cap))
+	}
+	return nil, nil
+}
+
+// noiseOnlyRule: a cloud with no direction above the noise floor.
+func (a *analysis) noiseOnlyRule(context.Context) (*verdict, error) {
+	if a.undecided != nil || a.em.Whitened.Kept != 0 {
+		return nil, nil
+	}
+	if classifyNoise(a.cleanSpacings()) == independentSpacings {
+		return a.independent(), nil
+	}
+	return &verdict{class: Point, period: 1, confidence: 1,
+		reason: "the delay vectors show no direction above the noise floor: all windows of spacings agree up to noise"}, nil
+}
+
+// barcodeRule reads the barcodes of the delay cloud (see readBarcodes) and
+// proposes the class whose Betti numbers they show, if any; otherwise the
+// chain is undecided with the Betti numbers read.
+func (a *analysis) barcodeRule(ctx context.Context) (*verdict, error) {
+	if a.undecided != nil {
+		return nil, nil
+	}
+	c := &cloud{points: a.pool, landmarkIdx: a.em.Landmarks, landmarks: a.em.LandmarkCloud, cover: a.em.CoverRadius, components: a.em.Whitened.Kept}
+	r, err := readBarcodes(ctx, c, a.opt)
+	if err != nil {
+		return nil, err
+	}
+	a.cloud, a.reading = c, r
+	a.em.Landmarks, a.em.LandmarkCloud, a.em.CoverRadius = c.landmarkIdx, c.landmarks, c.cover
+	a.res.Embedding.Landmarks, a.res.Embedding.CoverRadius = len(c.landmarkIdx), c.cover
+	a.res.Persistence = r.persistence
+	var v *verdict
+	if ci, ok := namedByBetti(r.betti); ok {
+		v = &verdict{class: ci.Class, betti: r.betti[:], confidence: r.confidence, band: r.band, reason: ci.reason}
+		if ci.angles == 1 {
+			if second := kthLargest(h1Persistences(r.diagram.Bars), 2); second > r.persistence.Threshold/2 {
+				a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("a second loop (persistence %.3g) stands above half the significance threshold %.3g: the hull may be a torus seen through noise; more sites or less noise would decide", second, r.persistence.Threshold))
+			}
+		}
+	}
+	if r.confidence < 1 {
+		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the Betti numbers changed across landmark subsamples (%v): the class is uncertain; more sites or less noise would settle it", r.persistence.Subsamples))
+	}
+	if v == nil {
+		a.undecided = &verdict{class: Unresolved, betti: r.betti[:], confidence: r.confidence, band: r.band, reason: unresolvedReason(r.betti)}
+	}
+	return v, nil
+}
+
+// shakenLatticeRule: a chain left undecided whose spacings are those of a
+// uniform lattice with position noise beyond the embedding's tolerance is
+// a point hull; its scatter about the lattice is the disorder figure. The
+// scale band of barcodes read on the way is kept.
+func (a *analysis) shakenLatticeRule(context.Context) (*verdict, error) {
+	u := a.cleanSpacings()
+	if classifyNoise(u) != jitteredLattice || !a.latticeFits(u) {
+		return nil, nil
+	}
+	a.periodicResiduals()
+	return &verdict{class: Point, period: 1, confidence: 1, band: a.undecided.band,
+		reason: "the spacings are those of a uniform lattice with independent position noise (autocorrelation −1/2 at lag 1, none beyond): a periodic chain with one site per period, shaken"}, nil
+}
+
+// disorderRule: spacings that carry no information about their neighbours,
+// with delay vectors filling every direction of a window that did not
+// settle, are disordered. It sets the disorder figure of a chain without a
+// hull model on the way.
+func (a *analysis) disorderRule(context.Context) (*verdict, error) {
+	a.spacingSpread()
+	mi, dim, ok := a.disorderFigures()
+	if !ok {
+		return nil, nil
+	}
+	a.res.Disorder.MutualInformation, a.res.Disorder.IntrinsicDimension = mi, dim
+	c := a.em.Choice
+	if c == nil || c.Settled || a.em.Whitened.Kept != a.em.Window || mi >= independentMI {
+		return nil, nil
+	}
+	u := a.undecided
+	return &verdict{class: Disordered, confidence: u.confidence, band: u.band,
+		reason: fmt.Sprintf("consecutive spacings share almost no information (%.3f nats) and the delay vectors fill every direction of the window (dimension %.1f of %d): no low-dimensional hull at the resolution of the data", mi, dim, a.em.Window)}, nil
+}
+
+// unresolvedRule closes the list: the undecided verdict stands.
+func (a *analysis) unresolvedRule(context.Context) (*verdict, error) {
+	return a.undecided, nil
+}
+
+// independent is the verdict on independent spacings that are nearly
+// equal: small enough to pass for noise, but with no trace of a lattice.
+// The spread of the spacings is the disorder figure.
+func (a *analysis) independent() *verdict {
+	a.spacingSpread()
+	return &verdict{class: Disordered, confidence: 1,
+		reason: "the spacings vary independently of one another (no autocorrelation at any lag): the positions wander from any lattice like a random walk, so there is no hull at all; the spread of the spacings is the disorder"}
+}

@@ -1,0 +1,537 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"time"
+
+	"phasonhull/pattern/design"
+	"phasonhull/topology"
+	"phasonhull/topology/hull"
+)
+
+// Outcome is what the analysis made of one case.
+type Outcome struct {
+	Case       Case       `json:"case"`
+	Sites      int        `json:"sites"`
+	Reported   hull.Class `json:"reported_class"`
+	Period     int        `json:"reported_period,omitempty"`
+	Betti      []int      `json:"betti"`
+	Confidence float64    `json:"confidence"`
+	// Correct: the true class (and period) was reported. FalseHull: a
+	// negative case (cantor, disordered) was given a point, finite, circle
+	// or torus hull.
+	Correct   bool `json:"correct"`
+	FalseHull bool `json:"false_hull,omitempty"`
+	// AngleError is |reported − true| (for two angles the smallest
+	// tolerance at which the two bases generate the same module);
+	// Uncertainty the reported one (root sum of squares for two angles);
+	// Ratio their quotient. Nil where there is nothing to compare.
+	AngleError  *float64  `json:"angle_error"`
+	Uncertainty *float64  `json:"uncertainty"`
+	Ratio       *float64  `json:"error_over_uncertainty"`
+	Angles      []float64 `json:"angles"`
+	// Residual is the positional scatter the fitted hull leaves, in mean
+	// spacings (Result.Disorder); about the position noise when the hull
+	// is right. Nil when no hull was fitted.
+	Residual *float64 `json:"residual"`
+	Seconds  float64  `json:"seconds"`
+	Barcode  Barcode  `json:"barcode"`
+	Reason   string   `json:"reason"`
+	Err      string   `json:"error,omitempty"`
+}
+
+// Barcode holds the figures behind a classification.
+type Barcode struct {
+	Threshold   float64   `json:"threshold"`
+	CoverRadius float64   `json:"cover_radius"`
+	SamplingGap float64   `json:"sampling_gap"`
+	NoiseScale  float64   `json:"noise_scale"`
+	H1          []float64 `json:"h1_top"` // the longest H1 persistences, at most 4
+	H2          []float64 `json:"h2_top"` // the longest H2 persistences, at most 3
+	Subsamples  [][]int   `json:"subsamples"`
+	Window      int       `json:"window"`
+	Components  int       `json:"components"`
+	Landmarks   int       `json:"landmarks"`
+}
+
+// Report is everything the suite measured.
+type Report struct {
+	Seed      uint64      `json:"seed"`
+	Quick     bool        `json:"quick"`
+	Confusion Confusion   `json:"confusion"`
+	Outcomes  []Outcome   `json:"cases"`
+	Breakdown []Breakdown `json:"breakdown"`
+	Exact     ExactCheck  `json:"exact_angles"`
+	CRB       []CRBCheck  `json:"cramer_rao"`
+	Calib     Calibration `json:"uncertainty_calibration"`
+	Timing    TimingCheck `json:"timing"`
+	Seconds   float64     `json:"total_seconds"`
+}
+
+// Confusion counts cases by true class (rows) and reported class
+// (columns).
+type Confusion struct {
+	Rows   []hull.Class `json:"true"`
+	Cols   []hull.Class `json:"reported"`
+	Counts [][]int      `json:"counts"`
+}
+
+// Run builds the grid, analyses every case in order and runs the precision
+// checks.
+func Run(cfg Config) (*Report, error) {
+	start := time.Now()
+	cases, err := Grid(cfg)
+	if err != nil {
+		return nil, err
+	}
+	rep := &Report{Seed: cfg.Seed, Quick: cfg.Quick}
+	for _, c := range cases {
+		o, err := RunCase(c, cfg.Seed)
+		if err != nil {
+			return nil, err
+		}
+		rep.Outcomes = append(rep.Outcomes, o)
+	}
+	rep.Confusion = confusion(rep.Outcomes)
+	rep.Breakdown = breakdowns(rep.Outcomes)
+	rep.Exact = exactCheck(rep.Outcomes)
+	rep.Calib = calibration(rep.Outcomes)
+	draws := 100
+	if cfg.Quick {
+		draws = 10
+	}
+	for _, sigma := range []float64{0.01, 0.02} {
+		c, err := crbCheck(500, 0.1, sigma, draws, cfg.Seed)
+		if err != nil {
+			return nil, err
+		}
+		rep.CRB = append(rep.CRB, c)
+	}
+	if rep.Timing, err = timingCheck(cfg.Seed, 7); err != nil {
+		return nil, err
+	}
+	rep.Seconds = time.Since(start).Seconds()
+	return rep, nil
+}
+
+// RunCase generates a case, analyses it and compares the result with the
+// truth.
+func RunCase(c Case, seed uint64) (Outcome, error) {
+	s := caseSeed(seed, c.Name)
+	spec := c.Spec
+	spec.Seed = s
+	p, err := design.Generate(spec)
+	if err != nil {
+		return Outcome{}, fmt.Errorf("case %s: %w", c.Name, err)
+	}
+	if c.Centroids {
+		if p, err = throughCentroids(p, s, c.Name); err != nil {
+			return Outcome{}, fmt.Errorf("case %s: %w", c.Name, err)
+		}
+	}
+	o := Outcome{Case: c, Sites: p.Len(), Angles: []float64{}}
+	t0 := time.Now()
+	r, err := hull.Analyze(p, hull.Options{Seed: s})
+	o.Seconds = time.Since(t0).Seconds()
+	if err != nil {
+		o.Reported, o.Err = failed, err.Error()
+		return o, nil
+	}
+	o.Reported, o.Period, o.Betti, o.Confidence = r.Hull.Class, r.Hull.Period, r.Hull.Betti, r.Hull.Confidence
+	o.Reason, o.Angles = r.Hull.Reason, r.Angles
+	o.Barcode = barcodeOf(r)
+	if r.Disorder != nil {
+		v := r.Disorder.Relative
+		o.Residual = &v
+	}
+	switch c.Class {
+	case hull.Point, hull.Finite:
+		o.Correct = o.Reported == c.Class && o.Period == c.Period
+	default:
+		o.Correct = o.Reported == c.Class
+	}
+	if c.Class == cantor || c.Class == disordered {
+		switch o.Reported {
+		case hull.Point, hull.Finite, hull.Circle, hull.Torus:
+			o.FalseHull = true
+		}
+	}
+	if len(c.Angles) > 0 && len(r.Angles) == len(c.Angles) {
+		e := angleDistance(c.Angles, r.Angles)
+		var v float64
+		for _, u := range r.AngleUncertainty {
+			v += u * u
+		}
+		u := math.Sqrt(v)
+		o.AngleError, o.Uncertainty = &e, &u
+		if u > 0 {
+			q := e / u
+			o.Ratio = &q
+		}
+	}
+	return o, nil
+}
+
+func barcodeOf(r *hull.Result) Barcode {
+	b := Barcode{
+		Threshold: r.Persistence.Threshold, CoverRadius: r.Persistence.CoverRadius,
+		SamplingGap: r.Persistence.SamplingGap, NoiseScale: r.Persistence.NoiseScale,
+		Subsamples: r.Persistence.Subsamples, Window: r.Embedding.Window,
+		Components: r.Embedding.Components, Landmarks: r.Embedding.Landmarks,
+		H1: []float64{}, H2: []float64{},
+	}
+	// Bars come sorted by dimension, then persistence, longest first.
+	for _, bar := range r.Persistence.Bars {
+		p := math.Inf(1)
+		if bar.Death != nil {
+			p = *bar.Death - bar.Birth
+		}
+		switch {
+		case bar.Dim == 1 && len(b.H1) < 4:
+			b.H1 = append(b.H1, p)
+		case bar.Dim == 2 && len(b.H2) < 3:
+			b.H2 = append(b.H2, p)
+		}
+	}
+	return b
+}
+
+// angleDistance is |a − b| for one angle each (both folded); for more it
+// is the smallest tolerance at which topology.SameModule accepts the two
+// bases with coefficients up to hull.DefaultMaxCoeff, by bisection
+// (acceptance only grows with the tolerance). Any basis of the right module
+// is a correct answer, so bases are never compared entry by entry.
+func angleDistance(a, b []float64) float64 {
+	if len(a) == 1 {
+		return math.Abs(topology.Fold(a[0]) - topology.Fold(b[0]))
+	}
+	if topology.SameModule(a, b, hull.DefaultMaxCoeff, 0) {
+		return 0
+	}
+	lo, hi := 0.0, 0.5
+	if !topology.SameModule(a, b, hull.DefaultMaxCoeff, hi) {
+		return hi
+	}
+	for hi-lo > 1e-3*hi && hi > 1e-17 {
+		mid := (lo + hi) / 2
+		if topology.SameModule(a, b, hull.DefaultMaxCoeff, mid) {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return hi
+}
+
+// --- precision checks ---------------------------------------------------------
+
+// ExactCheck is the check of the noise-free circle angles at 2000 sites.
+type ExactCheck struct {
+	Goal  float64      `json:"goal"`
+	Cases []ExactAngle `json:"cases"`
+	// Pass: every decisive case is a circle within the goal.
+	Pass bool `json:"pass"`
+}
+
+// ExactAngle is one case of the exact-angle check. Decisive is false when
+// the true angle is itself known only to worse than a tenth of the goal.
+type ExactAngle struct {
+	Name      string     `json:"name"`
+	Reported  hull.Class `json:"reported_class"`
+	Error     *float64   `json:"angle_error"`
+	Reference float64    `json:"reference_precision"`
+	Decisive  bool       `json:"decisive"`
+	Pass      bool       `json:"pass"`
+}
+
+func exactCheck(out []Outcome) ExactCheck {
+	ec := ExactCheck{Goal: exactAngleGoal, Pass: true, Cases: []ExactAngle{}}
+	for _, o := range out {
+		c := o.Case
+		if c.Class != hull.Circle || c.Noise != 0 || c.Spec.Sites != 2000 || c.Spec.Missing != 0 {
+			continue
+		}
+		e := ExactAngle{Name: c.Name, Reported: o.Reported, Error: o.AngleError, Reference: c.AngleRef,
+			Decisive: c.AngleRef <= exactAngleGoal/10}
+		e.Pass = o.Reported == hull.Circle && o.AngleError != nil && *o.AngleError <= exactAngleGoal+c.AngleRef
+		if e.Decisive && !e.Pass {
+			ec.Pass = false
+		}
+		ec.Cases = append(ec.Cases, e)
+	}
+	return ec
+}
+
+// CRBCheck is the angle RMSE of a noisy one-harmonic circle over many
+// noise draws against the Cramér–Rao bound.
+type CRBCheck struct {
+	Sites     int     `json:"sites"`
+	Amplitude float64 `json:"amplitude"`
+	Theta     float64 `json:"theta"`
+	Sigma     float64 `json:"sigma"`
+	Draws     int     `json:"draws"`
+	// Circles is the number of draws classified circle; the RMSE, bias and
+	// mean uncertainty are over those. Misses lists the other draws and
+	// what they were classified.
+	Circles  int      `json:"circles"`
+	Misses   []string `json:"misses"`
+	RMSE     float64  `json:"rmse"`
+	RMSEStd  float64  `json:"rmse_standard_error"`
+	Bias     float64  `json:"bias"`
+	SqrtCRB  float64  `json:"sqrt_crb"`       // kayCRB
+	SqrtCRBx float64  `json:"sqrt_crb_exact"` // exactCRB, with the trend
+	Ratio    float64  `json:"rmse_over_sqrt_crb"`
+	MeanUnc  float64  `json:"mean_uncertainty"`
+	UncRatio float64  `json:"mean_uncertainty_over_rmse"`
+	Goal     float64  `json:"goal"`
+	Pass     bool     `json:"pass"`
+}
+
+func crbCheck(n int, a, sigma float64, draws int, seed uint64) (CRBCheck, error) {
+	const phase = 0.13
+	c := CRBCheck{Sites: n, Amplitude: a, Theta: sqrt2m1, Sigma: sigma, Draws: draws, Goal: crbGoal, Misses: []string{}}
+	c.SqrtCRB = math.Sqrt(kayCRB(n, a, sigma))
+	x, err := exactCRB(n, a, sqrt2m1, phase, sigma)
+	if err != nil {
+		return c, err
+	}
+	c.SqrtCRBx = math.Sqrt(x)
+	var se, sum, su float64
+	for d := range draws {
+		name := fmt.Sprintf("crb/N%d/%s/draw%d", n, noiseLabel(sigma), d)
+		s := caseSeed(seed, name)
+		p, err := design.Generate(design.Spec{Family: "modulated", Sites: n, Theta: sqrt2m1, Sin: []float64{a}, Phase: phase, Noise: sigma, Seed: s})
+		if err != nil {
+			return c, fmt.Errorf("%s: %w", name, err)
+		}
+		r, err := hull.Analyze(p, hull.Options{Seed: s})
+		switch {
+		case err != nil:
+			c.Misses = append(c.Misses, fmt.Sprintf("%s (seed %d): error: %v", name, s, err))
+			continue
+		case r.Hull.Class != hull.Circle:
+			c.Misses = append(c.Misses, fmt.Sprintf("%s (seed %d): %s, Betti %v, H1 %s above τ %.3g", name, s, r.Hull.Class, r.Hull.Betti, fmtList(barcodeOf(r).H1), r.Persistence.Threshold))
+			continue
+		}
+		e := r.Angles[0] - sqrt2m1
+		se += e * e
+		sum += e
+		su += r.AngleUncertainty[0]
+		c.Circles++
+	}
+	if c.Circles == 0 {
+		return c, nil
+	}
+	m := float64(c.Circles)
+	c.RMSE = math.Sqrt(se / m)
+	// The standard error of an RMSE from m Gaussian errors is about
+	// RMSE/√(2m).
+	c.RMSEStd = c.RMSE / math.Sqrt(2*m)
+	c.Bias = sum / m
+	c.Ratio = c.RMSE / c.SqrtCRB
+	c.MeanUnc = su / m
+	c.UncRatio = c.MeanUnc / c.RMSE
+	// The goal is on the precision; the misclassified draws are reported
+	// beside it.
+	c.Pass = c.Ratio <= crbGoal
+	return c, nil
+}
+
+// Calibration summarises error/uncertainty over the noisy circle and torus
+// cases of the grid: for calibrated Gaussian errors the median ratio is
+// about 0.67 and 95% of the ratios lie below 2 (common practice).
+type Calibration struct {
+	Cases   int     `json:"cases"`
+	Median  float64 `json:"median_ratio"`
+	Below2  float64 `json:"fraction_below_2"`
+	Below3  float64 `json:"fraction_below_3"`
+	Largest float64 `json:"largest_ratio"`
+	Worst   string  `json:"worst_case"`
+}
+
+func calibration(out []Outcome) Calibration {
+	var rs []float64
+	var cal Calibration
+	for _, o := range out {
+		if o.Ratio == nil || o.Case.Noise == 0 || !o.Correct {
+			continue
+		}
+		rs = append(rs, *o.Ratio)
+		if *o.Ratio > cal.Largest {
+			cal.Largest, cal.Worst = *o.Ratio, o.Case.Name
+		}
+	}
+	if len(rs) == 0 {
+		return cal
+	}
+	slices.Sort(rs)
+	cal.Cases = len(rs)
+	cal.Median = median(rs)
+	for _, r := range rs {
+		if r <= 2 {
+			cal.Below2++
+		}
+		if r <= 3 {
+			cal.Below3++
+		}
+	}
+	cal.Below2 /= float64(len(rs))
+	cal.Below3 /= float64(len(rs))
+	return cal
+}
+
+func median(sorted []float64) float64 {
+	n := len(sorted)
+	if n%2 == 1 {
+		return sorted[n/2]
+	}
+	return (sorted[n/2-1] + sorted[n/2]) / 2
+}
+
+// TimingCheck is the wall time of Analyze on 2000 sites of a noisy circle.
+type TimingCheck struct {
+	Sites  int       `json:"sites"`
+	Runs   []float64 `json:"seconds"`
+	Median float64   `json:"median_seconds"`
+	Goal   float64   `json:"goal_seconds"`
+	Pass   bool      `json:"pass"`
+}
+
+func timingCheck(seed uint64, runs int) (TimingCheck, error) {
+	tc := TimingCheck{Sites: 2000, Goal: timeGoal}
+	c := prototype(hull.Circle, 2000, 0.01)
+	c.Spec.Seed = caseSeed(seed, "timing")
+	p, err := design.Generate(c.Spec)
+	if err != nil {
+		return tc, err
+	}
+	for range runs {
+		t0 := time.Now()
+		if _, err := hull.Analyze(p, hull.Options{Seed: c.Spec.Seed}); err != nil {
+			return tc, err
+		}
+		tc.Runs = append(tc.Runs, time.Since(t0).Seconds())
+	}
+	s := slices.Clone(tc.Runs)
+	slices.Sort(s)
+	tc.Median = median(s)
+	tc.Pass = tc.Median < timeGoal
+	return tc, nil
+}
+
+// --- summaries ----------------------------------------------------------------
+
+func confusion(out []Outcome) Confusion {
+	cf := Confusion{Rows: trueClasses, Cols: reportedClasses}
+	cf.Counts = make([][]int, len(trueClasses))
+	for i := range cf.Counts {
+		cf.Counts[i] = make([]int, len(reportedClasses))
+	}
+	for _, o := range out {
+		i, j := slices.Index(trueClasses, o.Case.Class), slices.Index(reportedClasses, o.Reported)
+		if j < 0 {
+			j = slices.Index(reportedClasses, failed)
+		}
+		cf.Counts[i][j]++
+	}
+	return cf
+}
+
+// Breakdown is where a class stops being recognised in the sweeps.
+type Breakdown struct {
+	Class hull.Class `json:"class"`
+	// Criterion is "correct" (the true class reported) or, for the
+	// negative classes, also "no false hull".
+	Criterion string      `json:"criterion"`
+	Sizes     []SizeSweep `json:"size_sweeps"`
+	Noise     *NoiseSweep `json:"noise_sweep"`
+}
+
+// SizeSweep is one size sweep at a fixed noise. Smallest is the smallest
+// size from which on every larger size passes (0 when the largest fails).
+type SizeSweep struct {
+	Noise    float64 `json:"noise"`
+	Sizes    []int   `json:"sizes"`
+	Pass     []bool  `json:"pass"`
+	Smallest int     `json:"smallest_size"`
+}
+
+// NoiseSweep is the noise sweep at a fixed size. Largest is the largest
+// noise up to which every smaller noise passes (−1 when the noise-free
+// case fails).
+type NoiseSweep struct {
+	Sites   int       `json:"sites"`
+	Noises  []float64 `json:"noises"`
+	Pass    []bool    `json:"pass"`
+	Largest float64   `json:"largest_noise"`
+}
+
+func breakdowns(out []Outcome) []Breakdown {
+	var bs []Breakdown
+	for _, class := range trueClasses {
+		crits := []string{"correct"}
+		if class == cantor || class == disordered {
+			crits = append(crits, "no false hull")
+		}
+		for _, crit := range crits {
+			pass := func(o Outcome) bool {
+				if crit == "correct" {
+					return o.Correct
+				}
+				return !o.FalseHull && o.Reported != failed
+			}
+			b := Breakdown{Class: class, Criterion: crit}
+			for _, noise := range []float64{0, sweepNoise} {
+				sw := SizeSweep{Noise: noise}
+				for _, o := range out {
+					if o.Case.Class == class && o.Case.SizeSweep && o.Case.Noise == noise {
+						sw.Sizes = append(sw.Sizes, o.Case.Spec.Sites)
+						sw.Pass = append(sw.Pass, pass(o))
+					}
+				}
+				if len(sw.Sizes) == 0 {
+					continue
+				}
+				for i := len(sw.Sizes) - 1; i >= 0 && sw.Pass[i]; i-- {
+					sw.Smallest = sw.Sizes[i]
+				}
+				b.Sizes = append(b.Sizes, sw)
+			}
+			type pt struct {
+				noise float64
+				ok    bool
+				sites int
+			}
+			var pts []pt
+			for _, o := range out {
+				if o.Case.Class == class && o.Case.NoiseSweep {
+					pts = append(pts, pt{o.Case.Noise, pass(o), o.Case.Spec.Sites})
+				}
+			}
+			slices.SortStableFunc(pts, func(x, y pt) int {
+				switch {
+				case x.noise < y.noise:
+					return -1
+				case x.noise > y.noise:
+					return 1
+				}
+				return 0
+			})
+			if len(pts) > 0 {
+				ns := &NoiseSweep{Sites: pts[0].sites, Largest: -1}
+				for _, p := range pts {
+					ns.Noises = append(ns.Noises, p.noise)
+					ns.Pass = append(ns.Pass, p.ok)
+				}
+				for i := 0; i < len(ns.Noises) && ns.Pass[i]; i++ {
+					ns.Largest = ns.Noises[i]
+				}
+				b.Noise = ns
+			}
+			bs = append(bs, b)
+		}
+	}
+	return bs
+}
