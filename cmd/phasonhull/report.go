@@ -153,8 +153,11 @@ does, when --design is given) and writes into DIR:
   audit.json     the audit, as audit --json prints it (with --design only)
 
 DIR is created; it must not hold an input file. Either every file is
-written or none: they are built in a temporary folder next to DIR and moved
-into place at the end. A failing audit verdict is reported in the page and
+written or none: they are staged out of sight and put in place in one short
+step at the end (a new DIR appears whole). Into the folder of an earlier
+report, the files of ours that this run does not write (audit.json of an
+earlier audit, say) are removed in the same step; files of your own in DIR
+are left alone. A failing audit verdict is reported in the page and
 does not change the exit status.`,
 		Example: `  phasonhull report testdata/demo/lw0412_cmm.csv --out lw0412-report
   phasonhull report sample.csv --design design.json --tolerance 0.02mm --out sample-report`,
@@ -211,7 +214,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 			return internalErr(err)
 		}
 		page.Audit = auditSummary(rep)
-		page.Files = append(page.Files, report.File{Name: "audit.json", Data: js})
+		page.Files = append(page.Files, report.File{Name: report.AuditFile, Data: js})
 		if a, ok := auditSites(rep); ok {
 			pic, err := picture.Audit(a)
 			if err != nil {
@@ -227,7 +230,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		return internalErr(err)
 	}
 	page.Analysis = res
-	page.Files = append([]report.File{{Name: "analysis.json", Data: js}}, page.Files...)
+	page.Files = append([]report.File{{Name: report.AnalysisFile, Data: js}}, page.Files...)
 	progress("drawing the figures")
 	pics, err := picture.Analysis(res)
 	if err == nil {
@@ -245,7 +248,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		return err
 	}
 	progress("")
-	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, "report.html"))
+	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, report.PageFile))
 	return nil
 }
 
@@ -268,6 +271,10 @@ func auditSummary(rep *audit.Report) *report.Audit {
 	add("outliers", fmt.Sprintf("%d", len(rep.Outliers)))
 	if c := rep.Hull.Comparison; c != nil {
 		add("hull comparison", c.Verdict)
+	}
+	a.Unit = rep.Unit
+	for _, d := range rep.Defects() {
+		a.Sites = append(a.Sites, report.Site{Kind: d.Kind, Design: d.Design, Rows: d.Measured, Position: d.Position, Residual: d.Residual})
 	}
 	return a
 }

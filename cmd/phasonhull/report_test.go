@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/base64"
 	"encoding/json"
+	"fmt"
 	"html"
 	"image"
 	"image/png"
@@ -93,6 +94,17 @@ func TestReportDemo(t *testing.T) {
 			t.Errorf("report.html lacks %q", want)
 		}
 	}
+	// Every flagged site is listed with its design index and file row: the
+	// demo misses one rod, whose design index the audit names.
+	if !strings.Contains(string(doc), "<h3>Flagged sites</h3>") {
+		t.Error("report.html has no list of flagged sites")
+	}
+	for _, m := range audit["missing"].([]any) {
+		row := "<tr><td>missing</td><td>" + fmt.Sprint(m) + "</td><td>—</td>"
+		if !strings.Contains(string(doc), row) {
+			t.Errorf("report.html does not list the missing design site %v (%q)", m, row)
+		}
+	}
 	// Self-contained: no external resource, every image a PNG data URI.
 	for _, bad := range []string{"http://", "https://", "<link", "<script"} {
 		if strings.Contains(string(doc), bad) {
@@ -128,6 +140,34 @@ func TestReportDemo(t *testing.T) {
 	}
 	if !bytes.Equal(doc, again) {
 		t.Error("two runs wrote different pages")
+	}
+}
+
+// strconvItoa prints a JSON number that holds an integer.
+func strconvItoa(v any) string {
+	return strings.TrimSuffix(strings.TrimSuffix(fmt.Sprint(v), ".0"), "e+00")
+}
+
+// A report re-run into the folder of an earlier one leaves only the new
+// run's files of ours: without --design, the audit.json of the earlier
+// audit is gone; a file of the user's in the folder is kept.
+func TestReportRerunLeavesOnlyItsFiles(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	writeDemoReport(t, dir)
+	if _, err := os.Stat(filepath.Join(dir, "audit.json")); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(dir, "notes.txt"), []byte("mine"), 0o644)
+	code, _, stderr := runCmd("report", demoSample, "--out", dir)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if got := entries(t, dir); strings.Join(got, ",") != "analysis.json,notes.txt,report.html" {
+		t.Errorf("the folder holds %v, want the new run's analysis.json and report.html and the user's notes.txt", got)
+	}
+	page, _ := os.ReadFile(filepath.Join(dir, "report.html"))
+	if strings.Contains(string(page), "audit.json") || strings.Contains(string(page), "Audit against") {
+		t.Error("the new page still mentions an audit")
 	}
 }
 

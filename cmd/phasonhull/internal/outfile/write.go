@@ -45,12 +45,18 @@ func WriteFile(path string, write func(w io.Writer) error) error {
 // WriteFiles writes a group of files into the folder dir, all or none: every
 // file is staged first, and the files are then put in place in one short
 // commit. A missing dir is created by that commit, whole: it appears with
-// all its files at once. Files already in dir that the group does not name
-// are left alone.
-func WriteFiles(dir string, files []File) error {
+// all its files at once. The names in remove (base names, not among the
+// files) are removed from dir in the same commit, where they exist; other
+// files already in dir are left alone.
+func WriteFiles(dir string, files []File, remove ...string) error {
 	for _, f := range files {
 		if f.Name == "" || f.Name != filepath.Base(f.Name) || f.Name[0] == '.' {
 			return fmt.Errorf("bad output file name %q", f.Name)
+		}
+	}
+	for _, n := range remove {
+		if n == "" || n != filepath.Base(n) || n[0] == '.' {
+			return fmt.Errorf("bad name to remove %q", n)
 		}
 	}
 	st, err := os.Stat(dir)
@@ -96,6 +102,11 @@ func WriteFiles(dir string, files []File) error {
 				return err
 			}
 			pause("committing")
+		}
+		for _, n := range remove {
+			if err := os.Remove(filepath.Join(dir, n)); err != nil && !errors.Is(err, os.ErrNotExist) {
+				return err
+			}
 		}
 		return nil
 	}

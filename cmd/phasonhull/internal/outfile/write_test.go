@@ -76,6 +76,11 @@ func TestWriteFiles(t *testing.T) {
 	}
 	assertOnly(t, dir, "a.txt", "b.txt", "notes.txt")
 	assertOnly(t, root, "report")
+	// Names to remove go in the same commit; a missing one is no error.
+	if err := WriteFiles(dir, []File{{"a.txt", text("a3")}}, "b.txt", "c.txt"); err != nil {
+		t.Fatal(err)
+	}
+	assertOnly(t, dir, "a.txt", "notes.txt")
 	if err := WriteFiles(dir, []File{{"../x", text("")}}); err == nil {
 		t.Error("a name with a path was accepted")
 	}

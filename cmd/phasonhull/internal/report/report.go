@@ -10,6 +10,9 @@ import (
 	"fmt"
 	"html/template"
 	"io"
+	"slices"
+	"strconv"
+	"strings"
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
@@ -35,7 +38,32 @@ type Audit struct {
 	Reasons []string
 	// Rows are label–value pairs of the audit table.
 	Rows [][2]string
+	// Unit is the unit of the positions and residuals of Sites.
+	Unit string
+	// Sites are the flagged sites, listed one a row.
+	Sites []Site
 }
+
+// Site is one flagged site of an audit, as the page lists it.
+type Site struct {
+	Kind     string // missing, extra, merged, swapped, outlier, out of tolerance
+	Design   []int  // design indices
+	Rows     []int  // 0-based data rows of the measured file
+	Position float64
+	Residual float64 // 0 when the kind has none
+}
+
+// The names of the files a report writes. A folder written before by
+// report holds no other names of ours, so Write removes those of them the
+// new page does not write.
+const (
+	PageFile     = "report.html"
+	AnalysisFile = "analysis.json"
+	AuditFile    = "audit.json"
+)
+
+// ourNames lists every name a report may write.
+func ourNames() []string { return []string{PageFile, AnalysisFile, AuditFile} }
 
 // Figure is one picture of the page, as PNG.
 type Figure struct {
@@ -72,21 +100,31 @@ func Render(w io.Writer, p *Page) error {
 
 // Write writes dir/report.html and the page's files through
 // outfile.WriteFiles: all of them or none, and a missing dir appears whole.
-// The caller has checked (outfile.Check) that dir holds no input.
+// Files of an earlier report in dir that this one does not write (an
+// audit.json when this page has no audit) are removed in the same commit,
+// so that no file of an earlier run survives; files not named by a report
+// are left alone. The caller has checked (outfile.Check) that dir holds no
+// input.
 func Write(dir string, p *Page) error {
 	var html bytes.Buffer
 	if err := Render(&html, p); err != nil {
 		return err
 	}
-	files := append([]File{{Name: "report.html", Data: html.Bytes()}}, p.Files...)
+	files := append([]File{{Name: PageFile, Data: html.Bytes()}}, p.Files...)
 	out := make([]outfile.File, len(files))
+	var stale []string
+	for _, n := range ourNames() {
+		if !slices.ContainsFunc(files, func(f File) bool { return f.Name == n }) {
+			stale = append(stale, n)
+		}
+	}
 	for i, f := range files {
 		out[i] = outfile.File{Name: f.Name, Write: func(w io.Writer) error {
 			_, err := w.Write(f.Data)
 			return err
 		}}
 	}
-	if err := outfile.WriteFiles(dir, out); err != nil {
+	if err := outfile.WriteFiles(dir, out, stale...); err != nil {
 		return fmt.Errorf("writing report %s: %w", dir, err)
 	}
 	return nil
@@ -179,7 +217,7 @@ var cautions = []string{
 	"The disorder figure is the scatter the fitted hull model does not explain: metrology noise and fabrication error together, not either alone.",
 }
 
-var page = template.Must(template.New("report").Parse(`<!DOCTYPE html>
+var page = template.Must(template.New("report").Funcs(template.FuncMap{"ints": intList}).Parse(`<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
@@ -214,6 +252,13 @@ code { font-size: .92em; }
 <table>
 {{range .Rows}}<tr><th>{{index . 0}}</th><td>{{index . 1}}</td></tr>
 {{end}}</table>
+{{if .Sites}}<h3>Flagged sites</h3>
+<p>Design indices count the design's sites from 0; rows count the data rows of the measured file from 0, in the order the file lists them; positions and residuals{{if .Unit}} (in {{.Unit}}){{end}} are in the measured sample's frame (a missing site is shown where the calibration puts its design site).</p>
+<table>
+<tr><th>site</th><th>design</th><th>row</th><th>position</th><th>residual</th></tr>
+{{range .Sites}}<tr><td>{{.Kind}}</td><td>{{ints .Design}}</td><td>{{ints .Rows}}</td><td>{{printf "%.6g" .Position}}</td><td>{{if .Residual}}{{printf "%+.3g" .Residual}}{{end}}</td></tr>
+{{end}}</table>
+{{else}}<p>No site is missing, extra, merged, swapped, an outlier or out of tolerance.</p>{{end}}
 {{end}}
 <h2>Gap labels</h2>
 {{if .Labels}}<table>
@@ -233,3 +278,15 @@ code { font-size: .92em; }
 </body>
 </html>
 `))
+
+// intList writes indices as "12" or "12, 13", and "—" for none.
+func intList(v []int) string {
+	if len(v) == 0 {
+		return "—"
+	}
+	parts := make([]string, len(v))
+	for i, x := range v {
+		parts[i] = strconv.Itoa(x)
+	}
+	return strings.Join(parts, ", ")
+}

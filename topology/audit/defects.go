@@ -1,0 +1,78 @@
+package audit
+
+import (
+	"cmp"
+	"slices"
+)
+
+// Defect kinds, as Defects names them.
+const (
+	DefectMissing        = "missing"          // a design site with no measured site
+	DefectExtra          = "extra"            // a measured site with no design site
+	DefectMerged         = "merged"           // two design sites measured as one
+	DefectSwapped        = "swapped"          // two neighbours measured in each other's order
+	DefectOutlier        = "outlier"          // a residual beyond the outlier threshold
+	DefectOutOfTolerance = "out of tolerance" // a residual beyond --tolerance
+)
+
+// A Defect is one flagged site, in the form a person fixing a sample
+// looks it up: its design index, its row in the measured file and where
+// it is.
+type Defect struct {
+	Kind string
+	// Design are the design indices involved (none for an extra site).
+	Design []int
+	// Measured are the measured indices involved: 0-based data rows of the
+	// measured file, in its order (none for a missing site).
+	Measured []int
+	// Position is where the site is, in the sample's frame and unit: the
+	// measured position, or for a missing site where the calibration puts
+	// the design site.
+	Position float64
+	// Residual is the measured minus the calibrated design position, for
+	// outliers and sites out of tolerance (0 otherwise).
+	Residual float64
+}
+
+// Defects lists every flagged site of the report, ordered by position. A
+// site that is both an outlier and out of tolerance is listed once, as out
+// of tolerance.
+func (r *Report) Defects() []Defect {
+	var out []Defect
+	for i, p := range r.MissingAt() {
+		out = append(out, Defect{Kind: DefectMissing, Design: []int{r.Missing[i]}, Position: p})
+	}
+	for _, k := range r.Extra {
+		if k >= 0 && k < len(r.measuredPos) {
+			out = append(out, Defect{Kind: DefectExtra, Measured: []int{k}, Position: r.measuredPos[k]})
+		}
+	}
+	for _, m := range r.Merged {
+		out = append(out, Defect{Kind: DefectMerged, Design: m.Design[:], Measured: []int{m.Measured}, Position: m.Position})
+	}
+	for _, s := range r.Swapped {
+		pos := 0.0
+		if k := s.Measured[0]; k >= 0 && k < len(r.measuredPos) {
+			pos = r.measuredPos[k]
+		}
+		out = append(out, Defect{Kind: DefectSwapped, Design: s.Design[:], Measured: s.Measured[:], Position: pos})
+	}
+	for _, s := range r.Sites {
+		kind := ""
+		switch {
+		case s.WithinTolerance != nil && !*s.WithinTolerance:
+			kind = DefectOutOfTolerance
+		case s.Outlier:
+			kind = DefectOutlier
+		default:
+			continue
+		}
+		d := Defect{Kind: kind, Measured: []int{s.Measured}, Position: s.Position, Residual: s.Residual}
+		if s.Design != nil {
+			d.Design = []int{*s.Design}
+		}
+		out = append(out, d)
+	}
+	slices.SortStableFunc(out, func(a, b Defect) int { return cmp.Compare(a.Position, b.Position) })
+	return out
+}
