@@ -30,6 +30,7 @@ type auditFlags struct {
 	allowMissing int
 	allowExtra   int
 	gate         float64
+	maxScaleErr  float64
 	landmarks    int
 	seed         uint64
 }
@@ -44,6 +45,7 @@ func (f *auditFlags) register(fs *pflag.FlagSet) {
 	fs.IntVar(&f.allowMissing, "allow-missing", 0, "number of missing design sites allowed")
 	fs.IntVar(&f.allowExtra, "allow-extra", 0, "number of extra measured sites allowed")
 	fs.Float64Var(&f.gate, "gate", register.DefaultGate, "match gate, as a fraction of the smaller design spacing next to a site")
+	fs.Float64Var(&f.maxScaleErr, "max-scale-error", audit.DefaultMaxScaleError, "largest relative error of the registration scale allowed, a `FRACTION` (0.02 = 2%): a scale outside 1 ± it fails the audit, and one near a ratio of units (1000, 25.4, …) is named as a unit mismatch; inf turns the check off")
 	fs.IntVar(&f.landmarks, "landmarks", hull.DefaultLandmarks, "landmarks for the hull analyses")
 	fs.Uint64Var(&f.seed, "seed", hull.DefaultSeed, "seed of every random choice of the hull analyses")
 }
@@ -74,7 +76,12 @@ spec, told apart by content: a JSON object with a "family" key is a spec
 --print-spec" writes one). A spec's fabrication perturbations (noise,
 missing, extra, drift) are left out: the design is the unperturbed layout.
 Units: the design is converted to the sample's unit (nm, um, mm, cm, m);
-a design without a unit is taken to be in the sample's.
+a design without a unit is taken to be in the sample's, and a sample
+without one in the design's. The fitted scale checks that: outside
+1 ± --max-scale-error (default 0.02, a fraction: 2%) the audit fails, and
+a scale near a ratio of units (1000, 10^6, 25.4, …) is named as a unit
+mismatch with the flag that fixes it (--unit for the sample,
+--design-unit for the design).
 
 Registration. Measured sites are matched one to one, in chain order, to
 design sites by a dynamic-programming alignment of the two sorted chains
@@ -85,7 +92,10 @@ so that the local scale grows from scale at the first design site to
 scale·(1 + 2·drift) at the last) is fitted to the matched pairs by
 iteratively reweighted least squares with Tukey's biweight, alternating
 with the matching until it settles; the uncertainties are standard errors
-of that fit. A sample that runs from the design's last site has a negative
+of that fit. The whole matching shifted by one site, two, … either way is
+then settled again and the costs of the alignments compared: a missing
+and an extra site that such a shift explains are not reported, and
+alignments that still tie (alignment.ties in --json) are named in a note. A sample that runs from the design's last site has a negative
 scale; --direction auto keeps the forward fit unless the reversed one is
 clearly better, which for a design that is nearly its own mirror image it
 never is: say --direction reversed for such a sample.
@@ -107,8 +117,8 @@ Without --design, the sites are screened against the sample's own hull:
 sites whose residual from the fitted hull model exceeds 4 robust sigmas are
 flagged, sites the model left out are counted as extra.
 
-Verdict: pass when no more sites are missing (--allow-missing) or extra
-(--allow-extra) than allowed, every matched site is within --tolerance
+Verdict: pass when the scale is within 1 ± --max-scale-error, no more
+sites are missing (--allow-missing) or extra (--allow-extra) than allowed, every matched site is within --tolerance
 (when given), and the hulls agree; otherwise fail, with the reasons.
 Outliers are reported but decide nothing unless --tolerance is given.
 
@@ -119,7 +129,8 @@ scan order, so a flagged site can be found in the file. Swapped neighbours
 show only when the file lists the sites in chain order.
 
 --json prints one object (schema phasonhull.audit/1): verdict, reasons,
-offset, scale, drift (with --drift) and their uncertainties, rms, max,
+offset, scale, drift (with --drift) and their uncertainties,
+max_scale_error, alignment {cost, cost_uncertainty, ties}, rms, max,
 missing, extra, merged, outliers, sites, hull {design, measured,
 comparison, reference}. --out writes the report to a file instead (nothing
 is written on bad input).
@@ -152,7 +163,10 @@ or flags, 1 for a bug.`,
 // refusing values no audit can use.
 func (f *auditFlags) options() (audit.Options, error) {
 	opt := audit.Options{AllowMissing: f.allowMissing, AllowExtra: f.allowExtra, Drift: f.drift, Gate: f.gate,
-		Hull: hull.Options{Landmarks: f.landmarks, Seed: f.seed}}
+		MaxScaleError: f.maxScaleErr, Hull: hull.Options{Landmarks: f.landmarks, Seed: f.seed}}
+	if !(f.maxScaleErr > 0) {
+		return opt, fmt.Errorf("--max-scale-error %g: must be a positive fraction (0.02 = 2%%)", f.maxScaleErr)
+	}
 	if !(f.gate > 0 && f.gate < 1) {
 		return opt, fmt.Errorf("--gate %g: must lie in (0, 1)", f.gate)
 	}

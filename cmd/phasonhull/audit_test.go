@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
@@ -20,7 +21,8 @@ import (
 // of 200 sites, 450 nm apart, 40 nm first harmonic at θ = 0.381966),
 // design_um.csv (the same design written in micrometres), and samples
 // generated from the spec with 2 nm of position noise: sample_clean.csv and
-// sample_angle.csv (built with θ = 0.39 instead).
+// sample_angle.csv (built with θ = 0.39 instead); and sample_nm_nounit.csv,
+// a sample of the same design in nm written without a unit.
 const auditDir = "../../testdata/audit"
 
 func auditPath(name string) string { return filepath.Join(auditDir, name) }
@@ -149,5 +151,30 @@ func TestAuditHelp(t *testing.T) {
 		if code != exitOK || !strings.Contains(out, want) {
 			t.Errorf("help lacks %q", want)
 		}
+	}
+}
+
+// A design in um against a sample written in nm without a unit fails
+// (exit 3) and names the units and the flag; with --unit nm it passes.
+// The sample built with another angle is registered without a slip.
+func TestAuditUnitMismatch(t *testing.T) {
+	args := []string{"--design", auditPath("design_um.csv"), auditPath("sample_nm_nounit.csv")}
+	code, rep := auditJSON(t, args...)
+	reasons := fmt.Sprint(rep["reasons"])
+	if code != exitFail || !strings.Contains(reasons, "written in nm against a design in um? give --unit nm") {
+		t.Errorf("exit %d, reasons %s", code, reasons)
+	}
+	if code, rep = auditJSON(t, append(args, "--unit", "nm")...); code != exitOK {
+		t.Errorf("with --unit nm: exit %d, reasons %v", code, rep["reasons"])
+	}
+	if code, _, stderr := runCmd(append([]string{"audit"}, append(args, "--max-scale-error", "0")...)...); code != exitInput {
+		t.Errorf("--max-scale-error 0: exit %d (%s)", code, stderr)
+	}
+	_, rep = auditJSON(t, "--design", auditPath("design.json"), auditPath("sample_angle.csv"))
+	if m, e := rep["missing"].([]any), rep["extra"].([]any); len(m) != 0 || len(e) != 0 {
+		t.Errorf("sample_angle.csv: missing %v extra %v; every site is present", m, e)
+	}
+	if a, ok := rep["alignment"].(map[string]any); !ok || a["ties"] == nil {
+		t.Errorf("alignment %v", rep["alignment"])
 	}
 }

@@ -20,12 +20,24 @@
 //     sigma (1.4826 times the median absolute deviation), so that
 //     displaced sites do not pull the calibration.
 //
+// Once the matching has settled, every offset of the whole alignment that
+// could compete is tried (see settle in shift.go): the matching shifted by
+// one site, two, … either way along the measured chain, from which the
+// matching and calibration settle again, for as long as the result or the
+// shift itself could tie with the best. Their costs (the objective of the
+// alignment, with an uncertainty from the scatter of the residuals) are
+// compared; among those that tie with the cheapest, the one leaving the
+// fewest sites unmatched is kept, so that a missing and an extra site that
+// a one-site shift of the whole alignment explains are never reported.
+// Alignments that still tie with the one kept are listed in Result.Ties
+// rather than dropped silently: the data cannot tell them apart.
+//
 // The first calibration is chosen among the lines through a pair of sites
 // near each end of both chains, so that missing or extra sites at the ends
 // do not derail it; both directions are tried, so that a chain measured
 // from its other end is registered too (with a negative scale).
 //
 // The result lists the matched pairs with their residuals, the missing,
-// extra, merged and swapped sites, robust outliers, and the calibration
-// with its standard errors.
+// extra, merged and swapped sites, robust outliers, the calibration
+// with its standard errors, and the cost of the alignment with its ties.
 package register

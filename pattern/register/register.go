@@ -118,6 +118,18 @@ type Result struct {
 	// the residuals of all matched sites.
 	RMS, Max float64
 
+	// Cost is the alignment objective of the matching under the final
+	// calibration: one per unmatched site of either chain plus
+	// (residual/gate)² per matched pair. CostErr is its standard
+	// uncertainty from the scatter of the residuals (Sigma).
+	Cost, CostErr float64
+	// Ties lists the other alignments — the whole matching shifted along
+	// the measured chain — that leave as many sites unmatched and whose
+	// cost is within TieFactor combined uncertainties of Cost: the data
+	// cannot tell them from this one. Empty when the registration is
+	// unambiguous.
+	Ties []Tie
+
 	// Iterations counts the alternations of matching and fitting;
 	// Converged says whether the matching settled before MaxIter.
 	Iterations int
@@ -217,7 +229,11 @@ func Register(design, measured []float64, opt Options) (*Result, error) {
 	if len(runs) == 2 && runs[1].clearlyBetter(runs[0], len(ds.x)) {
 		best = runs[1]
 	}
-	res := &Result{m: best.m, Iterations: best.iterations, Converged: best.converged}
+	best, c, tied := g.settle(best, ms.x, gates, opt.MaxIter)
+	res := &Result{m: best.m, Iterations: best.iterations, Converged: best.converged, Cost: c.cost, CostErr: c.costErr, Ties: []Tie{}}
+	for _, t := range tied {
+		res.Ties = append(res.Ties, Tie{Shift: t.shift, Cost: t.cost, CostErr: t.costErr, Missing: t.missing, Extra: t.extra})
+	}
 	res.fill(g, ds, ms, best.pairs, best.w)
 	return res, nil
 }

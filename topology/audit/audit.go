@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -33,6 +34,12 @@ type Options struct {
 	// Gate is the match gate, a fraction in (0, 1) of the smaller design
 	// spacing next to a site; 0 means register.DefaultGate.
 	Gate float64
+	// MaxScaleError is the largest relative error of the registration
+	// scale allowed, a fraction: the audit fails when the magnitude of
+	// the fitted scale is outside 1 ± MaxScaleError (a design and a sample
+	// in different units, say). 0 means DefaultMaxScaleError; +Inf turns
+	// the check off.
+	MaxScaleError float64
 	// Hull controls the hull analysis of the sample.
 	Hull hull.Options
 }
@@ -41,6 +48,9 @@ type Options struct {
 func (o Options) Validate() error {
 	if !(o.Gate >= 0 && o.Gate < 1) {
 		return fmt.Errorf("audit: gate %g: must lie in (0, 1)", o.Gate)
+	}
+	if !(o.MaxScaleError >= 0) {
+		return fmt.Errorf("audit: max scale error %g: must be a positive fraction", o.MaxScaleError)
 	}
 	if o.AllowMissing < 0 || o.AllowExtra < 0 {
 		return errors.New("audit: the numbers of missing and extra sites allowed must not be negative")
@@ -111,6 +121,12 @@ type Report struct {
 	ScaleErr  *float64 `json:"scale_uncertainty,omitempty"`
 	Drift     *float64 `json:"drift,omitempty"`
 	DriftErr  *float64 `json:"drift_uncertainty,omitempty"`
+	// MaxScaleError is the largest relative scale error allowed (a
+	// fraction; Options.MaxScaleError); absent without a design.
+	MaxScaleError *float64 `json:"max_scale_error,omitempty"`
+	// Alignment is the cost of the registration's matching and the
+	// alignments that tie with it; absent without a registration.
+	Alignment *Alignment `json:"alignment,omitempty"`
 
 	Sigma            float64  `json:"sigma"`
 	OutlierThreshold float64  `json:"outlier_threshold"`
@@ -130,6 +146,29 @@ type Report struct {
 
 	designPos, measuredPos []float64
 	reg                    *register.Result
+}
+
+// Alignment is the cost of the matching of the registration
+// (register.Result.Cost: one per unmatched site plus (residual/gate)² per
+// matched pair) with its standard uncertainty, and the other alignments
+// whose cost ties with it (register.Result.Ties); Ties is empty when the
+// matching is unambiguous.
+type Alignment struct {
+	Cost    float64 `json:"cost"`
+	CostErr float64 `json:"cost_uncertainty"`
+	Ties    []Tie   `json:"ties"`
+}
+
+// Tie is an alignment the data cannot tell from the one reported: the
+// whole matching shifted by Shift sites along the sample (sorted
+// ascending), leaving as many sites unmatched, at a cost within
+// register.TieFactor combined uncertainties.
+type Tie struct {
+	Shift   int     `json:"shift"`
+	Cost    float64 `json:"cost"`
+	CostErr float64 `json:"cost_uncertainty"`
+	Missing int     `json:"missing"`
+	Extra   int     `json:"extra"`
 }
 
 // Merge is one measured site midway between two missing design sites.
@@ -249,6 +288,10 @@ type audit struct {
 	tol    float64 // the tolerance in the sample's unit; 0 for none
 	design *Design
 
+	// designUnit and sampleUnit are the units the design and the sample
+	// came with ("" for none), for the scale rule's hint.
+	designUnit, sampleUnit string
+
 	measuredErr error               // why the sample's hull could not be analysed
 	registerErr error               // why the sample could not be registered
 	noModel     bool                // the sample's hull has no model to screen against
@@ -263,6 +306,9 @@ func (a *audit) registerOnDesign(p *pattern.Pattern) error {
 	dp := d.File.Pattern
 	rep.Design, rep.DesignKind, rep.DesignSites = d.File.Path, string(d.File.Kind), dp.Len()
 	rep.Notes = append(rep.Notes, d.File.Notes...)
+	a.designUnit, a.sampleUnit = dp.Unit, p.Unit
+	maxErr := cmp.Or(a.opt.MaxScaleError, DefaultMaxScaleError)
+	rep.MaxScaleError = &maxErr
 	factor := 1.0
 	switch {
 	case dp.Unit == p.Unit:
@@ -291,8 +337,8 @@ func (a *audit) registerOnDesign(p *pattern.Pattern) error {
 		a.fillRegistration(reg)
 	}
 	if d.HullErr == nil && rep.Hull.Measured != nil {
-		cmp := hull.CompareWith(d.Hull, rep.Hull.Measured, d.Reference)
-		rep.Hull.Comparison = &cmp
+		c := hull.CompareWith(d.Hull, rep.Hull.Measured, d.Reference)
+		rep.Hull.Comparison = &c
 	}
 	rep.Hull.Design, rep.Hull.Reference = d.Hull, d.Reference
 	return nil
@@ -307,6 +353,13 @@ func (a *audit) fillRegistration(reg *register.Result) {
 	rep.Scale, rep.ScaleErr = &reg.Scale, &reg.ScaleErr
 	if reg.DriftFitted {
 		rep.Drift, rep.DriftErr = &reg.Drift, &reg.DriftErr
+	}
+	rep.Alignment = &Alignment{Cost: reg.Cost, CostErr: reg.CostErr, Ties: []Tie{}}
+	for _, t := range reg.Ties {
+		rep.Alignment.Ties = append(rep.Alignment.Ties, Tie{Shift: t.Shift, Cost: t.Cost, CostErr: t.CostErr, Missing: t.Missing, Extra: t.Extra})
+	}
+	if n := len(reg.Ties); n > 0 {
+		rep.Notes = append(rep.Notes, fmt.Sprintf("the matching is ambiguous: %d other alignment(s), the whole matching shifted by %s site(s), leave as many sites unmatched at a cost within the uncertainty (alignment.ties); the one reported was the registration's own or the cheapest", n, shiftList(reg.Ties)))
 	}
 	rep.Sigma, rep.OutlierThreshold = reg.Sigma, register.OutlierFactor*reg.Sigma
 	rep.RMS, rep.Max = reg.RMS, reg.Max
@@ -397,4 +450,16 @@ func rowsOf(p *pattern.Pattern, idx []int) []int {
 	}
 	slices.Sort(out)
 	return out
+}
+
+// shiftList writes the shifts of ties as "+1, −2".
+func shiftList(ties []register.Tie) string {
+	s := ""
+	for i, t := range ties {
+		if i > 0 {
+			s += ", "
+		}
+		s += fmt.Sprintf("%+d", t.Shift)
+	}
+	return s
 }

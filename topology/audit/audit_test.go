@@ -22,7 +22,10 @@ import (
 // of 200 sites, 450 nm apart, 40 nm first harmonic at θ = 0.381966),
 // design_um.csv (the same design written in micrometres), and samples
 // generated from the spec with 2 nm of position noise: sample_clean.csv and
-// sample_angle.csv (built with θ = 0.39 instead).
+// sample_angle.csv (built with θ = 0.39 instead); and sample_nm_nounit.csv,
+// a sample of the same design in nm written without a unit (phasonhull
+// generate modulated --sites 200 --spacing 450 --theta 0.381966 --sin 40
+// --noise 2 --seed 11), which against design_um.csv is a unit mismatch.
 const auditDir = "../../testdata/audit"
 
 func auditPath(name string) string { return filepath.Join(auditDir, name) }
@@ -286,6 +289,11 @@ func TestOtherAngleFails(t *testing.T) {
 	if len(rep.Reasons) != 1 || !strings.HasPrefix(rep.Reasons[0], "hull: ") {
 		t.Errorf("reasons %v: want the hull verdict alone", rep.Reasons)
 	}
+	// Every site is present: the registration must not slip by one site
+	// (design #0 missing, the last measured site extra).
+	if len(rep.Missing) != 0 || len(rep.Extra) != 0 || rep.Matched != 200 {
+		t.Errorf("missing %v extra %v, %d matched; every site is present", rep.Missing, rep.Extra, rep.Matched)
+	}
 	cmp := rep.Hull.Comparison
 	if cmp == nil || cmp.Agree || len(cmp.Angles) != 2 {
 		t.Fatalf("comparison %+v", cmp)
@@ -343,6 +351,67 @@ func TestRunRefuses(t *testing.T) {
 	} {
 		if rep, err := audit.Run(context.Background(), nil, c.p, c.opt); err == nil {
 			t.Errorf("%s: no error, verdict %v", name, rep.Verdict)
+		}
+	}
+}
+
+// A design in um against a sample written in nm without a unit: the
+// sample is taken to be in um, the registration fits a scale of 1000, and
+// the audit fails on it, naming the units and the flag; with the sample's
+// unit given it passes. A scale near no unit ratio fails without a hint,
+// and one within the allowed error passes.
+func TestScaleRule(t *testing.T) {
+	d := readDesign(t, "design_um.csv")
+	p := readSample(t, "sample_nm_nounit.csv")
+	rep := run(t, d, p, audit.Options{})
+	if rep.Verdict != audit.Fail || len(rep.Reasons) != 1 {
+		t.Fatalf("verdict %v, reasons %v", rep.Verdict, rep.Reasons)
+	}
+	for _, want := range []string{"1000×", "in nm against a design in um", "--unit nm", "--max-scale-error"} {
+		if !strings.Contains(rep.Reasons[0], want) {
+			t.Errorf("reason %q lacks %q", rep.Reasons[0], want)
+		}
+	}
+	if m := jsonOf(t, rep); m["max_scale_error"] != audit.DefaultMaxScaleError {
+		t.Errorf("max_scale_error %v", m["max_scale_error"])
+	}
+	withUnit, err := pattern.ReadFile(auditPath("sample_nm_nounit.csv"), pattern.ReadOptions{Unit: "nm"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep := run(t, d, withUnit, audit.Options{}); rep.Verdict != audit.Pass {
+		t.Errorf("with the unit nm: verdict %v, reasons %v", rep.Verdict, rep.Reasons)
+	}
+	// The design in nm, the sample scaled by 400 or 1.01.
+	dn := readDesign(t, "design.json")
+	for _, c := range []struct {
+		scale   float64
+		maxErr  float64
+		fails   bool
+		mention string
+	}{
+		{400, 0, true, "outside 1 ± 0.02"},
+		{1.01, 0, false, ""},
+		{1.01, 0.005, true, "outside 1 ± 0.005"},
+		{1e6, 0, true, "10^6×"},
+		{1 / 25.4, 0, true, "inches"},
+		{400, math.Inf(1), false, ""},
+	} {
+		x := slices.Clone(p.Positions)
+		for i := range x {
+			x[i] *= c.scale
+		}
+		q, err := pattern.New(x, "nm", "scaled")
+		if err != nil {
+			t.Fatal(err)
+		}
+		rep := run(t, dn, q, audit.Options{MaxScaleError: c.maxErr})
+		failed := slices.ContainsFunc(rep.Reasons, func(r string) bool { return strings.Contains(r, "registration scale") })
+		if failed != c.fails || (c.fails && !strings.Contains(rep.Reasons[0], c.mention)) {
+			t.Errorf("scale %v, max error %v: reasons %v", c.scale, c.maxErr, rep.Reasons)
+		}
+		if c.scale == 400 && c.fails && strings.Contains(rep.Reasons[0], "looks") {
+			t.Errorf("scale 400 named as a unit ratio: %v", rep.Reasons[0])
 		}
 	}
 }

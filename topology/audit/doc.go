@@ -19,16 +19,28 @@
 //     sites against (a circle or torus, say, but not an unresolved hull);
 //  3. screening (no design): the model leaves some site to screen;
 //  4. registration (design): the sample can be registered on the design;
-//  5. missing (design): no more design sites are missing than
+//  5. scale (design): the magnitude of the registration scale is within
+//     1 ± Options.MaxScaleError (default 2%); a scale near a ratio of
+//     length units (10^±k, 25.4, 2.54 and their inverses, within the
+//     allowed error plus three standard errors) is named as a unit
+//     mismatch, with the units it suggests and the flag that fixes it —
+//     a design or sample without a unit is taken to be in the other's
+//     unit, and this rule catches the case where it is not;
+//  6. missing (design): no more design sites are missing than
 //     Options.AllowMissing;
-//  6. extra: no more measured sites are extra (left out of the hull model,
+//  7. extra: no more measured sites are extra (left out of the hull model,
 //     without a design) than Options.AllowExtra;
-//  7. tolerance: every matched (or screened) site is within
+//  8. tolerance: every matched (or screened) site is within
 //     Options.Tolerance of where the design (or the model) puts it, when a
 //     tolerance is given;
-//  8. design hull (design): the design's hull can be analysed;
-//  9. hull agreement (design): the hulls agree (hull.CompareWith): same
+//  9. design hull (design): the design's hull can be analysed;
+//  10. hull agreement (design): the hulls agree (hull.CompareWith): same
 //     class and period, and angles within their combined uncertainties.
+//
+// When the registration finds other alignments of the sample that tie
+// with the one it reports (a lattice cannot tell which end a missing site
+// was at, say), the report lists them (Report.Alignment) and says so in a
+// note; they decide nothing.
 //
 // Robust outliers (beyond register.OutlierFactor robust sigmas) are
 // reported but decide nothing unless a tolerance is given.

@@ -1,6 +1,9 @@
 package audit
 
-import "fmt"
+import (
+	"fmt"
+	"math"
+)
 
 // A rule is one check of the verdict: it returns why the sample fails it,
 // or "" when the sample passes it or it does not apply.
@@ -37,6 +40,21 @@ var rules = [...]rule{
 			return ""
 		}
 		return fmt.Sprintf("the sample could not be registered on the design: %v", a.registerErr)
+	}},
+	{"scale", func(a *audit) string {
+		reg := a.rep.reg
+		if reg == nil {
+			return ""
+		}
+		maxErr := *a.rep.MaxScaleError
+		if math.Abs(math.Abs(reg.Scale)-1) <= maxErr {
+			return ""
+		}
+		reason := fmt.Sprintf("the registration scale %.6g ± %.2g is outside 1 ± %g (--max-scale-error)", reg.Scale, reg.ScaleErr, maxErr)
+		if hint := likelyUnits(reg.Scale, reg.ScaleErr, maxErr, a.designUnit, a.sampleUnit); hint != "" {
+			reason += ": " + hint
+		}
+		return reason
 	}},
 	{"missing", func(a *audit) string {
 		if a.rep.reg == nil || len(a.rep.Missing) <= a.opt.AllowMissing {
