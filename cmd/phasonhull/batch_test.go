@@ -131,6 +131,11 @@ func TestBatchAudit(t *testing.T) {
 	if !strings.Contains(rows[2]["reasons"], "hull: ") {
 		t.Errorf("angle sample reasons %q", rows[2]["reasons"])
 	}
+	// Another angle, every site present: the registration does not slip
+	// by a site (no missing + extra pair), so only the hull fails.
+	if rows[2]["missing"] != "0" || rows[2]["extra"] != "0" || strings.Contains(rows[2]["reasons"], "missing") {
+		t.Errorf("angle sample: missing %s, extra %s (%s): want 0 and 0", rows[2]["missing"], rows[2]["extra"], rows[2]["reasons"])
+	}
 	// The same row as the audit command gives for the file.
 	_, rep := auditJSON(t, "--design", auditPath("design.json"), files[0])
 	if s := strconv.FormatFloat(num(rep, "scale"), 'g', -1, 64); rows[0]["scale"] != s {
