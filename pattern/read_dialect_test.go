@@ -251,3 +251,16 @@ func TestRead2DRefused(t *testing.T) {
 		t.Errorf("zigzag: transverse RMS %g, want about 0.3", p.Scan.TransverseRMS)
 	}
 }
+
+// TestReadDecimalCommaFlag: testdata/bad/decimal_comma.csv, a column of
+// whole numbers with one "5,25", is ambiguous as it stands (refused in
+// the bad corpus) and reads with DecimalComma.
+func TestReadDecimalCommaFlag(t *testing.T) {
+	p, err := ReadFile(filepath.Join("..", "testdata", "bad", "decimal_comma.csv"), ReadOptions{DecimalComma: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := []float64{0, 1, 2, 3, 4, 5.25, 6, 7, 8, 9}; !slices.Equal(p.Positions, want) {
+		t.Errorf("positions = %v, want %v", p.Positions, want)
+	}
+}
