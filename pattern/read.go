@@ -138,9 +138,13 @@ func ReadFile(path string, opt ReadOptions) (*Pattern, error) {
 // LF or CRLF line ends, '#' comments (whole-line or trailing), blank lines.
 //
 // Numeric columns are separated by commas, semicolons, tabs or spaces, in
-// the spreadsheet dialects described in read_dialect.go: a "sep=" first
-// line, quoted fields, a separator ending every line, decimal commas
-// (opt.DecimalComma, or detected in semicolon- and tab-separated files).
+// the dialects spreadsheets write: a "sep=;" first line fixes the
+// separator; fields may be quoted; a separator may end every line (the
+// first line says whether they all do); a decimal comma is read under
+// opt.DecimalComma, or when the numbers of semicolon- or tab-separated
+// fields hold a comma. A dialect that is ambiguous or used in part (a
+// missing trailing separator, decimal points and commas mixed) is refused
+// where it stops being consistent.
 // An optional first row of names is a header, and a unit written in it
 // ("position_mm", "x [um]", "pos (nm)"), or after the number in every
 // cell of a column ("0.25 mm"), becomes the Pattern's Unit. opt.Columns

@@ -103,8 +103,8 @@ func (rd *reader) dropIndexColumns(t *table) ([]string, error) {
 			constant = constant && v == first
 		}
 		if isIndex && t.header != nil {
-			switch strings.ToLower(strings.TrimSpace(strings.SplitN(t.header[t.src[j]], "[", 2)[0])) {
-			case "x", "y", "z", "x_mm", "y_mm", "z_mm", "x_um", "y_um", "z_um", "x_nm", "y_nm", "z_nm":
+			switch axisName(t.header[t.src[j]]) {
+			case "x", "y", "z":
 				isIndex = false
 			}
 		}
@@ -141,6 +141,16 @@ func (rd *reader) dropIndexColumns(t *table) ([]string, error) {
 	}
 	t.vals, t.cols, t.src, t.cellUnit = vals, keep, t.src[:keep], t.cellUnit[:keep]
 	return notes, nil
+}
+
+// axisName is a column name without its unit, in lower case: "X [mm]",
+// "x_mm" and "x" all give "x".
+func axisName(h string) string {
+	name := strings.ToLower(withoutUnit(h))
+	if i := strings.LastIndexByte(name, '_'); i > 0 && unitOf(name) != "" {
+		name = name[:i]
+	}
+	return name
 }
 
 // tableUnit returns the unit of the kept columns: the one their header

@@ -116,13 +116,15 @@ func TestReadIndexColumn(t *testing.T) {
 		}
 	})
 	t.Run("a header naming x keeps it", func(t *testing.T) {
-		in := "x,y\n" + rows("%d,%g", 12, func(i int) []any { return []any{i, 0.01 * float64(i%3)} })
-		p, err := Read(strings.NewReader(in), "in", ReadOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		if p.Scan == nil {
-			t.Errorf("notes %q: want x,y read as centroids", p.Notes)
+		for _, header := range []string{"x,y", "x_mm,y_mm", "X [um],Y [um]"} {
+			in := header + "\n" + rows("%d,%g", 12, func(i int) []any { return []any{i, 0.01 * float64(i%3)} })
+			p, err := Read(strings.NewReader(in), "in", ReadOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if p.Scan == nil {
+				t.Errorf("%s: notes %q: want x,y read as centroids", header, p.Notes)
+			}
 		}
 	})
 	t.Run("step 2 is not an index", func(t *testing.T) {
