@@ -6,15 +6,16 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
-// fuzzSeeds adds every file of testdata/read/good and testdata/read/bad to
-// the seed corpus of f, so the fuzzer starts from real layouts and from the
-// faults already known.
+// fuzzSeeds adds every file of testdata/read/good, testdata/read/bad and
+// testdata/dialects to the seed corpus of f, so the fuzzer starts from real
+// layouts, from every spreadsheet dialect and from the faults already known.
 func fuzzSeeds(f *testing.F, add func(data []byte)) {
-	for _, dir := range []string{"good", "bad"} {
-		paths, err := filepath.Glob(filepath.Join("..", "testdata", "read", dir, "*"))
+	for _, dir := range []string{filepath.Join("read", "good"), filepath.Join("read", "bad"), "dialects"} {
+		paths, err := filepath.Glob(filepath.Join("..", "testdata", dir, "*"))
 		if err != nil {
 			f.Fatal(err)
 		}
@@ -81,20 +82,52 @@ func checkInvariant(t *testing.T, p *Pattern) {
 // readers.
 func FuzzReadAuto(f *testing.F) {
 	fuzzSeeds(f, func(data []byte) { f.Add(data) })
+	for _, s := range dialectSeeds {
+		f.Add([]byte(s))
+	}
 	f.Fuzz(func(t *testing.T, data []byte) {
 		checkRead(t, data, ReadOptions{})
 	})
 }
 
-// FuzzReadColumns feeds arbitrary bytes to the column reader, both as
-// positions and as spacings.
+// dialectSeeds are small inputs in each spreadsheet dialect and on the
+// edges between them.
+var dialectSeeds = []string{
+	"sep=;\n\"Site\";\"Position [mm]\"\n1;0,5\n2;1,5\n3;2,5\n4;3,5\n5;4,5\n6;5,5\n7;6,5\n8;7,5\n",
+	"\xef\xbb\xbf\"x [um]\",\"y [um]\"\n\"0\",\"1\"\n\"1\",\"1\"\n\"2\",\"1\"\n\"3\",\"1\"\n\"4\",\"1\"\n\"5\",\"1\"\n\"6\",\"1\"\n\"7\",\"1\"\n",
+	"1.5;\n2.5;\n3;\n4;\n5.5;\n6;\n7;\n8.5;\n",
+	"1;0,25\t\n2\t1,5\n3\t2,5\n4\t3,5\n5\t4,5\n6\t5,5\n7\t6,5\n8\t7,5\n",
+	"0 mm\n1 mm\n2.5 mm\n3mm\n4 mm\n5 mm\n6 mm\n7 mm\n",
+	"Name,X,Y,Z\nA,0,0,0\nB,1,0,0\nC,2,0,0\nD,3,0,0\nE,4,0,0\nF,5,0,0\nG,6,0,0\nH,7,0,0\n",
+	"\"a\"\"b\",\"1\"\n\"2\"x;3\n\"",
+	"0,5\n1,5\n2,5\n3,5\n4,5\n5,5\n6,5\n7,5\n",
+}
+
+// FuzzReadColumns feeds arbitrary bytes to the column reader, as positions
+// or spacings, with or without --decimal-comma and with any --columns
+// (comma separated, as the flag is).
 func FuzzReadColumns(f *testing.F) {
-	fuzzSeeds(f, func(data []byte) { f.Add(data, false) })
-	f.Add([]byte("1\n2\n3\n4\n5\n6\n7\n8\n9\n"), true)
-	f.Fuzz(func(t *testing.T, data []byte, spacings bool) {
-		opt := ReadOptions{Format: FormatColumn}
+	fuzzSeeds(f, func(data []byte) { f.Add(data, false, false, "") })
+	f.Add([]byte("1\n2\n3\n4\n5\n6\n7\n8\n9\n"), true, false, "")
+	for _, s := range dialectSeeds {
+		f.Add([]byte(s), false, true, "")
+		f.Add([]byte(s), false, false, "2")
+		f.Add([]byte(s), true, false, "Position")
+		f.Add([]byte(s), false, true, "X,Y")
+	}
+	f.Fuzz(func(t *testing.T, data []byte, spacings, decimalComma bool, columns string) {
+		opt := ReadOptions{Format: FormatColumn, DecimalComma: decimalComma}
 		if spacings {
 			opt.Format = FormatSpacings
+		}
+		if columns != "" {
+			opt.Columns = strings.Split(columns, ",")
+			if !spacings {
+				opt.Format = FormatAuto // one column or centroids, as chosen
+			}
+		}
+		if checkOptions(opt) != nil {
+			return // the options, not the input, are refused: a plain error
 		}
 		checkRead(t, data, opt)
 	})
@@ -103,6 +136,9 @@ func FuzzReadColumns(f *testing.F) {
 // FuzzReadCentroids feeds arbitrary bytes to the centroid reader.
 func FuzzReadCentroids(f *testing.F) {
 	fuzzSeeds(f, func(data []byte) { f.Add(data) })
+	for _, s := range dialectSeeds {
+		f.Add([]byte(s))
+	}
 	f.Fuzz(func(t *testing.T, data []byte) {
 		checkRead(t, data, ReadOptions{Format: FormatCentroids})
 	})

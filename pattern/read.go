@@ -62,6 +62,16 @@ type ReadOptions struct {
 	Tiles map[string]float64
 	// Unit, when set, overrides the unit found in the file.
 	Unit string
+	// Columns chooses the columns of a table to read, in order, each by
+	// its header name or its 1-based number: {"X", "Y"}, {"3"},
+	// {"Position [mm]"}. A name matches exactly, else ignoring case, else
+	// ignoring case and the unit. Nil reads every column except a site
+	// index (see Read).
+	Columns []string
+	// DecimalComma reads ',' as the decimal mark ("0,25"), so that it
+	// never separates fields. Without it a decimal comma is read only when
+	// the file shows it unambiguously (see Read).
+	DecimalComma bool
 }
 
 // InputError is a refusal of input: it names the file and, where they are
@@ -127,12 +137,24 @@ func ReadFile(path string, opt ReadOptions) (*Pattern, error) {
 // Accepted text, in every format: UTF-8 with or without a byte-order mark,
 // LF or CRLF line ends, '#' comments (whole-line or trailing), blank lines.
 //
-// Numeric columns are separated by commas, semicolons, tabs or spaces; an
-// optional first row of names is a header, and a unit written in it
-// ("position_mm", "x [um]", "pos (nm)") becomes the Pattern's Unit. One
-// column holds positions (or spacings under FormatSpacings, whose cumulative
-// sums from 0 are the positions); two or three hold x,y[,z] centroids, which
-// are projected onto their principal axis (see Scan).
+// Numeric columns are separated by commas, semicolons, tabs or spaces, in
+// the dialects spreadsheets write: a "sep=;" first line fixes the
+// separator; fields may be quoted; a separator may end every line (the
+// first line says whether they all do); a decimal comma is read under
+// opt.DecimalComma, or when the numbers of semicolon- or tab-separated
+// fields hold a comma. A dialect that is ambiguous or used in part (a
+// missing trailing separator, decimal points and commas mixed) is refused
+// where it stops being consistent.
+// An optional first row of names is a header, and a unit written in it
+// ("position_mm", "x [um]", "pos (nm)"), or after the number in every
+// cell of a column ("0.25 mm"), becomes the Pattern's Unit. opt.Columns
+// chooses the columns to read; without it a column of consecutive whole
+// numbers with step 1 (a site number) is an index, left out with a note,
+// and a column of text is refused with a hint to choose. One column holds
+// positions (or spacings under FormatSpacings, whose cumulative sums from
+// 0 are the positions); two or three hold x,y[,z] centroids, which are
+// projected onto their best line (see Scan) when they lie close to it and
+// refused as a 2D point set otherwise.
 //
 // A tile word is a string of single ASCII letters, optionally separated by
 // spaces, commas or line breaks; opt.Tiles gives each letter's length and
@@ -168,6 +190,7 @@ type reader struct {
 	file string // the name shown in errors
 	opt  ReadOptions
 	lim  limits
+	dia  dialect
 }
 
 // errorf returns an *InputError at line and col of the file.
@@ -191,9 +214,13 @@ func read(r io.Reader, name string, opt ReadOptions, lim limits) (*Pattern, erro
 		return nil, err
 	}
 	rd.opt = opt
+	rd.dia.comma = opt.DecimalComma
 	format := opt.Format
 	if format == "" || format == FormatAuto {
 		format = detect(head)
+	}
+	if opt.Columns != nil && (format == FormatJSON || format == FormatTiles) {
+		return nil, rd.errorf(0, 0, "--columns chooses columns of a table, but this input is %s", map[Format]string{FormatJSON: "JSON", FormatTiles: "a tile word"}[format])
 	}
 	switch format {
 	case FormatJSON:
@@ -243,6 +270,14 @@ func checkOptions(opt ReadOptions) error {
 	}
 	if !known && opt.Format != "" {
 		return fmt.Errorf("unknown input format %q (want auto, column, centroids, spacings, tiles or json)", opt.Format)
+	}
+	if opt.Columns != nil && len(opt.Columns) == 0 {
+		return fmt.Errorf("columns: the list is empty")
+	}
+	for _, c := range opt.Columns {
+		if strings.TrimSpace(c) == "" || c != strings.TrimSpace(c) {
+			return fmt.Errorf("columns %q: a column is a header name or a number from 1, without spaces around it", opt.Columns)
+		}
 	}
 	for k, v := range opt.Tiles {
 		if len(k) != 1 || !isASCIILetter(k[0]) {

@@ -3,16 +3,26 @@ package pattern
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"gonum.org/v1/gonum/mat"
 )
 
-// maxTransverseVarianceRatio bounds the variance of the centroids across
-// their principal axis relative to the variance along it. A chain of sites
-// lies along a line, so its ratio is tiny; a cloud at or above this bound
-// (a grid, a blob) has no meaningful order along any axis and is refused.
-const maxTransverseVarianceRatio = 0.5
+// MaxOffLine is the rule that tells a chain from a 2D point set: the
+// root-mean-square distance of the centroids from their best line, in
+// mean spacings along that line, above which they are refused.
+//
+// A chain's sites lie within a small fraction of a spacing of its line:
+// the tilted scans of the testdata sit below 0.03, and scatter across the
+// line as large as half a spacing is still read as a chain. The
+// narrowest 2D set, two rows a lattice step a apart, has its sites a/2
+// off the line between them while its projections are about a/2 apart:
+// a figure near 1, and larger for every wider patch (about W²/3.5 for W
+// rows), however elongated the patch is. The ratio of the spreads across
+// and along the line would not do: a long patch of a few rows has a small
+// one.
+const MaxOffLine = 0.5
 
 // fromCentroids reduces n centroids of dim coordinates (row-major in vals,
 // read on lines) to positions along their principal axis.
@@ -25,7 +35,7 @@ const maxTransverseVarianceRatio = 0.5
 // axis is oriented so that its largest-magnitude component is positive
 // (the lower index wins a tie), which makes the result independent of the
 // row order and of the sign an eigen solver happens to return.
-func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit string) (*Pattern, error) {
+func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit string, notes []string) (*Pattern, error) {
 	n := len(vals) / dim
 	if n < MinSites {
 		return nil, rd.wrap(0, 0, fmt.Errorf("%w: %d, need at least %d", ErrTooFew, n, MinSites))
@@ -54,13 +64,8 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 	if !eig.Factorize(cov, true) {
 		return nil, rd.errorf(0, 0, "the principal axis of the centroids could not be computed")
 	}
-	lambda := eig.Values(nil) // ascending
 	var vecs mat.Dense
 	eig.VectorsTo(&vecs)
-	if lambda[dim-1] > 0 && lambda[dim-2] >= maxTransverseVarianceRatio*lambda[dim-1] {
-		return nil, rd.errorf(0, 0, "the centroids do not lie along a line: their spread across the principal axis is %.2g times the spread along it",
-			math.Sqrt(lambda[dim-2]/lambda[dim-1]))
-	}
 	axis := mat.Col(nil, dim-1, &vecs)
 	lead := 0
 	for k := range axis {
@@ -95,6 +100,15 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 		maxDist = math.Max(maxDist, math.Sqrt(d2))
 	}
 
+	// A chain, or a 2D set (see MaxOffLine)? The comparison is false for
+	// NaN, when all centroids coincide; finish refuses them as duplicates.
+	lo, hi := slices.Min(positions), slices.Max(positions)
+	spacing := (hi - lo) / float64(n-1)
+	if rms := math.Sqrt(sumSq / float64(n)); rms > MaxOffLine*spacing {
+		return nil, rd.errorf(0, 0, "the centroids do not lie along a line: they sit %.2g spacings off their best line (root mean square, %.2g at most; a chain stays within %g): this is a 2D point set, which phasonhull does not analyse yet",
+			rms/spacing, maxDist/spacing, MaxOffLine)
+	}
+
 	// Rows may come in any order: sort them along the axis, lines with them.
 	order := make([]int, n)
 	for i := range order {
@@ -123,7 +137,7 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 	}
 	note := fmt.Sprintf("%d centroids in %d dimensions were projected onto their principal axis: a tilt of %.4g° from the first scan axis was removed; transverse scatter %.3g%s RMS, %.3g%s at most",
 		n, dim, scan.TiltDeg, scan.TransverseRMS, u, scan.TransverseMax, u)
-	p, err := rd.finish(sorted, sortedLines, unit, []string{note})
+	p, err := rd.finish(sorted, sortedLines, unit, append(notes, note))
 	if err != nil {
 		return nil, err
 	}

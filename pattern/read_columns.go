@@ -11,36 +11,178 @@ import (
 	"unicode/utf8"
 )
 
-// table is the numeric content of a column file.
+// table is the numeric content of a column file: the columns kept, in the
+// order they were asked for (all of them unless ReadOptions.Columns picks
+// some).
 type table struct {
 	cols       int
 	vals       []float64 // row-major, cols values per row
 	lines      []int     // input line of each row
-	unit       string    // unit found in the header, "" if none
+	src        []int     // the 0-based column of the file each kept column came from
+	header     []string  // the header's column names, every column; nil when there is no header
 	headerLine int       // 0 when there is no header
+	cellUnit   []string  // the unit written in every cell of each kept column, "" if none
+	bare       bool      // every number read is a bare whole number (digits and a sign)
 }
 
 func (t *table) rows() int { return len(t.lines) }
 
+// name names column k of the file for a message: its number and, when
+// there is a header, its name.
+func (t *table) name(k int) string {
+	if t.header != nil {
+		return fmt.Sprintf("column %d (%q)", k+1, t.header[k])
+	}
+	return fmt.Sprintf("column %d", k+1)
+}
+
 // readColumns reads numeric columns and builds the Pattern that format
-// asks for (FormatAuto chooses by the number of columns).
+// asks for (FormatAuto chooses by the number of columns kept).
 func (rd *reader) readColumns(br *bufio.Reader, format Format) (*Pattern, error) {
 	t, err := rd.readTable(br, tableRules{
-		columns: func(n, line int) error { return rd.checkColumns(n, format, line) },
 		header:  true,
 		noun:    "sites",
+		pick:    rd.opt.Columns,
+		pattern: true,
 	})
+	if err != nil {
+		return nil, err
+	}
+	var notes []string
+	if rd.opt.Columns == nil {
+		if notes, err = rd.dropIndexColumns(t); err != nil {
+			return nil, err
+		}
+	} else {
+		names := make([]string, t.cols)
+		for j, k := range t.src {
+			names[j] = t.name(k)
+		}
+		notes = append(notes, fmt.Sprintf("read %s, as asked", strings.Join(names, ", ")))
+	}
+	if err := rd.checkColumns(t.cols, format, t.lines[0]); err != nil {
+		return nil, err
+	}
+	unit, err := rd.tableUnit(t)
 	if err != nil {
 		return nil, err
 	}
 	switch {
 	case format == FormatSpacings:
-		return rd.fromSpacings(t.vals, func(i int) (int, int) { return t.lines[i], 1 }, t.unit)
+		return rd.fromSpacings(t.vals, func(i int) (int, int) { return t.lines[i], t.src[0] + 1 }, unit, notes)
 	case t.cols == 1:
-		return rd.finish(t.vals, t.lines, t.unit, nil)
+		return rd.finish(t.vals, t.lines, unit, notes)
 	default:
-		return rd.fromCentroids(t.vals, t.cols, t.lines, t.unit)
+		return rd.fromCentroids(t.vals, t.cols, t.lines, unit, notes)
 	}
+}
+
+// dropIndexColumns leaves out of t every column that holds consecutive
+// whole numbers with step exactly +1 (a site number 1…N or 0…N−1): it is
+// an index, not a coordinate. A column is kept all the same when the
+// header names it x, y or z, or when no column that varies would be left.
+// It returns one note for each column left out.
+//
+// A table without a header whose rows are two bare whole numbers split
+// at a comma is refused when its first column counts 0, 1, 2, …: it may
+// as well be one column of numbers with a decimal comma.
+func (rd *reader) dropIndexColumns(t *table) ([]string, error) {
+	n := t.rows()
+	if t.cols < 2 || n < 2 {
+		return nil, nil
+	}
+	index := make([]bool, t.cols)
+	some, varied := false, false
+	for j := range t.cols {
+		first := t.vals[j]
+		isIndex := first == math.Trunc(first)
+		constant := true
+		for i := 1; i < n; i++ {
+			v := t.vals[i*t.cols+j]
+			isIndex = isIndex && v == first+float64(i)
+			constant = constant && v == first
+		}
+		if isIndex && t.header != nil {
+			switch axisName(t.header[t.src[j]]) {
+			case "x", "y", "z":
+				isIndex = false
+			}
+		}
+		index[j] = isIndex
+		some = some || isIndex
+		varied = varied || (!isIndex && !constant)
+	}
+	if index[0] && t.header == nil && t.cols == 2 && t.bare && rd.dia.commaSplit > 0 {
+		return nil, rd.errorf(t.lines[0], 0, "every row is two whole numbers split at a comma, the first counting up by 1: "+
+			"if ',' is the decimal mark, pass --decimal-comma; if it separates columns, pass --columns 1,2 (or --columns 2 for the second alone)")
+	}
+	if !some || !varied {
+		return nil, nil
+	}
+	var notes []string
+	keep := 0
+	for j := range t.cols {
+		if index[j] {
+			k := t.src[j]
+			notes = append(notes, fmt.Sprintf("%s holds the consecutive whole numbers %g…%g: it was read as a site index, not a coordinate, and left out (--columns chooses the columns to read)",
+				t.name(k), t.vals[j], t.vals[(n-1)*t.cols+j]))
+			continue
+		}
+		t.src[keep], t.cellUnit[keep] = t.src[j], t.cellUnit[j]
+		keep++
+	}
+	vals := t.vals[:0]
+	for i := range n {
+		for j := range t.cols {
+			if !index[j] {
+				vals = append(vals, t.vals[i*t.cols+j])
+			}
+		}
+	}
+	t.vals, t.cols, t.src, t.cellUnit = vals, keep, t.src[:keep], t.cellUnit[:keep]
+	return notes, nil
+}
+
+// axisName is a column name without its unit, in lower case: "X [mm]",
+// "x_mm" and "x" all give "x".
+func axisName(h string) string {
+	name := strings.ToLower(withoutUnit(h))
+	if i := strings.LastIndexByte(name, '_'); i > 0 && unitOf(name) != "" {
+		name = name[:i]
+	}
+	return name
+}
+
+// tableUnit returns the unit of the kept columns: the one their header
+// names, or the one written in their cells. Columns that name a unit must
+// name the same one, in the header and in the cells alike.
+func (rd *reader) tableUnit(t *table) (string, error) {
+	unit, from := "", 0
+	if t.header != nil {
+		for _, k := range t.src {
+			u := unitOf(t.header[k])
+			if u == "" {
+				continue
+			}
+			if unit != "" && u != unit {
+				return "", rd.errorf(t.headerLine, k+1, "column %d has unit %q but column %d has %q", k+1, u, from, unit)
+			}
+			unit, from = u, k+1
+		}
+	}
+	for j, u := range t.cellUnit {
+		k := t.src[j]
+		switch {
+		case u == "":
+		case unit == "":
+			unit, from = u, k+1
+		case u != unit && from > 0 && t.header != nil && unitOf(t.header[from-1]) != "":
+			return "", rd.errorf(t.lines[0], k+1, "the cells of column %d are in %s but the header names %q for column %d", k+1, u, unit, from)
+		case u != unit:
+			return "", rd.errorf(t.lines[0], k+1, "the cells of column %d are in %s but those of column %d are in %s", k+1, u, from, unit)
+		}
+	}
+	return unit, nil
 }
 
 // tableRules says what a numeric table may hold.
@@ -48,11 +190,19 @@ type tableRules struct {
 	columns func(n, line int) error // refuses a column count; nil takes any
 	header  bool                    // a first row of column names is allowed
 	noun    string                  // what the rows are, for the limit's message
+	// pick chooses the columns to keep, by header name or 1-based number
+	// (see ReadOptions.Columns); nil keeps them all.
+	pick []string
+	// pattern allows what only a pattern's table may hold: a unit written
+	// in every cell of a column, and text columns refused with a hint to
+	// choose the columns.
+	pattern bool
 }
 
 // dataLines calls row with the fields of every line of the input that
-// holds data: comments are stripped, blank lines skipped, and an empty
-// field is refused. The fields are reused between calls.
+// holds data: comments are stripped, blank lines skipped, a "sep=" first
+// line read, and the line split in the file's dialect (see split). The
+// fields are reused between calls.
 func (rd *reader) dataLines(br *bufio.Reader, row func(line int, fields []string) error) error {
 	lr := &lineReader{rd: rd, br: br}
 	var buf []string
@@ -64,15 +214,28 @@ func (rd *reader) dataLines(br *bufio.Reader, row func(line int, fields []string
 		if !ok {
 			return nil
 		}
+		if lr.line == 1 {
+			sep, ok, err := sepLine(text)
+			if err != nil {
+				return rd.wrap(1, 1, err)
+			}
+			if ok {
+				if sep == ',' && rd.dia.comma {
+					return rd.errorf(1, 1, "\"sep=,\" makes ',' the separator, but --decimal-comma makes it the decimal mark")
+				}
+				rd.dia.sep = sep
+				continue
+			}
+		}
 		text = strings.TrimSpace(stripComment(text))
 		if text == "" {
 			continue
 		}
-		fields, col := splitFields(text, buf)
-		buf = fields
-		if col > 0 {
-			return rd.errorf(lr.line, col, "empty field (two separators in a row?)")
+		fields, err := rd.split(text, lr.line, buf)
+		if err != nil {
+			return err
 		}
+		buf = fields
 		if err := row(lr.line, fields); err != nil {
 			return err
 		}
@@ -80,41 +243,67 @@ func (rd *reader) dataLines(br *bufio.Reader, row func(line int, fields []string
 }
 
 // readTable reads the rows of a column file, checking the header, the
-// column count and every number.
+// column count and every number of the columns it keeps.
 func (rd *reader) readTable(br *bufio.Reader, rules tableRules) (*table, error) {
-	t := &table{}
-	var header []string
+	t := &table{bare: true}
+	nfields := 0 // fields on every row
 	err := rd.dataLines(br, func(line int, fields []string) error {
+		if rules.pattern && rd.dia.lineSep == 0 {
+			fields = joinCellUnits(fields)
+		}
 		if rules.header && t.headerLine == 0 && t.rows() == 0 && isHeader(joinUnits(fields)) {
-			fields = joinUnits(fields)
-			unit, err := rd.headerUnit(fields, line)
-			if err != nil {
-				return err
-			}
-			t.headerLine, t.unit, header = line, unit, slices.Clone(fields)
+			t.headerLine, t.header = line, slices.Clone(joinUnits(fields))
 			return nil
 		}
-		if t.cols == 0 {
+		if nfields == 0 {
 			if rules.columns != nil {
 				if err := rules.columns(len(fields), line); err != nil {
 					return err
 				}
 			}
-			if header != nil && len(header) != len(fields) {
-				return rd.errorf(line, 0, "the header (line %d) names %d columns but the first data row has %d", t.headerLine, len(header), len(fields))
+			if rules.pattern && rules.pick == nil && rd.opt.Format == FormatCentroids && len(fields) == 1 {
+				return rd.checkColumns(1, FormatCentroids, line)
 			}
-			t.cols = len(fields)
-		} else if len(fields) != t.cols {
-			return rd.errorf(line, 0, "expected %d columns like the first data row (line %d), got %d", t.cols, t.lines[0], len(fields))
+			if t.header != nil && len(t.header) != len(fields) {
+				return rd.errorf(line, 0, "the header (line %d) names %d columns but the first data row has %d", t.headerLine, len(t.header), len(fields))
+			}
+			nfields = len(fields)
+			src, err := rd.pickColumns(rules.pick, t, nfields, line)
+			if err != nil {
+				return err
+			}
+			t.src, t.cols = src, len(src)
+			t.cellUnit = make([]string, t.cols)
+		} else if len(fields) != nfields {
+			msg := fmt.Sprintf("expected %d columns like the first data row (line %d), got %d", nfields, t.lines[0], len(fields))
+			if rules.pattern && rd.dia.lineSep == ',' && nfields == 1 {
+				msg += "; if ',' is a decimal mark here, pass --decimal-comma"
+			}
+			return rd.errorf(line, 0, "%s", msg)
 		}
 		if t.rows() >= rd.lim.sites {
 			return rd.errorf(line, 0, "more than %d %s; inputs are limited to %d", rd.lim.sites, rules.noun, rd.lim.sites)
 		}
-		for j, f := range fields {
-			v, err := parseNumber(f)
+		for j, k := range t.src {
+			f := fields[k]
+			v, unit, err := rd.cell(f, line, rules.pattern)
 			if err != nil {
-				return rd.wrap(line, j+1, err)
+				if rules.pattern && rules.pick == nil && nfields > 1 && isText(f) {
+					err = fmt.Errorf("%w: %s holds text, not coordinates; choose the columns to read with --columns%s", err, t.name(k), columnsExample(t, fields, k))
+				}
+				return rd.wrap(line, k+1, err)
 			}
+			switch {
+			case t.rows() == 0:
+				t.cellUnit[j] = unit
+			case unit != t.cellUnit[j] && t.cellUnit[j] == "":
+				return rd.errorf(line, k+1, "%q is in %s but the cells of %s on line %d have no unit; write the unit in every cell or in the header", f, unit, t.name(k), t.lines[0])
+			case unit != t.cellUnit[j] && unit == "":
+				return rd.errorf(line, k+1, "%q has no unit but the cells of %s on line %d are in %s; write the unit in every cell or in the header", f, t.name(k), t.lines[0], t.cellUnit[j])
+			case unit != t.cellUnit[j]:
+				return rd.errorf(line, k+1, "%q is in %s but the cells of %s on line %d are in %s; use one unit throughout", f, unit, t.name(k), t.lines[0], t.cellUnit[j])
+			}
+			t.bare = t.bare && isBare(f)
 			t.vals = append(t.vals, v)
 		}
 		t.lines = append(t.lines, line)
@@ -132,6 +321,202 @@ func (rd *reader) readTable(br *bufio.Reader, rules tableRules) (*table, error) 
 	return t, nil
 }
 
+// pickColumns resolves the columns to keep (see ReadOptions.Columns) on
+// the first data row, of n fields: nil keeps them all.
+func (rd *reader) pickColumns(pick []string, t *table, n, line int) ([]int, error) {
+	if pick == nil {
+		src := make([]int, n)
+		for k := range src {
+			src[k] = k
+		}
+		return src, nil
+	}
+	src := make([]int, 0, len(pick))
+	for _, c := range pick {
+		k, err := columnIndex(c, t.header, n)
+		if err != nil {
+			at := line
+			if t.header != nil {
+				at = t.headerLine
+			}
+			return nil, rd.errorf(at, 0, "--columns %s: %v", c, err)
+		}
+		if slices.Contains(src, k) {
+			return nil, rd.errorf(line, 0, "--columns %s: column %d is chosen twice", c, k+1)
+		}
+		src = append(src, k)
+	}
+	return src, nil
+}
+
+// columnIndex finds one column of --columns: a 1-based number, or a name
+// of the header, matched exactly, else ignoring case, else ignoring case
+// and the unit.
+func columnIndex(c string, header []string, n int) (int, error) {
+	if k, err := strconv.Atoi(c); err == nil {
+		if k < 1 || k > n {
+			return 0, fmt.Errorf("there is no column %d; the rows have %d", k, n)
+		}
+		return k - 1, nil
+	}
+	if header == nil {
+		return 0, fmt.Errorf("the file has no header row to name its columns; give their numbers, from 1")
+	}
+	for _, same := range []func(a, b string) bool{
+		func(a, b string) bool { return a == b },
+		strings.EqualFold,
+		func(a, b string) bool { return strings.EqualFold(withoutUnit(a), withoutUnit(b)) },
+	} {
+		found := -1
+		for k, h := range header {
+			if same(h, c) {
+				if found >= 0 {
+					return 0, fmt.Errorf("columns %d and %d are both named so; give the number of the one to read", found+1, k+1)
+				}
+				found = k
+			}
+		}
+		if found >= 0 {
+			return found, nil
+		}
+	}
+	return 0, fmt.Errorf("no column is named so; the header names %s", quoteAll(header))
+}
+
+// bareName returns the name of column k of header without its unit, when
+// it names that column alone and needs no quoting on a command line; ""
+// otherwise.
+func bareName(header []string, k int) string {
+	if header == nil {
+		return ""
+	}
+	name := withoutUnit(header[k])
+	if name == "" || strings.ContainsAny(name, ", \t\"'") {
+		return ""
+	}
+	for j, h := range header {
+		if j != k && strings.EqualFold(withoutUnit(h), name) {
+			return ""
+		}
+	}
+	return name
+}
+
+// withoutUnit is a column name without its unit: "Position [mm]" → "Position".
+func withoutUnit(s string) string {
+	if i := strings.IndexAny(s, "[("); i > 0 {
+		s = s[:i]
+	}
+	return strings.TrimSpace(s)
+}
+
+func quoteAll(names []string) string {
+	q := make([]string, len(names))
+	for i, s := range names {
+		q[i] = strconv.Quote(s)
+	}
+	return strings.Join(q, ", ")
+}
+
+// columnsExample suggests a --columns value for a row whose column bad
+// holds text: the other columns that hold numbers, by name without unit
+// when that names one column, else by number.
+func columnsExample(t *table, fields []string, bad int) string {
+	var pick []string
+	for k, f := range fields {
+		if k == bad {
+			continue
+		}
+		if _, err := parseNumber(f); err != nil {
+			continue
+		}
+		if name := bareName(t.header, k); name != "" {
+			pick = append(pick, name)
+		} else {
+			pick = append(pick, strconv.Itoa(k+1))
+		}
+	}
+	if len(pick) == 0 || len(pick) > 3 {
+		return ""
+	}
+	return ", e.g. --columns " + strings.Join(pick, ",")
+}
+
+// isText reports whether f is a word rather than a malformed number: it
+// starts with a letter and does not read as NaN or an infinity.
+func isText(f string) bool {
+	r, _ := utf8.DecodeRuneInString(f)
+	if !unicode.IsLetter(r) {
+		return false
+	}
+	switch strings.ToLower(f) {
+	case "nan", "inf", "infinity":
+		return false
+	}
+	return true
+}
+
+// isBare reports whether f is a whole number written with digits and an
+// optional sign only.
+func isBare(f string) bool {
+	f = strings.TrimLeft(f, "+-")
+	if f == "" {
+		return false
+	}
+	for i := 0; i < len(f); i++ {
+		if f[i] < '0' || f[i] > '9' {
+			return false
+		}
+	}
+	return true
+}
+
+// cellUnits are the length units a cell may carry after its number.
+var cellUnits = []string{"pm", "nm", "um", "µm", "μm", "mm", "cm", "m", "km", "in", "mil", "px"}
+
+// cell reads one field as a number in the file's dialect; withUnit lets it
+// carry a length unit after the number ("0.25 mm", "0.25mm"), which is
+// returned normalised.
+func (rd *reader) cell(f string, line int, withUnit bool) (float64, string, error) {
+	v, err := rd.number(f, line)
+	if err == nil || !withUnit {
+		return v, "", err
+	}
+	for _, u := range cellUnits {
+		num, ok := strings.CutSuffix(f, u)
+		if !ok || num == "" {
+			continue
+		}
+		num = strings.TrimSpace(num)
+		if c := num[len(num)-1]; !('0' <= c && c <= '9' || c == '.' || c == ',') {
+			continue // "2 pm" is not "2 p" in metres
+		}
+		v, nerr := rd.number(num, line)
+		if nerr != nil {
+			return 0, "", nerr
+		}
+		return v, normalizeUnit(u), nil
+	}
+	return 0, "", err
+}
+
+// joinCellUnits rejoins a unit to the number before it, for rows split at
+// white space: "0.25 mm" is one cell.
+func joinCellUnits(fields []string) []string {
+	out := fields[:0]
+	for _, f := range fields {
+		if len(out) > 0 && slices.Contains(cellUnits, f) {
+			prev := out[len(out)-1]
+			if c := prev[len(prev)-1]; '0' <= c && c <= '9' || c == '.' {
+				out[len(out)-1] = prev + " " + f
+				continue
+			}
+		}
+		out = append(out, f)
+	}
+	return out
+}
+
 // checkColumns refuses a column count that the format cannot take.
 func (rd *reader) checkColumns(n int, format Format, line int) error {
 	switch {
@@ -143,33 +528,6 @@ func (rd *reader) checkColumns(n int, format Format, line int) error {
 		return rd.errorf(line, 0, "has 1 column; format %q expects 2 or 3 (x,y[,z])", format)
 	}
 	return nil
-}
-
-// splitFields splits a data line. A line with a semicolon is split at
-// semicolons, else one with a comma at commas, else at runs of white space
-// (tabs included). Fields are trimmed of spaces and of enclosing double
-// quotes. col > 0 reports an empty field at that field number. The fields
-// are appended to buf[:0].
-func splitFields(s string, buf []string) (fields []string, col int) {
-	fields = buf[:0]
-	switch {
-	case strings.IndexByte(s, ';') >= 0:
-		fields = append(fields, strings.Split(s, ";")...)
-	case strings.IndexByte(s, ',') >= 0:
-		fields = append(fields, strings.Split(s, ",")...)
-	case !mayHoldSpace(s):
-		fields = append(fields, s) // the common one-number line; checked below like the rest
-	default:
-		fields = append(fields, strings.Fields(s)...)
-	}
-	for i, f := range fields {
-		f = unquote(strings.TrimSpace(f))
-		if f == "" {
-			return nil, i + 1
-		}
-		fields[i] = f
-	}
-	return fields, 0
 }
 
 // mayHoldSpace reports whether s may contain white space: an ASCII space
@@ -250,23 +608,6 @@ func parseNumber(f string) (float64, error) {
 	return v, nil
 }
 
-// headerUnit returns the unit named in a header row. All columns that name
-// a unit must name the same one.
-func (rd *reader) headerUnit(fields []string, line int) (string, error) {
-	unit, from := "", 0
-	for j, f := range fields {
-		u := unitOf(f)
-		if u == "" {
-			continue
-		}
-		if unit != "" && u != unit {
-			return "", rd.errorf(line, j+1, "column %d has unit %q but column %d has %q", j+1, u, from, unit)
-		}
-		unit, from = u, j+1
-	}
-	return unit, nil
-}
-
 // unitOf extracts a unit from a column name: the text in square brackets
 // or parentheses ("x [um]", "pos (nm)"), or a known length unit after the
 // last underscore ("position_mm"). The micro sign is spelled "u".
@@ -299,7 +640,7 @@ func normalizeUnit(u string) string {
 
 // fromSpacings builds positions as the cumulative sums, from 0, of
 // spacings; at(i) is where spacing i was read.
-func (rd *reader) fromSpacings(spacings []float64, at func(i int) (line, col int), unit string) (*Pattern, error) {
+func (rd *reader) fromSpacings(spacings []float64, at func(i int) (line, col int), unit string, notes []string) (*Pattern, error) {
 	positions := make([]float64, len(spacings)+1)
 	for i, d := range spacings {
 		if !(d > 0) {
@@ -309,5 +650,5 @@ func (rd *reader) fromSpacings(spacings []float64, at func(i int) (line, col int
 		positions[i+1] = positions[i] + d
 	}
 	note := fmt.Sprintf("positions are the cumulative sums of %d spacings, starting at 0", len(spacings))
-	return rd.finish(positions, nil, unit, []string{note})
+	return rd.finish(positions, nil, unit, append(notes, note))
 }

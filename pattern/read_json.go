@@ -298,10 +298,10 @@ func (j *jsonReader) document() (*Pattern, error) {
 	}
 	switch {
 	case kind == "spacings":
-		return j.rd.fromSpacings(vals, func(i int) (int, int) { return j.at(offs[i]) }, unit)
+		return j.rd.fromSpacings(vals, func(i int) (int, int) { return j.at(offs[i]) }, unit, nil)
 	case dim <= 1: // dim 0: an empty "sites" array, refused by finish as too few
 		return j.rd.finish(vals, lines, unit, nil)
 	default:
-		return j.rd.fromCentroids(vals, dim, lines, unit)
+		return j.rd.fromCentroids(vals, dim, lines, unit, nil)
 	}
 }

@@ -90,7 +90,7 @@ func ReadValues(r io.Reader, name string) ([]float64, error) {
 		if len(v) >= rd.lim.sites {
 			return rd.errorf(line, 0, "more than %d values; inputs are limited to %d", rd.lim.sites, rd.lim.sites)
 		}
-		x, err := parseNumber(fields[0])
+		x, err := rd.number(fields[0], line)
 		if err != nil {
 			return rd.wrap(line, 1, err)
 		}

@@ -18,6 +18,8 @@ type inputFlags struct {
 	spacings bool
 	tiles    string
 	unit     string
+	columns  string
+	decimal  bool
 }
 
 // register adds the input flags to fs.
@@ -30,6 +32,10 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 		"tile lengths for a word of tile letters, e.g. A=1,B=1.618")
 	fs.StringVar(&f.unit, "unit", "",
 		"length unit of the input (nm, um, mm, ...), overriding any unit named in the file")
+	fs.StringVar(&f.columns, "columns", "",
+		"columns of a table to read, by header name or number from 1, comma separated, e.g. --columns X,Y or --columns 3 or --columns \"Position [mm]\" (default: every column but a site index of consecutive whole numbers)")
+	fs.BoolVar(&f.decimal, "decimal-comma", false,
+		"read ',' as the decimal mark, e.g. 0,25 (default false: a decimal comma is read only where the file shows it, in semicolon- or tab-separated fields)")
 }
 
 // formatList names the accepted formats: "auto, column, ...".
@@ -70,6 +76,19 @@ func (f *inputFlags) options() (pattern.ReadOptions, error) {
 		opt.Tiles = tiles
 	}
 	opt.Unit = strings.TrimSpace(f.unit)
+	if f.columns != "" {
+		if format == pattern.FormatJSON || format == pattern.FormatTiles {
+			return opt, fmt.Errorf("--columns chooses columns of a table, but --format is %s", format)
+		}
+		for _, c := range strings.Split(f.columns, ",") {
+			c = strings.TrimSpace(c)
+			if c == "" {
+				return opt, fmt.Errorf("--columns %q: an empty column name; write names or numbers from 1 between commas", f.columns)
+			}
+			opt.Columns = append(opt.Columns, c)
+		}
+	}
+	opt.DecimalComma = f.decimal
 	return opt, nil
 }
 

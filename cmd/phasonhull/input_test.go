@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"path/filepath"
@@ -47,6 +48,40 @@ func runLoad(t *testing.T, stdin string, args ...string) (string, error) {
 	return out.String(), err
 }
 
+func dialectPath(name string) string { return filepath.Join("..", "..", "testdata", "dialects", name) }
+
+// TestColumnsSameHull: the demo's centroids written as a CMM export with a
+// name column and a constant z, read with --columns X,Y, give the demo's
+// analysis: the JSON differs only in the source and the note on the
+// columns read.
+func TestColumnsSameHull(t *testing.T) {
+	analyze := func(args ...string) map[string]any {
+		t.Helper()
+		var stdout, stderr bytes.Buffer
+		if code := run(append([]string{"analyze", "--json"}, args...), nil, &stdout, &stderr); code != 0 {
+			t.Fatalf("%v: status %d: %s", args, code, stderr.String())
+		}
+		var v map[string]any
+		if err := json.Unmarshal(stdout.Bytes(), &v); err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	demo := analyze(filepath.Join("..", "..", "testdata", "demo", "lw0412_cmm.csv"))
+	cmm := analyze("--columns", "X,Y", dialectPath("cmm_name_xyz.csv"))
+	notes, _ := cmm["notes"].([]any)
+	if len(notes) == 0 || !strings.Contains(fmt.Sprint(notes[0]), `read column 2 ("X [mm]"), column 3 ("Y [mm]"), as asked`) {
+		t.Fatalf("notes %q: want the columns read first", notes)
+	}
+	cmm["notes"] = notes[1:]
+	cmm["source"] = demo["source"]
+	a, _ := json.Marshal(demo)
+	b, _ := json.Marshal(cmm)
+	if !bytes.Equal(a, b) {
+		t.Errorf("analysis of the CMM export differs from the demo's:\n%s\n%s", a, b)
+	}
+}
+
 func testFile(dir, name string) string {
 	return filepath.Join("..", "..", "testdata", "read", dir, name)
 }
@@ -69,6 +104,13 @@ func TestInputFlagsLoad(t *testing.T) {
 		{"forced tiles", "LSLLSLSL", []string{"--format", "tiles", "--tiles", "L=2,S=1", "-"}, `9 sites, unit "", word "LSLLSLSL", last 13`},
 		{"json", `{"unit": "nm", "positions": [0, 1, 2, 3, 4, 5, 6, 7]}`, []string{"--format", "json", "-"}, `8 sites, unit "nm", word "", last 7`},
 		{"tiles ignored for a column", column, []string{"--tiles", "A=1", "-"}, `8 sites, unit "", word "", last 8.5`},
+		{"index column", "", []string{dialectPath("index_site.csv")}, `10 sites, unit "mm", word "", last 7.472`},
+		{"columns by name", "", []string{"--columns", "Position [mm]", dialectPath("index_site.csv")}, `10 sites, unit "mm", word "", last 7.472`},
+		{"columns by number", "", []string{"--columns", "1", dialectPath("index_site.csv")}, `10 sites, unit "", word "", last 10`},
+		{"decimal comma", "", []string{"--decimal-comma", dialectPath("decimal_comma_flag.txt")}, `10 sites, unit "", word "", last 7.472`},
+		// testdata/bad/decimal_comma.csv is ambiguous without the flag; with it, line 6 is 5.25.
+		{"decimal comma in the bad corpus", "", []string{"--decimal-comma", badPath("decimal_comma.csv")}, `10 sites, unit "", word "", last 9`},
+		{"unit in every cell", "", []string{dialectPath("unit_cells.csv")}, `10 sites, unit "mm", word "", last 7.472`},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -102,6 +144,10 @@ func TestInputFlagsRefuse(t *testing.T) {
 		{"bad number", "", []string{testFile("bad", "centroids_not_a_number.csv")}, `centroids_not_a_number.csv:14:2: "12.3x" is not a number`, true},
 		{"too few", "0\n1\n2\n", []string{"-"}, "<stdin>: too few sites: 3, need at least 8", true},
 		{"negative spacing", "1\n1\n-1\n1\n1\n1\n1\n1\n", []string{"--spacings", "-"}, "<stdin>:3:1: spacing -1 is not positive", true},
+		{"columns of JSON", "", []string{"--format", "json", "--columns", "1", "-"}, "--columns chooses columns of a table, but --format is json", false},
+		{"columns empty name", "", []string{"--columns", "X,,Y", "-"}, `--columns "X,,Y": an empty column name`, false},
+		{"columns unknown", "", []string{"--columns", "Q", dialectPath("index_site.csv")}, `index_site.csv:1: --columns Q: no column is named so; the header names "Site", "Position [mm]"`, true},
+		{"name column", "", []string{dialectPath("cmm_name_xyz.csv")}, `cmm_name_xyz.csv:3:1: "R001" is not a number: column 1 ("Name") holds text, not coordinates; choose the columns to read with --columns, e.g. --columns X,Y,Z`, true},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -132,7 +178,8 @@ func TestInputFlagsHelp(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"--format string", "auto, column, centroids, spacings, tiles, json", "--spacings", "--tiles string", "A=1,B=1.618", "--unit string"} {
+	for _, want := range []string{"--format string", "auto, column, centroids, spacings, tiles, json", "--spacings", "--tiles string", "A=1,B=1.618", "--unit string",
+		"--columns string", "--columns X,Y", "(default: every column but a site index", "--decimal-comma", "(default false"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("help lacks %q:\n%s", want, out)
 		}
