@@ -10,8 +10,10 @@ import (
 )
 
 // MaxOffLine is the rule that tells a chain from a 2D point set: the
-// root-mean-square distance of the centroids from their best line, in
-// mean spacings along that line, above which they are refused.
+// median distance of the centroids from their best line, in mean spacings
+// along that line, above which they are refused. The median, not the mean
+// square, so that a few stray sites (debris on the stage, a mis-detected
+// centroid) far off a chain do not make it look two-dimensional.
 //
 // A chain's sites lie within a small fraction of a spacing of its line:
 // the tilted scans of the testdata sit below 0.03, and scatter across the
@@ -84,7 +86,7 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 		origin += mean[k] * axis[k]
 	}
 	positions := make([]float64, n)
-	var sumSq, maxDist float64
+	dists := make([]float64, n)
 	for i := 0; i < n; i++ {
 		// t is the coordinate along the axis, r² the squared distance from it.
 		var t, d2 float64
@@ -96,17 +98,22 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 			d2 += r * r
 		}
 		positions[i] = origin + t
-		sumSq += d2
-		maxDist = math.Max(maxDist, math.Sqrt(d2))
+		dists[i] = math.Sqrt(d2)
 	}
 
 	// A chain, or a 2D set (see MaxOffLine)? The comparison is false for
 	// NaN, when all centroids coincide; finish refuses them as duplicates.
 	lo, hi := slices.Min(positions), slices.Max(positions)
 	spacing := (hi - lo) / float64(n-1)
-	if rms := math.Sqrt(sumSq / float64(n)); rms > MaxOffLine*spacing {
-		return nil, rd.errorf(0, 0, "the centroids do not lie along a line: they sit %.2g spacings off their best line (root mean square, %.2g at most; a chain stays within %g): this is a 2D point set, which phasonhull does not analyse yet",
-			rms/spacing, maxDist/spacing, MaxOffLine)
+	var sumSq float64
+	for _, d := range dists {
+		sumSq += d * d
+	}
+	slices.Sort(dists)
+	maxDist := dists[n-1]
+	if med := dists[n/2]; med > MaxOffLine*spacing {
+		return nil, rd.errorf(0, 0, "the centroids do not lie along a line: half of them sit %.2g spacings or more off their best line (a chain stays within %g): this is a 2D point set, which phasonhull does not analyse yet",
+			med/spacing, MaxOffLine)
 	}
 
 	// Rows may come in any order: sort them along the axis, lines with them.
