@@ -1,10 +1,4 @@
-// Package clouds generates the seeded point clouds of the persistence
-// engine's reference checks and benchmarks: samples of spaces whose
-// homology is known (cube, circle, sphere, tori, the real projective plane)
-// and delay clouds of chains built from explicit formulas.
-//
-// Every generator is deterministic: the same arguments give the same cloud.
-package clouds
+package ripstest
 
 import (
 	"math"
