@@ -184,10 +184,7 @@ func barcodeOf(r *hull.Result) Barcode {
 	}
 	// Bars come sorted by dimension, then persistence, longest first.
 	for _, bar := range r.Persistence.Bars {
-		p := math.Inf(1)
-		if bar.Death != nil {
-			p = *bar.Death - bar.Birth
-		}
+		p := bar.Persistence()
 		switch {
 		case bar.Dim == 1 && len(b.H1) < 4:
 			b.H1 = append(b.H1, p)
