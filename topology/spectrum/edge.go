@@ -1,6 +1,7 @@
 package spectrum
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -132,6 +133,13 @@ type gapLevels struct {
 // after the last halving is read as a jump of the sweep (see
 // EdgeGap.Jumps).
 func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
+	return EdgeModesContext(context.Background(), sweep, m, opt)
+}
+
+// EdgeModesContext is EdgeModes under a context: it checks ctx before the
+// chain of every phase is built and solved, and returns an error wrapping
+// ctx.Err() once ctx is done.
+func EdgeModesContext(ctx context.Context, sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 	if sweep == nil {
 		return nil, errors.New("spectrum: no sweep")
 	}
@@ -148,6 +156,9 @@ func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 		opt.Gaps = DefaultEdgeGaps
 	}
 	build := func(s float64) (*Operator, error) {
+		if err := ctx.Err(); err != nil {
+			return nil, fmt.Errorf("spectrum: edge modes stopped at phase %.6g: %w", s, err)
+		}
 		p, err := sweep(s)
 		if err != nil {
 			return nil, fmt.Errorf("spectrum: phase %.6g: %w", s, err)
@@ -158,7 +169,7 @@ func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	start, err := Analyze(op0, opt.Options)
+	start, err := AnalyzeContext(ctx, op0, opt.Options)
 	if err != nil {
 		return nil, err
 	}
