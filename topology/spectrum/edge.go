@@ -1,6 +1,7 @@
 package spectrum
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -179,7 +180,7 @@ func EdgeModesContext(ctx context.Context, sweep Sweep, m Model, opt EdgeOptions
 		order[i] = i
 	}
 	slices.SortStableFunc(order, func(a, b int) int {
-		return -cmpFloat(start.Gaps[a].Width, start.Gaps[b].Width)
+		return cmp.Compare(start.Gaps[b].Width, start.Gaps[a].Width)
 	})
 	order = order[:min(opt.Gaps, len(order))]
 	res := &EdgeResult{Start: start, Gaps: make([]EdgeGap, len(order))}
@@ -429,14 +430,4 @@ func abs(v int) int {
 		return -v
 	}
 	return v
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }

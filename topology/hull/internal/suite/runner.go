@@ -1,6 +1,7 @@
 package main
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -507,15 +508,7 @@ func breakdowns(out []Outcome) []Breakdown {
 					pts = append(pts, pt{o.Case.Noise, pass(o), o.Case.Spec.Sites})
 				}
 			}
-			slices.SortStableFunc(pts, func(x, y pt) int {
-				switch {
-				case x.noise < y.noise:
-					return -1
-				case x.noise > y.noise:
-					return 1
-				}
-				return 0
-			})
+			slices.SortStableFunc(pts, func(x, y pt) int { return cmp.Compare(x.noise, y.noise) })
 			if len(pts) > 0 {
 				ns := &NoiseSweep{Sites: pts[0].sites, Largest: -1}
 				for _, p := range pts {
