@@ -1,6 +1,7 @@
 package topology
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -446,15 +447,7 @@ func FrequencyModule(x []float64, eps float64) (*Module, error) {
 	for j := range order {
 		order[j] = j + 1
 	}
-	slices.SortStableFunc(order, func(p, r int) int {
-		switch {
-		case h[p] < h[r]:
-			return -1
-		case h[p] > h[r]:
-			return 1
-		}
-		return 0
-	})
+	slices.SortStableFunc(order, func(p, r int) int { return cmp.Compare(h[p], h[r]) })
 	perm := append([]int{0}, order...)
 	if err := checkSize(e, coords); err != nil {
 		return nil, err

@@ -179,8 +179,8 @@ func printAnalysis(w io.Writer, r *hull.Result, all bool) error {
 				continue
 			}
 			death := "∞"
-			if bar.Death != nil {
-				death = fmt.Sprintf("%.4g", *bar.Death)
+			if !bar.Essential() {
+				death = fmt.Sprintf("%.4g", bar.Death)
 			}
 			mark := ""
 			if bar.Significant {

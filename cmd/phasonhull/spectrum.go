@@ -256,7 +256,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		if err != nil {
 			return err
 		}
-		er, err := spectrum.EdgeModes(sweep, m, spectrum.EdgeOptions{Options: opt, Samples: f.samples, Gaps: f.edgeGaps})
+		er, err := spectrum.EdgeModesContext(cmd.Context(), sweep, m, spectrum.EdgeOptions{Options: opt, Samples: f.samples, Gaps: f.edgeGaps})
 		if err != nil {
 			return err
 		}
@@ -275,7 +275,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		if err != nil {
 			return err
 		}
-		if rep.Spectrum, err = spectrum.Analyze(op, opt); err != nil {
+		if rep.Spectrum, err = spectrum.AnalyzeContext(cmd.Context(), op, opt); err != nil {
 			return err
 		}
 		if f.out != "" {
@@ -537,7 +537,7 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 		fmt.Fprintf(bw, "# phasonhull spectrum: every level of %s over %d values of θ; ids = (index + 1)/N\n", f.design, len(thetas))
 		bw.WriteString("theta,eigenvalue,ids\n")
 		var buf []byte
-		err := spectrum.ScanTheta(spec, m, thetas, func(theta float64, v []float64) error {
+		err := spectrum.ScanThetaContext(cmd.Context(), spec, m, thetas, func(theta float64, v []float64) error {
 			if f.plot.dir != "" {
 				plotThetas, plotValues = append(plotThetas, theta), append(plotValues, slices.Clone(v))
 			}

@@ -1,6 +1,7 @@
 package tiling
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -480,15 +481,7 @@ func references(tiles []tile, F float64) []reference {
 			}
 		}
 	}
-	slices.SortStableFunc(refs, func(p, q reference) int {
-		switch {
-		case p.value < q.value:
-			return -1
-		case p.value > q.value:
-			return 1
-		}
-		return 0
-	})
+	slices.SortStableFunc(refs, func(p, q reference) int { return cmp.Compare(p.value, q.value) })
 	return refs
 }
 

@@ -1,6 +1,7 @@
 package hull
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -92,15 +93,7 @@ func (a *analysis) setAngles(f, e []float64) {
 	for i := range f {
 		ps[i] = pair{topology.Fold(f[i]), e[i]}
 	}
-	slices.SortFunc(ps, func(x, y pair) int {
-		switch {
-		case x.f < y.f:
-			return -1
-		case x.f > y.f:
-			return 1
-		}
-		return 0
-	})
+	slices.SortFunc(ps, func(x, y pair) int { return cmp.Compare(x.f, y.f) })
 	a.res.Angles, a.res.AngleUncertainty = nil, nil
 	for _, p := range ps {
 		a.res.Angles = append(a.res.Angles, p.f)
@@ -251,15 +244,7 @@ func dominantBasis(n []int, x []float64, f, se []float64) ([]float64, []float64)
 			tones = append(tones, tone{[2]int{m1, m2}, re*re + im*im})
 		}
 	}
-	slices.SortStableFunc(tones, func(a, b tone) int {
-		switch {
-		case a.power > b.power:
-			return -1
-		case a.power < b.power:
-			return 1
-		}
-		return 0
-	})
+	slices.SortStableFunc(tones, func(a, b tone) int { return cmp.Compare(b.power, a.power) })
 	if len(tones) < 2 {
 		return f, se
 	}

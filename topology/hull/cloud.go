@@ -308,12 +308,7 @@ func reportBars(bars []rips.Bar, tau float64) []Bar {
 	}
 	slices.SortStableFunc(order, rips.ComparePersistence)
 	for _, b := range order {
-		r := Bar{Dim: b.Dim, Birth: b.Birth, Significant: b.Persistence() > tau}
-		if !b.Essential() {
-			d := b.Death
-			r.Death = &d
-		}
-		out = append(out, r)
+		out = append(out, Bar{Bar: b, Significant: b.Persistence() > tau})
 	}
 	if out == nil {
 		out = []Bar{}

@@ -1,6 +1,10 @@
 package hull
 
 import (
+	"bytes"
+	"encoding/json"
+	"strconv"
+
 	"phasonhull/topology"
 	"phasonhull/topology/rips"
 )
@@ -145,12 +149,37 @@ type Persistence struct {
 	Subsamples [][]int `json:"subsamples"`
 }
 
-// Bar is one persistence bar; Death is nil for an essential class.
+// Bar is one persistence bar of the landmark barcode, with whether it
+// passed the significance threshold.
 type Bar struct {
-	Dim         int      `json:"dim"`
-	Birth       float64  `json:"birth"`
-	Death       *float64 `json:"death"`
-	Significant bool     `json:"significant"`
+	rips.Bar
+	Significant bool
+}
+
+// MarshalJSON writes the bar in rips.Bar's JSON form (death null for an
+// essential class) with one more field, "significant".
+func (b Bar) MarshalJSON() ([]byte, error) {
+	j, err := json.Marshal(b.Bar)
+	if err != nil {
+		return nil, err
+	}
+	j = append(bytes.TrimSuffix(j, []byte("}")), `,"significant":`...)
+	return append(strconv.AppendBool(j, b.Significant), '}'), nil
+}
+
+// UnmarshalJSON reads the form MarshalJSON writes.
+func (b *Bar) UnmarshalJSON(data []byte) error {
+	var sig struct {
+		Significant bool `json:"significant"`
+	}
+	if err := json.Unmarshal(data, &sig); err != nil {
+		return err
+	}
+	if err := b.Bar.UnmarshalJSON(data); err != nil {
+		return err
+	}
+	b.Significant = sig.Significant
+	return nil
 }
 
 // Trace is the delay cloud an analysis ran on, for pictures and reports.

@@ -4,14 +4,14 @@ import (
 	"testing"
 
 	"phasonhull/topology/rips"
-	"phasonhull/topology/rips/internal/clouds"
+	"phasonhull/topology/rips/ripstest"
 )
 
 // The engine's speed goals are benchmarks, compared with the reference by
-// the refbench program (go run ./topology/rips/internal/refbench).
+// the refbench program (go run ./cmd/phasonhull/internal/refbench).
 
 func benchmarkCloud(b *testing.B, name string) {
-	for _, c := range clouds.BenchmarkSet() {
+	for _, c := range ripstest.BenchmarkSet() {
 		if c.Name != name {
 			continue
 		}

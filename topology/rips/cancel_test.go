@@ -8,7 +8,7 @@ import (
 	"testing"
 
 	"phasonhull/topology/rips"
-	"phasonhull/topology/rips/internal/clouds"
+	"phasonhull/topology/rips/ripstest"
 )
 
 // countdown is a context that reports itself cancelled from its (n+1)-th
@@ -30,7 +30,7 @@ func (c *countdown) Err() error {
 // reduction there: the error wraps context.Canceled and names the
 // dimension.
 func TestContextStops(t *testing.T) {
-	pts := clouds.Circle(120, 0.05, 3)
+	pts := ripstest.Circle(120, 0.05, 3)
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
 	if _, err := rips.VietorisRipsContext(ctx, pts, rips.Options{MaxDim: 1}); !errors.Is(err, context.Canceled) {

@@ -1,6 +1,7 @@
 package rips
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"math"
@@ -284,15 +285,7 @@ func (e *engine) mergeChain(chain []entry) []entry {
 	if len(chain) == 0 {
 		return nil
 	}
-	slices.SortFunc(chain, func(a, b entry) int {
-		switch {
-		case a.idx < b.idx:
-			return -1
-		case a.idx > b.idx:
-			return 1
-		}
-		return 0
-	})
+	slices.SortFunc(chain, func(a, b entry) int { return cmp.Compare(a.idx, b.idx) })
 	out := chain[:0]
 	for _, c := range chain {
 		if len(out) > 0 && out[len(out)-1].idx == c.idx {

@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"phasonhull/topology/rips"
-	"phasonhull/topology/rips/internal/clouds"
+	"phasonhull/topology/rips/ripstest"
 )
 
 // roundoff bounds the floating-point noise in lengths computed from
@@ -33,7 +33,7 @@ func near(a, b float64) bool { return math.Abs(a-b) <= roundoff }
 // Math. 290 (2017): the regular hexagon of unit side has H1 = [1, √3) and
 // H2 = [√3, 2).
 func TestHexagon(t *testing.T) {
-	d, err := rips.VietorisRips(clouds.RegularPolygon(6), rips.Options{MaxDim: 2})
+	d, err := rips.VietorisRips(ripstest.RegularPolygon(6), rips.Options{MaxDim: 2})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -83,7 +83,7 @@ func TestHexagon(t *testing.T) {
 func TestEvenlySpacedCircle(t *testing.T) {
 	chord := func(k, n int) float64 { return 2 * math.Sin(math.Pi*float64(k)/float64(n)) }
 	for _, n := range []int{4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 18, 20, 21, 24, 25} {
-		d, err := rips.VietorisRips(clouds.RegularPolygon(n), rips.Options{MaxDim: 2})
+		d, err := rips.VietorisRips(ripstest.RegularPolygon(n), rips.Options{MaxDim: 2})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -118,8 +118,8 @@ func TestLongBarsOfSphereAndTorus(t *testing.T) {
 		pts  [][]float64
 		want []int
 	}{
-		{"sphere", clouds.FibonacciSphere(150), []int{1, 0, 1}},
-		{"flat torus", clouds.FlatTorusGrid(12), []int{1, 2, 1}},
+		{"sphere", ripstest.FibonacciSphere(150), []int{1, 0, 1}},
+		{"flat torus", ripstest.FlatTorusGrid(12), []int{1, 2, 1}},
 	}
 	for _, c := range cases {
 		d, err := rips.VietorisRips(c.pts, rips.Options{MaxDim: 2})

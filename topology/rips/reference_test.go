@@ -7,19 +7,17 @@ import (
 	"os/exec"
 	"path/filepath"
 	"slices"
-	"strconv"
 	"testing"
 
 	"phasonhull/topology/rips"
-	"phasonhull/topology/rips/internal/clouds"
-	"phasonhull/topology/rips/internal/reference"
+	"phasonhull/topology/rips/ripstest"
 )
 
 // The reference is Debian's ripser package (version 1.2.1): the binary
 // ripser for Z/2 and ripser-coeff for other primes. It reads coordinates
 // and computes distances in single precision and prints lengths with six
 // significant digits. The clouds below are therefore put on a dyadic grid
-// (clouds.Quantize), where both programs compute every squared distance
+// (ripstest.Quantize), where both programs compute every squared distance
 // exactly and order all distances the same way; our double-precision
 // lengths, rounded to single precision, are then the reference's lengths
 // bit for bit, and both are printed with six significant digits and
@@ -49,40 +47,40 @@ type refCase struct {
 
 // referenceBattery is the list of clouds checked against the reference.
 func referenceBattery() []refCase {
-	q := clouds.Quantize
-	mod := clouds.ModulatedSpacings(400, 0.2763, 0.12)
-	two := clouds.TwoAngleSpacings(3000, (math.Sqrt(5)-1)/2, math.Sqrt(2)-1, 0.3, 0.2)
+	q := ripstest.Quantize
+	mod := ripstest.ModulatedSpacings(400, 0.2763, 0.12)
+	two := ripstest.TwoAngleSpacings(3000, (math.Sqrt(5)-1)/2, math.Sqrt(2)-1, 0.3, 0.2)
 	cases := []refCase{
-		{name: "cube3", pts: q(clouds.Cube(120, 3, 1)), dim: 2},
-		{name: "cube4", pts: q(clouds.Cube(70, 4, 2)), dim: 2},
-		{name: "noisy-circle", pts: q(clouds.Circle(120, 0.08, 3)), dim: 2},
-		{name: "circle", pts: q(clouds.Circle(90, 0, 4)), dim: 2},
-		{name: "sphere", pts: q(clouds.Sphere(110, 5)), dim: 2},
-		{name: "torus-R3", pts: q(clouds.Torus(150, 2, 1, 6)), dim: 2},
-		{name: "flat-torus-R4", pts: q(clouds.FlatTorus(150, 7)), dim: 2},
-		{name: "modulated-delay-R3", pts: q(clouds.MaxMin(clouds.Delay(mod, 3), 120)), dim: 2},
-		{name: "two-angle-delay-R4", pts: q(clouds.MaxMin(clouds.Delay(two, 4), 150)), dim: 2},
-		{name: "figure-eight", pts: q(clouds.FigureEight(120, 0.05, 8)), dim: 2},
-		{name: "gaussian-R2", pts: q(clouds.Gaussian(120, 2, 9)), dim: 2},
-		{name: "clusters-R3", pts: q(clouds.Clusters(100, 4, 3, 0.05, 10)), dim: 2},
-		{name: "projective-plane", pts: q(clouds.ProjectivePlane(120, 11)), dim: 2},
+		{name: "cube3", pts: q(ripstest.Cube(120, 3, 1)), dim: 2},
+		{name: "cube4", pts: q(ripstest.Cube(70, 4, 2)), dim: 2},
+		{name: "noisy-circle", pts: q(ripstest.Circle(120, 0.08, 3)), dim: 2},
+		{name: "circle", pts: q(ripstest.Circle(90, 0, 4)), dim: 2},
+		{name: "sphere", pts: q(ripstest.Sphere(110, 5)), dim: 2},
+		{name: "torus-R3", pts: q(ripstest.Torus(150, 2, 1, 6)), dim: 2},
+		{name: "flat-torus-R4", pts: q(ripstest.FlatTorus(150, 7)), dim: 2},
+		{name: "modulated-delay-R3", pts: q(ripstest.MaxMin(ripstest.Delay(mod, 3), 120)), dim: 2},
+		{name: "two-angle-delay-R4", pts: q(ripstest.MaxMin(ripstest.Delay(two, 4), 150)), dim: 2},
+		{name: "figure-eight", pts: q(ripstest.FigureEight(120, 0.05, 8)), dim: 2},
+		{name: "gaussian-R2", pts: q(ripstest.Gaussian(120, 2, 9)), dim: 2},
+		{name: "clusters-R3", pts: q(ripstest.Clusters(100, 4, 3, 0.05, 10)), dim: 2},
+		{name: "projective-plane", pts: q(ripstest.ProjectivePlane(120, 11)), dim: 2},
 		{name: "lattice-ties", pts: lattice(5, 4, 3), dim: 2},
-		{name: "cube3-H3", pts: q(clouds.Cube(40, 3, 12)), dim: 3},
-		{name: "polygon-12", pts: q(clouds.RegularPolygon(12)), dim: 2},
-		{name: "repeated-points", pts: repeated(q(clouds.Sphere(60, 17)), 20), dim: 2},
+		{name: "cube3-H3", pts: q(ripstest.Cube(40, 3, 12)), dim: 3},
+		{name: "polygon-12", pts: q(ripstest.RegularPolygon(12)), dim: 2},
+		{name: "repeated-points", pts: repeated(q(ripstest.Sphere(60, 17)), 20), dim: 2},
 	}
 	// Threshold below the enclosing radius: halfway between two
 	// consecutive distinct lengths, so that both programs admit the same
 	// edges whatever their precision.
-	cube := q(clouds.Cube(100, 3, 13))
+	cube := q(ripstest.Cube(100, 3, 13))
 	cases = append(cases, refCase{name: "cube3-threshold", pts: cube, dim: 2, threshold: midLength(cube, 0.3)})
-	circ := q(clouds.Circle(100, 0.05, 14))
+	circ := q(ripstest.Circle(100, 0.05, 14))
 	cases = append(cases, refCase{name: "noisy-circle-threshold", pts: circ, dim: 2, threshold: midLength(circ, 0.2)})
 	// Z/3 coefficients, where the projective plane differs from Z/2.
 	cases = append(cases,
-		refCase{name: "projective-plane-Z3", pts: q(clouds.ProjectivePlane(120, 11)), dim: 2, prime: 3},
-		refCase{name: "torus-R3-Z3", pts: q(clouds.Torus(120, 2, 1, 15)), dim: 2, prime: 3},
-		refCase{name: "cube3-Z5", pts: q(clouds.Cube(80, 3, 16)), dim: 2, prime: 5},
+		refCase{name: "projective-plane-Z3", pts: q(ripstest.ProjectivePlane(120, 11)), dim: 2, prime: 3},
+		refCase{name: "torus-R3-Z3", pts: q(ripstest.Torus(120, 2, 1, 15)), dim: 2, prime: 3},
+		refCase{name: "cube3-Z5", pts: q(ripstest.Cube(80, 3, 16)), dim: 2, prime: 5},
 	)
 	return cases
 }
@@ -135,15 +133,15 @@ func dist(a, b []float64) float64 {
 func writeCloud(t *testing.T, pts [][]float64) string {
 	t.Helper()
 	path := filepath.Join(t.TempDir(), "cloud.txt")
-	if err := clouds.WriteFile(path, pts); err != nil {
+	if err := ripstest.WriteCloud(path, pts); err != nil {
 		t.Fatal(err)
 	}
 	return path
 }
 
 func TestAgainstReference(t *testing.T) {
-	z2 := referenceBinary(t, "ripser")
-	zp := referenceBinary(t, "ripser-coeff")
+	z2 := referenceBinary(t, ripstest.ReferenceProgram(2))
+	zp := referenceBinary(t, ripstest.ReferenceProgram(3))
 	battery := referenceBattery()
 	if testing.Short() {
 		battery = battery[:6]
@@ -152,19 +150,10 @@ func TestAgainstReference(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			path := writeCloud(t, c.pts)
 			bin := z2
-			args := []string{"--format", "point-cloud", "--dim", strconv.Itoa(c.dim)}
-			if c.prime != 0 && c.prime != 2 {
+			if ripstest.ReferenceProgram(c.prime) != "ripser" {
 				bin = zp
-				args = append(args, "--modulus", strconv.Itoa(c.prime))
 			}
-			if c.threshold > 0 {
-				args = append(args, "--threshold", strconv.FormatFloat(c.threshold, 'g', -1, 64))
-			}
-			out, err := exec.Command(bin, append(args, path)...).Output()
-			if err != nil {
-				t.Fatalf("%s %v: %v", bin, args, err)
-			}
-			want, err := reference.Parse(out)
+			want, err := ripstest.RunReference(bin, path, c.dim, c.prime, c.threshold)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -172,8 +161,8 @@ func TestAgainstReference(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			got := reference.Format(d.Bars)
-			if onlyOurs, onlyRef := reference.Diff(got, want); len(onlyOurs)+len(onlyRef) > 0 {
+			got := ripstest.FormatBars(d.Bars)
+			if onlyOurs, onlyRef := ripstest.Diff(got, want); len(onlyOurs)+len(onlyRef) > 0 {
 				t.Errorf("%d points, dim %d: %d bars here, %d in the reference\nonly here: %v\nonly in the reference: %v",
 					len(c.pts), c.dim, len(got), len(want), head(onlyOurs), head(onlyRef))
 			}

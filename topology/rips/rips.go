@@ -1,6 +1,7 @@
 package rips
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -270,19 +271,7 @@ func (e *engine) diagram(opt Options) *Diagram {
 
 // compareBars orders bars by dimension, birth, then death.
 func compareBars(a, b Bar) int {
-	switch {
-	case a.Dim != b.Dim:
-		return a.Dim - b.Dim
-	case a.Birth < b.Birth:
-		return -1
-	case a.Birth > b.Birth:
-		return 1
-	case a.Death < b.Death:
-		return -1
-	case a.Death > b.Death:
-		return 1
-	}
-	return 0
+	return cmp.Or(cmp.Compare(a.Dim, b.Dim), cmp.Compare(a.Birth, b.Birth), cmp.Compare(a.Death, b.Death))
 }
 
 // formatBytes writes a byte count with a binary unit.

@@ -10,7 +10,7 @@ import (
 	"testing"
 
 	"phasonhull/topology/rips"
-	"phasonhull/topology/rips/internal/clouds"
+	"phasonhull/topology/rips/ripstest"
 )
 
 func compute(t *testing.T, pts [][]float64, opt rips.Options) *rips.Diagram {
@@ -50,9 +50,9 @@ func sortedBars(d *rips.Diagram) []rips.Bar {
 // matrix.
 func TestH0IsMinimumSpanningTree(t *testing.T) {
 	for _, pts := range [][][]float64{
-		clouds.Cube(150, 3, 31),
-		clouds.Gaussian(120, 2, 32),
-		clouds.Clusters(90, 3, 4, 0.02, 33),
+		ripstest.Cube(150, 3, 31),
+		ripstest.Gaussian(120, 2, 32),
+		ripstest.Clusters(90, 3, 4, 0.02, 33),
 	} {
 		n := len(pts)
 		inTree := make([]bool, n)
@@ -113,7 +113,7 @@ func TestH0IsMinimumSpanningTree(t *testing.T) {
 // points.
 func TestPermutationInvariance(t *testing.T) {
 	r := rand.New(rand.NewPCG(41, 0))
-	for _, pts := range [][][]float64{clouds.Cube(90, 3, 42), clouds.Torus(100, 2, 1, 43), clouds.Quantize(clouds.Cube(60, 2, 44))} {
+	for _, pts := range [][][]float64{ripstest.Cube(90, 3, 42), ripstest.Torus(100, 2, 1, 43), ripstest.Quantize(ripstest.Cube(60, 2, 44))} {
 		perm := slices.Clone(pts)
 		r.Shuffle(len(perm), func(i, j int) { perm[i], perm[j] = perm[j], perm[i] })
 		a := sortedBars(compute(t, pts, rips.Options{MaxDim: 2}))
@@ -128,7 +128,7 @@ func TestPermutationInvariance(t *testing.T) {
 // Z/3 and Z/5 give the same bars on samples of a circle, a sphere and a
 // torus. The projective plane, whose H1 is Z/2, shows the difference.
 func TestFieldsAgreeWithoutTorsion(t *testing.T) {
-	for _, pts := range [][][]float64{clouds.Circle(80, 0.1, 51), clouds.Sphere(90, 52), clouds.Torus(110, 2, 1, 53), clouds.Cube(80, 3, 54)} {
+	for _, pts := range [][][]float64{ripstest.Circle(80, 0.1, 51), ripstest.Sphere(90, 52), ripstest.Torus(110, 2, 1, 53), ripstest.Cube(80, 3, 54)} {
 		z2 := sortedBars(compute(t, pts, rips.Options{MaxDim: 2, Prime: 2}))
 		for _, p := range []int{3, 5} {
 			zp := sortedBars(compute(t, pts, rips.Options{MaxDim: 2, Prime: p}))
@@ -137,7 +137,7 @@ func TestFieldsAgreeWithoutTorsion(t *testing.T) {
 			}
 		}
 	}
-	rp2 := clouds.FibonacciSphere(400)
+	rp2 := ripstest.FibonacciSphere(400)
 	for i, p := range rp2 {
 		x, y, z := p[0], p[1], p[2]
 		rp2[i] = []float64{x * y, x * z, y*y - z*z, 2 * y * z}
@@ -158,7 +158,7 @@ func TestFieldsAgreeWithoutTorsion(t *testing.T) {
 // Cutting the filtration at t keeps every bar that ends by t, turns every
 // bar alive at t into an essential one, and adds nothing.
 func TestThresholdTruncates(t *testing.T) {
-	for _, pts := range [][]([]float64){clouds.Cube(100, 3, 61), clouds.Circle(90, 0.05, 62)} {
+	for _, pts := range [][]([]float64){ripstest.Cube(100, 3, 61), ripstest.Circle(90, 0.05, 62)} {
 		full := compute(t, pts, rips.Options{MaxDim: 2})
 		cut := full.EnclosingRadius * 0.45
 		got := sortedBars(compute(t, pts, rips.Options{MaxDim: 2, Threshold: cut}))
@@ -193,10 +193,10 @@ func TestCocycles(t *testing.T) {
 		pts       [][]float64
 		threshold float64
 	}{
-		{clouds.Circle(70, 0.08, 71), 0},
-		{clouds.FigureEight(70, 0.04, 72), 0},
-		{clouds.Torus(60, 2, 1, 73), 0},
-		{clouds.Circle(60, 0.05, 74), 0.8}, // the big class is essential
+		{ripstest.Circle(70, 0.08, 71), 0},
+		{ripstest.FigureEight(70, 0.04, 72), 0},
+		{ripstest.Torus(60, 2, 1, 73), 0},
+		{ripstest.Circle(60, 0.05, 74), 0.8}, // the big class is essential
 	}
 	for _, c := range cases {
 		pts := c.pts
@@ -257,7 +257,7 @@ func TestCocycles(t *testing.T) {
 
 // The parallel stages do not change the result.
 func TestWorkersDoNotChangeResult(t *testing.T) {
-	pts := clouds.Torus(120, 2, 1, 81)
+	pts := ripstest.Torus(120, 2, 1, 81)
 	a := compute(t, pts, rips.Options{MaxDim: 2, Workers: 1, Cocycles: true, Prime: 7})
 	b := compute(t, pts, rips.Options{MaxDim: 2, Workers: 5, Cocycles: true, Prime: 7})
 	if !reflect.DeepEqual(a, b) {
@@ -266,7 +266,7 @@ func TestWorkersDoNotChangeResult(t *testing.T) {
 }
 
 func TestBudgetRefused(t *testing.T) {
-	pts := clouds.Cube(200, 3, 91)
+	pts := ripstest.Cube(200, 3, 91)
 	c, err := rips.Estimate(pts, rips.Options{MaxDim: 2})
 	if err != nil {
 		t.Fatal(err)
@@ -291,7 +291,7 @@ func TestBudgetRefused(t *testing.T) {
 // Estimate counts edges exactly and estimates triangles and tetrahedra
 // within 20%.
 func TestEstimate(t *testing.T) {
-	pts := clouds.Cube(60, 3, 101)
+	pts := ripstest.Cube(60, 3, 101)
 	c, err := rips.Estimate(pts, rips.Options{MaxDim: 2})
 	if err != nil {
 		t.Fatal(err)
@@ -356,7 +356,7 @@ func TestBadInput(t *testing.T) {
 	}
 }
 
-// A single point and two points: the smallest clouds.
+// A single point and two points: the smallest ripstest.
 func TestTinyClouds(t *testing.T) {
 	d := compute(t, [][]float64{{1, 2}}, rips.Options{MaxDim: 2})
 	if len(d.Bars) != 1 || !d.Bars[0].Essential() || d.Bars[0].Dim != 0 {
@@ -372,7 +372,7 @@ func TestTinyClouds(t *testing.T) {
 // A quick computation writes no progress lines.
 func TestProgressQuiet(t *testing.T) {
 	var b strings.Builder
-	compute(t, clouds.Cube(30, 3, 111), rips.Options{MaxDim: 2, Progress: &b})
+	compute(t, ripstest.Cube(30, 3, 111), rips.Options{MaxDim: 2, Progress: &b})
 	if b.Len() != 0 {
 		t.Errorf("progress on a quick job: %q", b.String())
 	}
@@ -381,7 +381,7 @@ func TestProgressQuiet(t *testing.T) {
 // A repeated point joins at length 0, so its H0 bar has no length and is
 // left out: repeating points changes no bar.
 func TestDuplicatePoints(t *testing.T) {
-	pts := clouds.Torus(60, 2, 1, 121)
+	pts := ripstest.Torus(60, 2, 1, 121)
 	twice := append(slices.Clone(pts), pts[:25]...)
 	a := sortedBars(compute(t, pts, rips.Options{MaxDim: 2}))
 	b := sortedBars(compute(t, twice, rips.Options{MaxDim: 2}))

@@ -1,6 +1,8 @@
 package spectrum
 
 import (
+	"cmp"
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -132,6 +134,13 @@ type gapLevels struct {
 // after the last halving is read as a jump of the sweep (see
 // EdgeGap.Jumps).
 func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
+	return EdgeModesContext(context.Background(), sweep, m, opt)
+}
+
+// EdgeModesContext is EdgeModes under a context: it checks ctx before the
+// chain of every phase is built and solved, and returns an error wrapping
+// ctx.Err() once ctx is done.
+func EdgeModesContext(ctx context.Context, sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 	if sweep == nil {
 		return nil, errors.New("spectrum: no sweep")
 	}
@@ -148,6 +157,9 @@ func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 		opt.Gaps = DefaultEdgeGaps
 	}
 	build := func(s float64) (*Operator, error) {
+		if err := ctx.Err(); err != nil {
+			return nil, fmt.Errorf("spectrum: edge modes stopped at phase %.6g: %w", s, err)
+		}
 		p, err := sweep(s)
 		if err != nil {
 			return nil, fmt.Errorf("spectrum: phase %.6g: %w", s, err)
@@ -158,7 +170,7 @@ func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	start, err := Analyze(op0, opt.Options)
+	start, err := AnalyzeContext(ctx, op0, opt.Options)
 	if err != nil {
 		return nil, err
 	}
@@ -168,7 +180,7 @@ func EdgeModes(sweep Sweep, m Model, opt EdgeOptions) (*EdgeResult, error) {
 		order[i] = i
 	}
 	slices.SortStableFunc(order, func(a, b int) int {
-		return -cmpFloat(start.Gaps[a].Width, start.Gaps[b].Width)
+		return cmp.Compare(start.Gaps[b].Width, start.Gaps[a].Width)
 	})
 	order = order[:min(opt.Gaps, len(order))]
 	res := &EdgeResult{Start: start, Gaps: make([]EdgeGap, len(order))}
@@ -418,14 +430,4 @@ func abs(v int) int {
 		return -v
 	}
 	return v
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }

@@ -1,6 +1,7 @@
 package spectrum
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -144,17 +145,35 @@ func (r rawGap) upper() float64 { return (r.hi0 + r.hi1) / 2 }
 // edge is taken as part of the band; the gap is then reported narrower by
 // that much, and its IDS off by one level.
 func Analyze(op *Operator, opt Options) (*Result, error) {
+	return AnalyzeContext(context.Background(), op, opt)
+}
+
+// AnalyzeContext is Analyze under a context: it checks ctx before each
+// stage (the levels, the search for empty intervals, the bracketing of
+// their edges, the merge into gaps) and returns an error wrapping
+// ctx.Err() once ctx is done. A stage already running (one dense solve,
+// one pass of Sturm counts over the energy grid) is finished first.
+func AnalyzeContext(ctx context.Context, op *Operator, opt Options) (*Result, error) {
 	if op == nil {
 		return nil, errors.New("spectrum: no operator")
 	}
 	if err := opt.check(); err != nil {
 		return nil, fmt.Errorf("spectrum: %w", err)
 	}
+	if err := stopped(ctx, "before the levels"); err != nil {
+		return nil, err
+	}
 	lv, err := newLevels(op, opt.Method, opt.Workers)
 	if err != nil {
 		return nil, fmt.Errorf("spectrum: %w", err)
 	}
-	res, raws := lv.rawGaps(opt)
+	res, raws, err := lv.rawGaps(ctx, opt)
+	if err != nil {
+		return nil, err
+	}
+	if err := stopped(ctx, "before the merge of the gaps"); err != nil {
+		return nil, err
+	}
 	gaps := lv.merge(raws, res, opt)
 	if err := finish(res, gaps, opt); err != nil {
 		return nil, fmt.Errorf("spectrum: %w", err)
@@ -207,8 +226,18 @@ func (o Options) minGap() float64 {
 // recognised however large MinGap is.
 func (o Options) isolation() float64 { return min(o.minGap(), DefaultMinGap) / 3 }
 
-// rawGaps finds every empty interval at least isolation() wide.
-func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
+// stopped returns an error wrapping ctx.Err(), saying where the analysis
+// stopped, once ctx is done; nil before.
+func stopped(ctx context.Context, where string) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("spectrum: stopped %s: %w", where, err)
+	}
+	return nil
+}
+
+// rawGaps finds every empty interval at least isolation() wide, checking
+// ctx before the count over the energy grid and before the bracketing.
+func (lv *levels) rawGaps(ctx context.Context, opt Options) (*Result, []rawGap, error) {
 	res := &Result{Sites: lv.n, Method: Values}
 	if lv.values != nil {
 		v := lv.values
@@ -222,7 +251,7 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 				raws = append(raws, rawGap{k + 1, v[k], v[k], v[k+1], v[k+1]})
 			}
 		}
-		return res, raws
+		return res, raws, nil
 	}
 	res.Method = Counting
 	blo, bhi := lv.op.Bounds()
@@ -233,7 +262,7 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 	res.MinGap = opt.minGap() * w
 	iso := opt.isolation() * w
 	if w <= 0 {
-		return res, nil
+		return res, nil, nil
 	}
 	// A grid of spacing iso/2 puts a whole grid interval inside every
 	// empty interval of width iso or more.
@@ -241,6 +270,9 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 	es := make([]float64, g+1)
 	for i := range es {
 		es[i] = lo + w*float64(i)/float64(g)
+	}
+	if err := stopped(ctx, "before counting levels on the energy grid"); err != nil {
+		return nil, nil, err
 	}
 	c := make([]int, g+1)
 	lv.countMany(es, c, opt.Workers)
@@ -276,6 +308,9 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 	}
 	// Bracket both edges to a hundredth of iso, enough to tell whether
 	// the empty interval reaches iso, in parallel.
+	if err := stopped(ctx, "before bracketing the gaps' edges"); err != nil {
+		return nil, nil, err
+	}
 	tol := iso / 100
 	keep := make([]bool, len(raws))
 	parallel(len(raws), 1, opt.Workers, func(a, b int) {
@@ -295,7 +330,7 @@ func (lv *levels) rawGaps(opt Options) (*Result, []rawGap) {
 			out = append(out, g)
 		}
 	}
-	return res, out
+	return res, out, nil
 }
 
 // edgeTol is the accuracy to which the counting method locates gap edges

@@ -1,6 +1,7 @@
 package spectrum
 
 import (
+	"cmp"
 	"math"
 	"slices"
 	"testing"
@@ -12,7 +13,7 @@ import (
 // widest returns the k widest gaps, widest first.
 func widest(gaps []Gap, k int) []Gap {
 	g := slices.Clone(gaps)
-	slices.SortStableFunc(g, func(a, b Gap) int { return cmpFloat(b.Width, a.Width) })
+	slices.SortStableFunc(g, func(a, b Gap) int { return cmp.Compare(b.Width, a.Width) })
 	return g[:min(k, len(g))]
 }
 

@@ -1,6 +1,7 @@
 package spectrum
 
 import (
+	"context"
 	"errors"
 	"fmt"
 
@@ -15,6 +16,12 @@ import (
 // apply. Each design must have at most DenseLimit sites. An error from f
 // stops the scan and is returned.
 func ScanTheta(spec design.Spec, m Model, thetas []float64, f func(theta float64, values []float64) error) error {
+	return ScanThetaContext(context.Background(), spec, m, thetas, f)
+}
+
+// ScanThetaContext is ScanTheta under a context: it checks ctx before each
+// angle and returns an error wrapping ctx.Err() once ctx is done.
+func ScanThetaContext(ctx context.Context, spec design.Spec, m Model, thetas []float64, f func(theta float64, values []float64) error) error {
 	if err := spec.Validate(); err != nil {
 		return fmt.Errorf("spectrum: %w", err)
 	}
@@ -30,6 +37,9 @@ func ScanTheta(spec design.Spec, m Model, thetas []float64, f func(theta float64
 		return errors.New("spectrum: no function to receive the spectra")
 	}
 	for _, th := range thetas {
+		if err := ctx.Err(); err != nil {
+			return fmt.Errorf("spectrum: θ scan stopped at θ = %g: %w", th, err)
+		}
 		s, mm := spec, m
 		if designTheta {
 			s.Theta = th

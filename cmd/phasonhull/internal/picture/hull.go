@@ -3,7 +3,6 @@ package picture
 import (
 	"errors"
 	"fmt"
-	"math"
 	"path/filepath"
 	"slices"
 	"sort"
@@ -145,11 +144,7 @@ func bars(r *hull.Result) []rips.Bar {
 	}
 	out := make([]rips.Bar, 0, len(r.Persistence.Bars))
 	for _, b := range r.Persistence.Bars {
-		d := math.Inf(1)
-		if b.Death != nil {
-			d = *b.Death
-		}
-		out = append(out, rips.Bar{Dim: b.Dim, Birth: b.Birth, Death: d})
+		out = append(out, b.Bar)
 	}
 	return out
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -184,10 +185,7 @@ func barcodeOf(r *hull.Result) Barcode {
 	}
 	// Bars come sorted by dimension, then persistence, longest first.
 	for _, bar := range r.Persistence.Bars {
-		p := math.Inf(1)
-		if bar.Death != nil {
-			p = *bar.Death - bar.Birth
-		}
+		p := bar.Persistence()
 		switch {
 		case bar.Dim == 1 && len(b.H1) < 4:
 			b.H1 = append(b.H1, p)
@@ -510,15 +508,7 @@ func breakdowns(out []Outcome) []Breakdown {
 					pts = append(pts, pt{o.Case.Noise, pass(o), o.Case.Spec.Sites})
 				}
 			}
-			slices.SortStableFunc(pts, func(x, y pt) int {
-				switch {
-				case x.noise < y.noise:
-					return -1
-				case x.noise > y.noise:
-					return 1
-				}
-				return 0
-			})
+			slices.SortStableFunc(pts, func(x, y pt) int { return cmp.Compare(x.noise, y.noise) })
 			if len(pts) > 0 {
 				ns := &NoiseSweep{Sites: pts[0].sites, Largest: -1}
 				for _, p := range pts {

@@ -1,10 +1,4 @@
-// Package clouds generates the seeded point clouds of the persistence
-// engine's reference checks and benchmarks: samples of spaces whose
-// homology is known (cube, circle, sphere, tori, the real projective plane)
-// and delay clouds of chains built from explicit formulas.
-//
-// Every generator is deterministic: the same arguments give the same cloud.
-package clouds
+package ripstest
 
 import (
 	"math"
@@ -14,27 +8,19 @@ import (
 func newRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, 0x7a11)) }
 
 // Cube returns n points uniform in the unit cube [0, 1]^dim.
-func Cube(n, dim int, seed uint64) [][]float64 {
-	r := newRand(seed)
-	pts := make([][]float64, n)
-	for i := range pts {
-		p := make([]float64, dim)
-		for k := range p {
-			p[k] = r.Float64()
-		}
-		pts[i] = p
-	}
-	return pts
-}
+func Cube(n, dim int, seed uint64) [][]float64 { return draw(n, dim, newRand(seed).Float64) }
 
 // Gaussian returns n points of a standard normal distribution in R^dim.
-func Gaussian(n, dim int, seed uint64) [][]float64 {
-	r := newRand(seed)
+func Gaussian(n, dim int, seed uint64) [][]float64 { return draw(n, dim, newRand(seed).NormFloat64) }
+
+// draw returns n points of R^dim whose coordinates are successive values
+// of next, point by point.
+func draw(n, dim int, next func() float64) [][]float64 {
 	pts := make([][]float64, n)
 	for i := range pts {
 		p := make([]float64, dim)
 		for k := range p {
-			p[k] = r.NormFloat64()
+			p[k] = next()
 		}
 		pts[i] = p
 	}

@@ -1,16 +1,17 @@
-package clouds
+package ripstest
 
 import (
+	"fmt"
 	"os"
 	"strconv"
 	"strings"
 )
 
-// WriteFile writes a cloud as text, one point a line with its coordinates
+// WriteCloud writes a cloud as text, one point a line with its coordinates
 // separated by spaces, each printed exactly (shortest decimal that reads
 // back to the same float64; grid coordinates are dyadic, hence finite
 // decimals) — the point-cloud format both engines read.
-func WriteFile(path string, pts [][]float64) error {
+func WriteCloud(path string, pts [][]float64) error {
 	var b strings.Builder
 	for _, p := range pts {
 		for k, x := range p {
@@ -21,5 +22,8 @@ func WriteFile(path string, pts [][]float64) error {
 		}
 		b.WriteByte('\n')
 	}
-	return os.WriteFile(path, []byte(b.String()), 0o644)
+	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
+		return fmt.Errorf("writing the cloud: %w", err)
+	}
+	return nil
 }

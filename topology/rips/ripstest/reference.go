@@ -1,17 +1,10 @@
-// Package reference reads the barcodes printed by the reference program of
-// the persistence engine's checks (Debian's ripser package, version 1.2.1)
-// and writes the engine's bars the same way, so that the two can be
-// compared as text.
-//
-// The reference computes in single precision and prints lengths with six
-// significant digits. Bars are written as "dim:birth,death", death empty
-// for a class that never dies.
-package reference
+package ripstest
 
 import (
 	"bufio"
 	"bytes"
 	"fmt"
+	"os/exec"
 	"slices"
 	"strconv"
 	"strings"
@@ -19,10 +12,45 @@ import (
 	"phasonhull/topology/rips"
 )
 
-// Parse reads the bars the reference prints: a line
+// ReferenceProgram names the reference binary for coefficients in Z/prime:
+// ripser for 2 (or 0, the engine's default), ripser-coeff otherwise.
+func ReferenceProgram(prime int) string {
+	if prime == 0 || prime == 2 {
+		return "ripser"
+	}
+	return "ripser-coeff"
+}
+
+// ReferenceArgs returns the reference program's arguments for the cloud in
+// the file at path (written by WriteCloud), computed to homology dimension
+// dim with coefficients in Z/prime (0: 2) up to threshold (0: the enclosing
+// radius).
+func ReferenceArgs(path string, dim, prime int, threshold float64) []string {
+	args := []string{"--format", "point-cloud", "--dim", strconv.Itoa(dim)}
+	if prime != 0 && prime != 2 {
+		args = append(args, "--modulus", strconv.Itoa(prime))
+	}
+	if threshold > 0 {
+		args = append(args, "--threshold", strconv.FormatFloat(threshold, 'g', -1, 64))
+	}
+	return append(args, path)
+}
+
+// RunReference runs the reference binary bin on the cloud in the file at
+// path (see ReferenceArgs) and returns its bars, sorted.
+func RunReference(bin, path string, dim, prime int, threshold float64) ([]string, error) {
+	args := ReferenceArgs(path, dim, prime, threshold)
+	out, err := exec.Command(bin, args...).Output()
+	if err != nil {
+		return nil, fmt.Errorf("%s %s: %w", bin, strings.Join(args, " "), err)
+	}
+	return ParseReference(out)
+}
+
+// ParseReference reads the bars the reference prints: a line
 // "persistence intervals in dim k:" opens dimension k, and each bar is a
 // line " [birth,death)" or " [birth, )". It returns them sorted.
-func Parse(out []byte) ([]string, error) {
+func ParseReference(out []byte) ([]string, error) {
 	var bars []string
 	dim := -1
 	sc := bufio.NewScanner(bytes.NewReader(out))
@@ -31,7 +59,7 @@ func Parse(out []byte) ([]string, error) {
 		if rest, ok := strings.CutPrefix(line, "persistence intervals in dim "); ok {
 			d, err := strconv.Atoi(strings.TrimSuffix(rest, ":"))
 			if err != nil {
-				return nil, fmt.Errorf("reference output: %q: %v", line, err)
+				return nil, fmt.Errorf("reference output: %q: %w", line, err)
 			}
 			dim = d
 			continue
@@ -58,8 +86,8 @@ func Single(x float64) string {
 	return strconv.FormatFloat(float64(float32(x)), 'g', 6, 32)
 }
 
-// Format writes bars in the reference's notation, sorted.
-func Format(bars []rips.Bar) []string {
+// FormatBars writes bars in the reference's notation, sorted.
+func FormatBars(bars []rips.Bar) []string {
 	var out []string
 	for _, b := range bars {
 		death := ""

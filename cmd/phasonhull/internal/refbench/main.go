@@ -15,14 +15,13 @@
 //
 // Usage:
 //
-//	go run ./topology/rips/internal/refbench [-reps 3] [-only name,name] [-ref ripser]
+//	go run ./cmd/phasonhull/internal/refbench [-reps 3] [-only name,name] [-ref ripser]
 package main
 
 import (
 	"encoding/json"
 	"flag"
 	"fmt"
-	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -33,8 +32,7 @@ import (
 	"time"
 
 	"phasonhull/topology/rips"
-	"phasonhull/topology/rips/internal/clouds"
-	"phasonhull/topology/rips/internal/reference"
+	"phasonhull/topology/rips/ripstest"
 )
 
 func main() {
@@ -90,15 +88,16 @@ func run(reps int, only, ref string) error {
 	fmt.Printf("refbench: %d repetitions, alternating; engine: %s barcode --points FILE --dim D --json; reference: %s --format point-cloud --dim D FILE\n\n", reps, bin, refPath)
 	tw := tabwriter.NewWriter(os.Stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "cloud\tpoints\tdim\tengine s\treference s\tratio\tengine MiB\treference MiB\tbarcodes\t")
-	for _, c := range clouds.BenchmarkSet() {
+	for _, c := range ripstest.BenchmarkSet() {
 		if len(want) > 0 && !want[c.Name] {
 			continue
 		}
 		path := filepath.Join(dir, c.Name+".txt")
-		if err := clouds.WriteFile(path, c.Points); err != nil {
+		if err := ripstest.WriteCloud(path, c.Points); err != nil {
 			return err
 		}
 		dim := strconv.Itoa(c.MaxDim)
+		refArgs := ripstest.ReferenceArgs(path, c.MaxDim, 2, 0)
 		ours := &result{}
 		theirs := &result{}
 		for i := 0; i < reps; i++ {
@@ -107,7 +106,7 @@ func run(reps int, only, ref string) error {
 					return measure(ours, bin, []string{"barcode", "--points", path, "--dim", dim, "--json"}, parseOurs)
 				},
 				func() error {
-					return measure(theirs, refPath, []string{"--format", "point-cloud", "--dim", dim, path}, reference.Parse)
+					return measure(theirs, refPath, refArgs, ripstest.ParseReference)
 				},
 			}
 			if i%2 == 1 {
@@ -122,7 +121,7 @@ func run(reps int, only, ref string) error {
 				c.Name, i+1, ours.walls[i].Seconds(), theirs.walls[i].Seconds())
 		}
 		verdict := "identical"
-		if a, b := reference.Diff(ours.bars, theirs.bars); len(a)+len(b) > 0 {
+		if a, b := ripstest.Diff(ours.bars, theirs.bars); len(a)+len(b) > 0 {
 			verdict = fmt.Sprintf("DIFFER (%d only here, %d only in the reference)", len(a), len(b))
 		}
 		om, rm := ours.median().Seconds(), theirs.median().Seconds()
@@ -159,21 +158,10 @@ func measure(r *result, bin string, args []string, parse func([]byte) ([]string,
 // parseOurs reads the JSON report of "phasonhull barcode".
 func parseOurs(out []byte) ([]string, error) {
 	var rep struct {
-		Bars []struct {
-			Dim   int      `json:"dim"`
-			Birth float64  `json:"birth"`
-			Death *float64 `json:"death"`
-		} `json:"bars"`
+		Bars []rips.Bar `json:"bars"`
 	}
 	if err := json.Unmarshal(out, &rep); err != nil {
 		return nil, fmt.Errorf("reading the engine's report: %w", err)
 	}
-	bars := make([]rips.Bar, len(rep.Bars))
-	for i, b := range rep.Bars {
-		bars[i] = rips.Bar{Dim: b.Dim, Birth: b.Birth, Death: math.Inf(1)}
-		if b.Death != nil {
-			bars[i].Death = *b.Death
-		}
-	}
-	return reference.Format(bars), nil
+	return ripstest.FormatBars(rep.Bars), nil
 }
