@@ -721,7 +721,7 @@ func (rep *spectrumReport) write(out io.Writer, asJSON bool) error {
 		for i, g := range r.Gaps {
 			lab, lids := "unlabelled", "-"
 			if g.Label != nil {
-				lab, lids = ints(g.Label.Coeffs), fmt.Sprintf("%.6f", g.Label.IDS)
+				lab, lids = g.Label.CoeffString(), fmt.Sprintf("%.6f", g.Label.IDS)
 			}
 			fmt.Fprintf(tw, "\t%d\t%.6f\t%s\t%s\t%.4g\t%.4f\t%.6g\t%.6g\t%d\t\n", i+1, g.IDS, lab, lids, g.Width, g.RelWidth, g.Lower, g.Upper, len(g.Boundary))
 		}
@@ -734,7 +734,7 @@ func (rep *spectrumReport) write(out io.Writer, asJSON bool) error {
 		for _, g := range er.Gaps {
 			lab, m := "unlabelled", "-"
 			if l := g.Gap.Label; l != nil {
-				lab, m = ints(l.Coeffs), fmt.Sprintf("%+d", l.Coeffs[1])
+				lab, m = l.CoeffString(), fmt.Sprintf("%+d", l.Coeffs[1])
 			}
 			fmt.Fprintf(tw, "\t%.6f\t%s\t%s\t%+d\t%+d\t%d\t%d\t%v\t\n", g.Gap.IDS, lab, m, g.First, g.Last, g.Jumps, g.Unresolved, g.Agrees)
 		}
