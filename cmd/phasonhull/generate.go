@@ -5,7 +5,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"os"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -201,13 +200,8 @@ func runGenerate(cmd *cobra.Command, args []string, f *generateFlags) error {
 	var s design.Spec
 	switch {
 	case f.specFile != "":
-		r, err := os.Open(f.specFile)
-		if err != nil {
-			return err
-		}
-		s, err = design.ReadSpec(r, f.specFile)
-		r.Close()
-		if err != nil {
+		var err error
+		if s, err = design.ReadSpecFile(f.specFile); err != nil {
 			return err
 		}
 		if len(args) == 1 {
