@@ -4,6 +4,8 @@ import (
 	"cmp"
 	"math"
 	"slices"
+	"strconv"
+	"strings"
 )
 
 // labelTol is the distance below which two integrated densities of states
@@ -32,6 +34,16 @@ type Label struct {
 	// [n, m] for one angle, [n, m1, m2] for two; for the labels of a
 	// period p (PeriodicLabels), IDS = Coeffs[0] + Coeffs[1]/p.
 	Coeffs []int `json:"coeffs"`
+}
+
+// CoeffString writes the coefficients as the reports print them:
+// "(n, m)", "(n, m1, m2)".
+func (l Label) CoeffString() string {
+	s := make([]string, len(l.Coeffs))
+	for i, c := range l.Coeffs {
+		s[i] = strconv.Itoa(c)
+	}
+	return "(" + strings.Join(s, ", ") + ")"
 }
 
 // Labels lists the gap labels n + m1·θ1 (+ m2·θ2 ...) that fall strictly

@@ -173,3 +173,18 @@ func TestLabelJSON(t *testing.T) {
 		t.Errorf("read back %+v (%v)", back, err)
 	}
 }
+
+func TestCoeffString(t *testing.T) {
+	for _, c := range []struct {
+		l    Label
+		want string
+	}{
+		{Label{IDS: 0.2, Coeffs: []int{-1, 4}}, "(-1, 4)"},
+		{Label{IDS: 0.3, Coeffs: []int{0, 1, -2}}, "(0, 1, -2)"},
+		{Label{}, "()"},
+	} {
+		if got := c.l.CoeffString(); got != c.want {
+			t.Errorf("%v: CoeffString() = %q, want %q", c.l.Coeffs, got, c.want)
+		}
+	}
+}

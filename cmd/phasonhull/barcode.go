@@ -1,15 +1,10 @@
 package main
 
 import (
-	"bufio"
 	"encoding/json"
 	"errors"
 	"fmt"
-	"io"
 	"math"
-	"slices"
-	"strconv"
-	"text/tabwriter"
 
 	"github.com/spf13/cobra"
 
@@ -154,78 +149,10 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	if err != nil {
 		return fmt.Errorf("barcode of %s: %w", source, err)
 	}
-	rep := newBarcodeReport(source, f.dim, d, f.minPersistence)
+	rep := d.Barcode(source, f.dim, f.minPersistence)
 	w := cmd.OutOrStdout()
 	if f.json {
 		return json.NewEncoder(w).Encode(rep)
 	}
-	return rep.print(w)
+	return rep.WriteText(w)
 }
-
-// barcodeReport is what "phasonhull barcode" prints.
-type barcodeReport struct {
-	Source          string     `json:"source"`
-	Points          int        `json:"points"`
-	Dim             int        `json:"dim"`
-	Prime           int        `json:"prime"`
-	Threshold       float64    `json:"threshold"`
-	EnclosingRadius float64    `json:"enclosing_radius"`
-	MinPersistence  float64    `json:"min_persistence"`
-	Counts          []int      `json:"counts"`
-	Bars            []rips.Bar `json:"bars"`
-}
-
-// newBarcodeReport keeps the bars at least minPersistence long, in the
-// order of rips.ComparePersistence.
-func newBarcodeReport(source string, dim int, d *rips.Diagram, minPersistence float64) *barcodeReport {
-	r := &barcodeReport{
-		Source: source, Points: d.Points, Dim: dim, Prime: d.Prime, Threshold: d.Threshold,
-		EnclosingRadius: d.EnclosingRadius, MinPersistence: minPersistence,
-		Counts: make([]int, dim+1), Bars: []rips.Bar{},
-	}
-	for _, b := range d.Bars {
-		if b.Persistence() >= minPersistence {
-			r.Bars = append(r.Bars, b)
-			r.Counts[b.Dim]++
-		}
-	}
-	slices.SortStableFunc(r.Bars, rips.ComparePersistence)
-	return r
-}
-
-// print writes the report as a table.
-func (r *barcodeReport) print(w io.Writer) error {
-	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "barcode of %s: %d points, coefficients Z/%d, dimensions 0 to %d\n", r.Source, r.Points, r.Prime, r.Dim)
-	if r.Threshold < r.EnclosingRadius {
-		fmt.Fprintf(bw, "complex up to length %.6g (below the enclosing radius %.6g: bars alive there never end)\n", r.Threshold, r.EnclosingRadius)
-	} else {
-		fmt.Fprintf(bw, "complex up to the enclosing radius %.6g, where it becomes a cone\n", r.EnclosingRadius)
-	}
-	for k, c := range r.Counts {
-		fmt.Fprintf(bw, "H%d: %d bar%s", k, c, plural(c))
-		if k < len(r.Counts)-1 {
-			fmt.Fprint(bw, ", ")
-		}
-	}
-	if r.MinPersistence > 0 {
-		fmt.Fprintf(bw, " (at least %.6g long)", r.MinPersistence)
-	}
-	fmt.Fprintln(bw)
-	fmt.Fprintln(bw)
-	tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "dim\tbirth\tdeath\tpersistence\t")
-	for _, b := range r.Bars {
-		death, pers := "inf", "inf"
-		if !b.Essential() {
-			death, pers = fmtLength(b.Death), fmtLength(b.Persistence())
-		}
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t\n", b.Dim, fmtLength(b.Birth), death, pers)
-	}
-	if err := tw.Flush(); err != nil {
-		return err
-	}
-	return bw.Flush()
-}
-
-func fmtLength(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }

@@ -48,9 +48,9 @@ func torusCloud() ([][]float64, string) {
 }
 
 // decode reads the JSON report back, with its bars.
-func decode(t *testing.T, out string) (*barcodeReport, []rips.Bar) {
+func decode(t *testing.T, out string) (*rips.Barcode, []rips.Bar) {
 	t.Helper()
-	var rep barcodeReport
+	var rep rips.Barcode
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatalf("%v in %q", err, out)
 	}
@@ -72,7 +72,7 @@ func TestBarcodePointsMatchesLibrary(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		want := newBarcodeReport(path, 2, d, 0).Bars
+		want := d.Barcode(path, 2, 0).Bars
 		if !reflect.DeepEqual(got, want) {
 			t.Errorf("Z/%d: command bars differ from the library's:\n%v\n%v", prime, got, want)
 		}
@@ -127,7 +127,7 @@ func TestBarcodePatternMatchesLibrary(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := newBarcodeReport(path, 1, d, 0).Bars; !reflect.DeepEqual(got, want) {
+	if want := d.Barcode(path, 1, 0).Bars; !reflect.DeepEqual(got, want) {
 		t.Errorf("command bars differ from the library's:\n%v\n%v", got, want)
 	}
 	long := 0

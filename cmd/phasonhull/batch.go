@@ -1,29 +1,16 @@
 package main
 
 import (
-	"context"
-	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
-	"os"
-	"path/filepath"
-	"runtime"
-	"slices"
-	"sort"
-	"strconv"
-	"strings"
-	"sync"
 
 	"github.com/spf13/cobra"
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
-	"phasonhull/topology/audit"
-	"phasonhull/topology/hull"
+	"phasonhull/pattern"
+	"phasonhull/topology/batch"
 )
-
-// batchSchema names the layout of the JSON summary of a batch.
-const batchSchema = "phasonhull.batch/1"
 
 // batchFlags holds the flags of "phasonhull batch".
 type batchFlags struct {
@@ -86,38 +73,6 @@ and 1 for a bug.`,
 	return cmd
 }
 
-// batchRow is one row of the summary.
-type batchRow struct {
-	File             string    `json:"file"`
-	Sites            int       `json:"sites"`
-	Unit             string    `json:"unit"`
-	Class            string    `json:"class"`
-	Period           int       `json:"period"`
-	Angles           []float64 `json:"angles"`
-	Uncertainty      []float64 `json:"uncertainty"`
-	Disorder         *float64  `json:"disorder"`
-	DisorderRelative *float64  `json:"disorder_relative"`
-	Verdict          string    `json:"verdict"`
-	Missing          *int      `json:"missing,omitempty"`
-	Extra            *int      `json:"extra,omitempty"`
-	RMS              *float64  `json:"rms,omitempty"`
-	Max              *float64  `json:"max,omitempty"`
-	Offset           *float64  `json:"offset,omitempty"`
-	Scale            *float64  `json:"scale,omitempty"`
-	Reasons          []string  `json:"reasons"`
-	Error            string    `json:"error"`
-}
-
-// batchSummary is the JSON summary.
-type batchSummary struct {
-	Schema string     `json:"schema"`
-	Design string     `json:"design,omitempty"`
-	Files  int        `json:"files"`
-	Errors int        `json:"errors"`
-	Failed int        `json:"failed"`
-	Rows   []batchRow `json:"rows"`
-}
-
 func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	if f.out == "" {
 		return errors.New("batch needs --out SUMMARY.csv")
@@ -131,55 +86,18 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	}
 	// A folder's files leave out the design; outputs that would be among
 	// them were refused before the run started (bindOutputCheck).
-	files, err := batchFiles(args, []string{f.audit.designPath})
+	files, err := batch.Files(args, []string{f.audit.designPath})
 	if err != nil {
 		return err
 	}
-
-	jobs := f.jobs
-	if jobs == 0 {
-		jobs = runtime.GOMAXPROCS(0)
-	}
-	jobs = min(jobs, len(files))
 	// The design is analysed once, with every core.
 	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
 	if err != nil {
 		return err
 	}
-	// Each worker's persistence computations share the cores.
-	opt.Hull.Workers = max(1, runtime.GOMAXPROCS(0)/jobs)
-
-	rows := make([]batchRow, len(files))
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for range jobs {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				rows[i] = batchOne(cmd.Context(), files[i], &f.in, d, opt)
-			}
-		}()
-	}
-	for i := range files {
-		next <- i
-	}
-	close(next)
-	wg.Wait()
-
-	sum := batchSummary{Schema: batchSchema, Files: len(rows), Rows: rows}
-	if d != nil {
-		sum.Design = d.File.Path
-	}
-	for _, r := range rows {
-		switch r.Verdict {
-		case "error":
-			sum.Errors++
-		case "fail":
-			sum.Failed++
-		}
-	}
-	if err := writeFileAtomic(f.out, func(file io.Writer) error { return writeBatchCSV(file, rows) }); err != nil {
+	load := func(path string) (*pattern.Pattern, error) { return f.in.load(path, nil) }
+	sum := batch.Run(cmd.Context(), files, load, d, opt, f.jobs)
+	if err := writeFileAtomic(f.out, sum.WriteCSV); err != nil {
 		return err
 	}
 	if f.jsonOut != "" {
@@ -197,7 +115,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		fmt.Fprintf(w, " and %s", f.jsonOut)
 	}
 	fmt.Fprintln(w)
-	for _, r := range rows {
+	for _, r := range sum.Rows {
 		if r.Error != "" {
 			fmt.Fprintf(cmd.ErrOrStderr(), "phasonhull: %s\n", r.Error)
 		}
@@ -209,147 +127,4 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		return &exitError{code: exitFail}
 	}
 	return nil
-}
-
-// batchFiles expands the arguments: a folder stands for its regular,
-// non-hidden files in name order, except those in skip; a file stands for
-// itself.
-func batchFiles(args, skip []string) ([]string, error) {
-	var files []string
-	for _, a := range args {
-		if a == "-" {
-			return nil, errors.New("batch reads files, not standard input")
-		}
-		st, err := os.Stat(a)
-		if err != nil {
-			// A missing file gets a row of its own, like any bad file.
-			files = append(files, a)
-			continue
-		}
-		if !st.IsDir() {
-			files = append(files, a)
-			continue
-		}
-		entries, err := os.ReadDir(a)
-		if err != nil {
-			return nil, fmt.Errorf("reading folder %s: %w", a, err)
-		}
-		var names []string
-		for _, e := range entries {
-			if strings.HasPrefix(e.Name(), ".") || !e.Type().IsRegular() {
-				continue
-			}
-			names = append(names, e.Name())
-		}
-		sort.Strings(names)
-		for _, n := range names {
-			path := filepath.Join(a, n)
-			if !slices.ContainsFunc(skip, func(s string) bool { return s != "" && samePath(s, path) }) {
-				files = append(files, path)
-			}
-		}
-	}
-	if len(files) == 0 {
-		return nil, errors.New("no input files: the folders given hold none")
-	}
-	return files, nil
-}
-
-// batchOne analyses or audits one file. A panic is caught and reported in
-// the row as a bug, so that one file cannot stop the batch.
-func batchOne(ctx context.Context, path string, in *inputFlags, d *audit.Design, opt audit.Options) (row batchRow) {
-	row = batchRow{File: path, Angles: []float64{}, Uncertainty: []float64{}, Reasons: []string{}}
-	defer func() {
-		if r := recover(); r != nil {
-			row.Verdict, row.Error = "error", fmt.Sprintf("%s: internal error (a bug in phasonhull): %v", path, r)
-		}
-	}()
-	p, err := in.load(path, nil)
-	if err != nil {
-		row.Verdict, row.Error = "error", err.Error()
-		return row
-	}
-	row.Sites, row.Unit = p.Len(), p.Unit
-	var res *hull.Result
-	if d == nil {
-		if res, err = hull.AnalyzeContext(ctx, p, opt.Hull); err != nil {
-			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
-			return row
-		}
-	} else {
-		rep, err := audit.Run(ctx, d, p, opt)
-		if err != nil {
-			row.Verdict, row.Error = "error", fmt.Sprintf("%s: %v", path, err)
-			return row
-		}
-		res = rep.Hull.Measured
-		row.Verdict, row.Reasons = string(rep.Verdict), rep.Reasons
-		nm, ne := len(rep.Missing), len(rep.Extra)
-		row.Missing, row.Extra = &nm, &ne
-		if rep.Matched > 0 {
-			row.RMS, row.Max = &rep.RMS, &rep.Max
-		}
-		row.Offset, row.Scale = rep.Offset, rep.Scale
-	}
-	if res != nil {
-		row.Class, row.Period = string(res.Hull.Class), res.Hull.Period
-		row.Angles, row.Uncertainty = res.Angles, res.AngleUncertainty
-		if res.Disorder != nil {
-			row.Disorder, row.DisorderRelative = &res.Disorder.RMS, &res.Disorder.Relative
-		}
-	}
-	return row
-}
-
-// writeBatchCSV writes the summary table.
-func writeBatchCSV(file io.Writer, rows []batchRow) error {
-	w := csv.NewWriter(file)
-	w.Write([]string{"file", "sites", "unit", "class", "period", "angles", "uncertainty", "disorder", "disorder_relative",
-		"verdict", "missing", "extra", "rms", "max", "offset", "scale", "reasons", "error"})
-	num := func(v *float64) string {
-		if v == nil {
-			return ""
-		}
-		return strconv.FormatFloat(*v, 'g', -1, 64)
-	}
-	count := func(v *int) string {
-		if v == nil {
-			return ""
-		}
-		return strconv.Itoa(*v)
-	}
-	list := func(v []float64) string {
-		s := make([]string, len(v))
-		for i, x := range v {
-			s[i] = strconv.FormatFloat(x, 'g', -1, 64)
-		}
-		return strings.Join(s, ";")
-	}
-	for _, r := range rows {
-		sites, period := "", ""
-		if r.Sites > 0 {
-			sites = strconv.Itoa(r.Sites)
-		}
-		if r.Period > 0 {
-			period = strconv.Itoa(r.Period)
-		}
-		w.Write([]string{r.File, sites, r.Unit, r.Class, period, list(r.Angles), list(r.Uncertainty),
-			num(r.Disorder), num(r.DisorderRelative), r.Verdict, count(r.Missing), count(r.Extra),
-			num(r.RMS), num(r.Max), num(r.Offset), num(r.Scale), strings.Join(r.Reasons, "; "), r.Error})
-	}
-	w.Flush()
-	return w.Error()
-}
-
-// samePath reports whether two paths name the same file: the same clean
-// absolute path, or the same existing file.
-func samePath(a, b string) bool {
-	aa, errA := filepath.Abs(a)
-	bb, errB := filepath.Abs(b)
-	if errA == nil && errB == nil && aa == bb {
-		return true
-	}
-	sa, errA := os.Stat(a)
-	sb, errB := os.Stat(b)
-	return errA == nil && errB == nil && os.SameFile(sa, sb)
 }

@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"phasonhull/pattern"
+	"phasonhull/topology/batch"
 	"phasonhull/topology/hull"
 )
 
@@ -98,7 +99,7 @@ func TestBatchFolderWithBrokenFile(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var sum batchSummary
+	var sum batch.Summary
 	if err := json.Unmarshal(data, &sum); err != nil {
 		t.Fatal(err)
 	}

@@ -1,19 +1,14 @@
 package main
 
 import (
-	"bufio"
 	"encoding/json"
 	"fmt"
 	"io"
-	"math"
-	"strconv"
-	"strings"
 
 	"github.com/spf13/cobra"
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/embed"
-	"phasonhull/pattern"
 )
 
 // embedFlags holds the flags of "phasonhull embed".
@@ -107,14 +102,14 @@ func runEmbed(cmd *cobra.Command, path string, f *embedFlags) error {
 	if err != nil {
 		return err
 	}
-	sum := newEmbedSummary(p, res)
+	sum := res.Summary(p.Source)
 	if f.out != "" {
 		kind := "whitened"
 		if f.raw {
 			kind = "raw"
 		}
 		if err := writeFileAtomic(f.out, func(file io.Writer) error {
-			return writeVectors(file, p, res, f.raw)
+			return res.WriteVectors(file, p, f.raw)
 		}); err != nil {
 			return err
 		}
@@ -125,186 +120,5 @@ func runEmbed(cmd *cobra.Command, path string, f *embedFlags) error {
 		enc := json.NewEncoder(w)
 		return enc.Encode(sum)
 	}
-	return sum.print(w)
-}
-
-// embedSummary is what "phasonhull embed" reports, in text or JSON.
-type embedSummary struct {
-	Source      string  `json:"source"`
-	Sites       int     `json:"sites"`
-	Unit        string  `json:"unit"`
-	MeanSpacing float64 `json:"mean_spacing"`
-
-	Window int `json:"window"`
-	// WindowRule is "chosen" or "given".
-	WindowRule      string    `json:"window_rule"`
-	Settled         bool      `json:"settled"`
-	Cap             int       `json:"cap,omitempty"`
-	Examined        int       `json:"examined_vectors,omitempty"`
-	FalseNeighbours []float64 `json:"false_neighbours,omitempty"`
-	NeighbourWindow int       `json:"neighbour_window,omitempty"`
-	Rank            []int     `json:"rank,omitempty"`
-	RankWindow      int       `json:"rank_window,omitempty"`
-	NoiseVariance   float64   `json:"noise_variance,omitempty"`
-	NoiseCapped     bool      `json:"noise_capped,omitempty"`
-
-	NoiseFloor float64   `json:"noise_floor"`
-	Spectrum   []float64 `json:"spectrum"`
-	Variance   []float64 `json:"variance_fraction"`
-	Kept       int       `json:"kept"`
-	Threshold  float64   `json:"threshold"`
-
-	Vectors     int     `json:"vectors"`
-	Landmarks   int     `json:"landmarks"`
-	CoverRadius float64 `json:"cover_radius"`
-
-	Out     string `json:"out,omitempty"`
-	OutKind string `json:"out_kind,omitempty"`
-}
-
-func newEmbedSummary(p *pattern.Pattern, res *embed.Result) *embedSummary {
-	w := res.Whitened
-	s := &embedSummary{
-		Source: p.Source, Sites: res.Sites, Unit: res.Unit, MeanSpacing: res.MeanSpacing,
-		Window: res.Window, WindowRule: "given", Settled: true,
-		NoiseFloor: res.NoiseFloor, Spectrum: w.Spectrum, Kept: w.Kept, Threshold: w.Threshold,
-		Vectors: len(w.Cloud), Landmarks: len(res.Landmarks), CoverRadius: res.CoverRadius,
-	}
-	var total float64
-	for _, v := range w.Spectrum {
-		total += v
-	}
-	s.Variance = make([]float64, len(w.Spectrum))
-	for i, v := range w.Spectrum {
-		if total > 0 {
-			s.Variance[i] = v / total
-		}
-	}
-	if c := res.Choice; c != nil {
-		s.WindowRule, s.Settled, s.Cap, s.Examined = "chosen", c.Settled, c.Cap, c.Vectors
-		s.FalseNeighbours, s.NeighbourWindow = c.FalseNeighbours, c.NeighbourWindow
-		s.Rank, s.RankWindow = c.Rank, c.RankWindow
-		s.NoiseVariance, s.NoiseCapped = c.NoiseVariance, c.NoiseCapped
-	}
-	return s
-}
-
-// why says in words how the window was found.
-func (s *embedSummary) why() string {
-	switch {
-	case s.WindowRule == "given":
-		return "given (--window)"
-	case s.Settled:
-		return fmt.Sprintf("chosen: false neighbours settle at %d, the cloud spans %d direction%s",
-			s.NeighbourWindow, s.Rank[s.Cap], plural(s.Rank[s.Cap]))
-	case s.RankWindow == 0:
-		return "the cap: the choice did not settle — the cloud fills every direction and keeps false neighbours, as independent random spacings do"
-	default:
-		return fmt.Sprintf("the cap: the choice did not settle — the cloud spans %d directions but its points keep splitting as the window grows, as a Sturmian chain's do", s.Rank[s.Cap])
-	}
-}
-
-func plural(n int) string {
-	if n == 1 {
-		return ""
-	}
-	return "s"
-}
-
-func (s *embedSummary) print(out io.Writer) error {
-	w := bufio.NewWriter(out)
-	unit := s.Unit
-	if unit == "" {
-		unit = "(no unit)"
-	}
-	fmt.Fprintf(w, "pattern     %s: %d sites, mean spacing %.6g %s\n", s.Source, s.Sites, s.MeanSpacing, unit)
-	fmt.Fprintf(w, "window      %d, %s\n", s.Window, s.why())
-	if s.WindowRule == "chosen" {
-		var k, fnn, rank strings.Builder
-		for i := range s.Rank {
-			fmt.Fprintf(&k, " %5d", i+1)
-			if i < len(s.FalseNeighbours) {
-				fmt.Fprintf(&fnn, " %5.3f", s.FalseNeighbours[i])
-			} else {
-				fnn.WriteString("     -")
-			}
-			fmt.Fprintf(&rank, " %5d", s.Rank[i])
-		}
-		fmt.Fprintf(w, "  window          %s\n", k.String())
-		fmt.Fprintf(w, "  false neighbours%s\n", fnn.String())
-		fmt.Fprintf(w, "  components      %s\n", rank.String())
-		how := "estimated"
-		if s.NoiseCapped {
-			how = "capped at the tolerance"
-		}
-		fmt.Fprintf(w, "  (%d vectors examined; noise %.3g mean spacings per spacing, %s)\n", s.Examined, sqrt(s.NoiseVariance), how)
-	}
-	fmt.Fprintf(w, "components  %d of %d kept: eigenvalue above %.3g\n", s.Kept, len(s.Spectrum), s.Threshold)
-	fmt.Fprintf(w, "  %3s  %11s  %8s\n", "#", "eigenvalue", "variance")
-	for i, v := range s.Spectrum {
-		mark := ""
-		if i < s.Kept {
-			mark = "  kept"
-		}
-		fmt.Fprintf(w, "  %3d  %11.4g  %7.2f%%%s\n", i+1, v, 100*s.Variance[i], mark)
-	}
-	fmt.Fprintf(w, "landmarks   %d of %d vectors, cover radius %.4g (whitened units)\n", s.Landmarks, s.Vectors, s.CoverRadius)
-	if s.Out != "" {
-		fmt.Fprintf(w, "written     %s: %d %s vectors\n", s.Out, s.Vectors, s.OutKind)
-	}
-	return w.Flush()
-}
-
-func sqrt(v float64) float64 {
-	if v <= 0 {
-		return 0
-	}
-	return math.Sqrt(v)
-}
-
-// writeVectors writes one CSV row per delay vector: the index of its first
-// spacing, then the whitened components c1… or, raw, the dimensionless
-// spacings d1…
-func writeVectors(out io.Writer, p *pattern.Pattern, res *embed.Result, raw bool) error {
-	w := bufio.NewWriter(out)
-	var cols int
-	name := "c"
-	if raw {
-		cols, name = res.Window, "d"
-	} else {
-		cols = res.Whitened.Kept
-	}
-	what := fmt.Sprintf("whitened delay vectors (%d of %d components)", res.Whitened.Kept, res.Window)
-	if raw {
-		what = "delay vectors d_n/d̄ (dimensionless)"
-	}
-	fmt.Fprintf(w, "# phasonhull embed: %s of %s, window %d\n", what, p.Source, res.Window)
-	w.WriteString("start")
-	for j := range cols {
-		fmt.Fprintf(w, ",%s%d", name, j+1)
-	}
-	w.WriteByte('\n')
-	var rows [][]float64
-	if raw {
-		x, err := embed.Delay(p.Spacings(), res.Window)
-		if err != nil {
-			return err
-		}
-		rows = make([][]float64, len(res.Rows))
-		for i, n := range res.Rows {
-			rows[i] = x.RawRowView(n)
-		}
-	} else {
-		rows = res.Whitened.Cloud
-	}
-	buf := make([]byte, 0, 32)
-	for i, row := range rows {
-		w.WriteString(strconv.Itoa(res.Rows[i]))
-		for _, v := range row {
-			buf = strconv.AppendFloat(append(buf[:0], ','), v, 'g', -1, 64)
-			w.Write(buf)
-		}
-		w.WriteByte('\n')
-	}
-	return w.Flush()
+	return sum.WriteText(w)
 }

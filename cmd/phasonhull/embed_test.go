@@ -47,7 +47,7 @@ func TestEmbedCommandMatchesLibrary(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	var got embedSummary
+	var got embed.Summary
 	if err := json.Unmarshal([]byte(out), &got); err != nil {
 		t.Fatalf("%v in %q", err, out)
 	}

@@ -5,7 +5,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"os"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -17,134 +16,63 @@ import (
 )
 
 // generateFlags holds the flags of "phasonhull generate": the output
-// options and one flag per field of design.Spec, of the same name.
+// options and one flag per field of design.Spec, of the same name, bound
+// to the field of over (--tiles is parsed into it).
 type generateFlags struct {
 	out, specFile string
 	printSpec     bool
-
-	sites                int
-	spacing              float64
-	unit                 string
-	cell, sin, cos       []float64
-	theta, phase, amp    float64
-	theta2, phase2, amp2 float64
-	radiusCos, radiusSin []float64
-	step, omega, k       float64
-	tiles                string
-	intercept            float64
-	rule, dist           string
-	spread               float64
-	noise, missing       float64
-	extra, drift         float64
-	seed                 uint64
+	tiles         string
+	over          design.Spec
 }
 
 func (f *generateFlags) register(fs *pflag.FlagSet) {
+	o := &f.over
 	fs.StringVarP(&f.out, "out", "o", "", "write to `FILE` instead of standard output (nothing is written on error)")
 	fs.StringVar(&f.specFile, "spec", "", "read the design from a JSON spec `FILE`; flags given as well override it")
 	fs.BoolVar(&f.printSpec, "print-spec", false, "write the design's JSON spec, defaults filled in, instead of positions")
 
-	fs.IntVar(&f.sites, "sites", design.DefaultSites, "number of sites before perturbation")
-	fs.Float64Var(&f.spacing, "spacing", 1, "mean spacing L (modulated, loop, circle-map, two-angle, random)")
-	fs.StringVar(&f.unit, "unit", "", "length unit of the positions, e.g. um (written into the CSV header)")
-	fs.Float64SliceVar(&f.cell, "cell", nil, "periodic: the repeated cell of spacings, a `LIST` like 1,1.5")
-	fs.Float64Var(&f.theta, "theta", 0, "angle θ in turns, in (0,1) (modulated, two-angle, sturmian)")
-	fs.Float64Var(&f.phase, "phase", 0, "starting phase in turns (φ; ψ_0 of circle-map; starting arc fraction of loop)")
-	fs.Float64SliceVar(&f.sin, "sin", nil, "modulated: sine amplitudes a_1,a_2,... (a `LIST`) in the unit")
-	fs.Float64SliceVar(&f.cos, "cos", nil, "modulated: cosine amplitudes b_1,b_2,... (a `LIST`) in the unit")
-	fs.Float64Var(&f.amp, "amp", 0, "amplitude in the unit: a_1 of modulated, a of two-angle, amp of loop and circle-map")
-	fs.Float64Var(&f.theta2, "theta2", 0, "two-angle: second angle θ2 in turns")
-	fs.Float64Var(&f.phase2, "phase2", 0, "two-angle: second phase φ2 in turns")
-	fs.Float64Var(&f.amp2, "amp2", 0, "two-angle: second amplitude a2 in the unit")
-	fs.Float64SliceVar(&f.radiusCos, "radius-cos", nil, "loop: radius coefficients c_1,c_2,... (a `LIST`) relative to R")
-	fs.Float64SliceVar(&f.radiusSin, "radius-sin", nil, "loop: radius coefficients s_1,s_2,... (a `LIST`) relative to R")
-	fs.Float64Var(&f.step, "step", 0, "loop: arc step as a fraction of the perimeter, in (0,1)")
-	fs.Float64Var(&f.omega, "omega", 0, "circle-map: Ω in [0,1)")
-	fs.Float64Var(&f.k, "k", 0, "circle-map: K in [0,1]")
+	fs.IntVar(&o.Sites, "sites", design.DefaultSites, "number of sites before perturbation")
+	fs.Float64Var(&o.Spacing, "spacing", 1, "mean spacing L (modulated, loop, circle-map, two-angle, random)")
+	fs.StringVar(&o.Unit, "unit", "", "length unit of the positions, e.g. um (written into the CSV header)")
+	fs.Float64SliceVar(&o.Cell, "cell", nil, "periodic: the repeated cell of spacings, a `LIST` like 1,1.5")
+	fs.Float64Var(&o.Theta, "theta", 0, "angle θ in turns, in (0,1) (modulated, two-angle, sturmian)")
+	fs.Float64Var(&o.Phase, "phase", 0, "starting phase in turns (φ; ψ_0 of circle-map; starting arc fraction of loop)")
+	fs.Float64SliceVar(&o.Sin, "sin", nil, "modulated: sine amplitudes a_1,a_2,... (a `LIST`) in the unit")
+	fs.Float64SliceVar(&o.Cos, "cos", nil, "modulated: cosine amplitudes b_1,b_2,... (a `LIST`) in the unit")
+	fs.Float64Var(&o.Amp, "amp", 0, "amplitude in the unit: a_1 of modulated, a of two-angle, amp of loop and circle-map")
+	fs.Float64Var(&o.Theta2, "theta2", 0, "two-angle: second angle θ2 in turns")
+	fs.Float64Var(&o.Phase2, "phase2", 0, "two-angle: second phase φ2 in turns")
+	fs.Float64Var(&o.Amp2, "amp2", 0, "two-angle: second amplitude a2 in the unit")
+	fs.Float64SliceVar(&o.RadiusCos, "radius-cos", nil, "loop: radius coefficients c_1,c_2,... (a `LIST`) relative to R")
+	fs.Float64SliceVar(&o.RadiusSin, "radius-sin", nil, "loop: radius coefficients s_1,s_2,... (a `LIST`) relative to R")
+	fs.Float64Var(&o.Step, "step", 0, "loop: arc step as a fraction of the perimeter, in (0,1)")
+	fs.Float64Var(&o.Omega, "omega", 0, "circle-map: Ω in [0,1)")
+	fs.Float64Var(&o.K, "k", 0, "circle-map: K in [0,1]")
 	fs.StringVar(&f.tiles, "tiles", "", "sturmian, substitution: tile `LENGTHS` like A=1,B=1.618 (default A=1,B=golden ratio)")
-	fs.Float64Var(&f.intercept, "intercept", 0, "sturmian: intercept ρ in [0,1)")
-	fs.StringVar(&f.rule, "rule", "", "substitution: fibonacci, thue-morse, period-doubling, or a rule like A=AB,B=A")
-	fs.StringVar(&f.dist, "dist", "", "random: uniform or exponential (default uniform)")
-	fs.Float64Var(&f.spread, "spread", 0, "random: relative spread in (0,1) (default 0.5)")
-	fs.Float64Var(&f.noise, "noise", 0, "perturbation: standard deviation of Gaussian position noise, in the unit")
-	fs.Float64Var(&f.missing, "missing", 0, "perturbation: fraction of sites removed, in [0,1)")
-	fs.Float64Var(&f.extra, "extra", 0, "perturbation: spurious sites inserted, as a fraction of the sites")
-	fs.Float64Var(&f.drift, "drift", 0, "perturbation: linear scale drift, > -0.5 (local scale 1 → 1+2·drift)")
-	fs.Uint64Var(&f.seed, "seed", design.DefaultSeed, "seed of every random choice")
+	fs.Float64Var(&o.Intercept, "intercept", 0, "sturmian: intercept ρ in [0,1)")
+	fs.StringVar(&o.Rule, "rule", "", "substitution: fibonacci, thue-morse, period-doubling, or a rule like A=AB,B=A")
+	fs.StringVar(&o.Dist, "dist", "", "random: uniform or exponential (default uniform)")
+	fs.Float64Var(&o.Spread, "spread", 0, "random: relative spread in (0,1) (default 0.5)")
+	fs.Float64Var(&o.Noise, "noise", 0, "perturbation: standard deviation of Gaussian position noise, in the unit")
+	fs.Float64Var(&o.Missing, "missing", 0, "perturbation: fraction of sites removed, in [0,1)")
+	fs.Float64Var(&o.Extra, "extra", 0, "perturbation: spurious sites inserted, as a fraction of the sites")
+	fs.Float64Var(&o.Drift, "drift", 0, "perturbation: linear scale drift, > -0.5 (local scale 1 → 1+2·drift)")
+	fs.Uint64Var(&o.Seed, "seed", design.DefaultSeed, "seed of every random choice")
 }
 
 // apply copies the flags given on the command line into s.
 func (f *generateFlags) apply(fs *pflag.FlagSet, s *design.Spec) error {
-	set := fs.Changed
-	if set("tiles") {
+	if fs.Changed("tiles") {
 		t, err := pattern.ParseTileLengths(f.tiles)
 		if err != nil {
 			return fmt.Errorf("--tiles: %w", err)
 		}
-		s.Tiles = t
+		f.over.Tiles = t
 	}
-	for _, v := range []struct {
-		name string
-		dst  *float64
-		src  float64
-	}{
-		{"spacing", &s.Spacing, f.spacing}, {"theta", &s.Theta, f.theta}, {"phase", &s.Phase, f.phase},
-		{"theta2", &s.Theta2, f.theta2}, {"phase2", &s.Phase2, f.phase2}, {"amp2", &s.Amp2, f.amp2},
-		{"step", &s.Step, f.step}, {"omega", &s.Omega, f.omega}, {"k", &s.K, f.k},
-		{"intercept", &s.Intercept, f.intercept}, {"spread", &s.Spread, f.spread},
-		{"noise", &s.Noise, f.noise}, {"missing", &s.Missing, f.missing},
-		{"extra", &s.Extra, f.extra}, {"drift", &s.Drift, f.drift},
-	} {
-		if set(v.name) {
-			*v.dst = v.src
-		}
+	if s.Family == design.Modulated && fs.Changed("amp") && fs.Changed("sin") {
+		return fmt.Errorf("--amp is shorthand for the first value of --sin; give one of them")
 	}
-	for _, v := range []struct {
-		name string
-		dst  *[]float64
-		src  []float64
-	}{
-		{"cell", &s.Cell, f.cell}, {"sin", &s.Sin, f.sin}, {"cos", &s.Cos, f.cos},
-		{"radius-cos", &s.RadiusCos, f.radiusCos}, {"radius-sin", &s.RadiusSin, f.radiusSin},
-	} {
-		if set(v.name) {
-			*v.dst = append([]float64(nil), v.src...)
-		}
-	}
-	if set("sites") {
-		s.Sites = f.sites
-	}
-	if set("unit") {
-		s.Unit = f.unit
-	}
-	if set("rule") {
-		s.Rule = f.rule
-	}
-	if set("dist") {
-		s.Dist = f.dist
-	}
-	if set("seed") {
-		s.Seed = f.seed
-	}
-	if set("amp") {
-		if s.Family != design.Modulated {
-			s.Amp = f.amp
-			return nil
-		}
-		// For modulated, --amp is the first sine amplitude: it replaces
-		// a_1 of a spec file and keeps its other harmonics.
-		if set("sin") {
-			return fmt.Errorf("--amp is shorthand for the first value of --sin; give one of them")
-		}
-		if len(s.Sin) == 0 && s.Amp == 0 {
-			s.Amp = f.amp
-		} else {
-			if len(s.Sin) == 0 {
-				s.Sin = []float64{0}
-			}
-			s.Sin[0], s.Amp = f.amp, 0
-		}
-	}
+	s.Override(f.over, fs.Changed)
 	return nil
 }
 
@@ -201,13 +129,8 @@ func runGenerate(cmd *cobra.Command, args []string, f *generateFlags) error {
 	var s design.Spec
 	switch {
 	case f.specFile != "":
-		r, err := os.Open(f.specFile)
-		if err != nil {
-			return err
-		}
-		s, err = design.ReadSpec(r, f.specFile)
-		r.Close()
-		if err != nil {
+		var err error
+		if s, err = design.ReadSpecFile(f.specFile); err != nil {
 			return err
 		}
 		if len(args) == 1 {

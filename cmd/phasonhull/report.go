@@ -77,7 +77,7 @@ func (f *plotFlags) writeAudit(rep *audit.Report) error {
 		return nil
 	}
 	var pics []*picture.Picture
-	if a, ok := auditSites(rep); ok {
+	if a, ok := picture.AuditSitesOf(rep); ok {
 		p, err := picture.Audit(a)
 		if err != nil {
 			return fmt.Errorf("--plot: %w", err)
@@ -108,25 +108,6 @@ func (f *plotFlags) write(pics []*picture.Picture) error {
 		return fmt.Errorf("--plot %s: %w", f.dir, err)
 	}
 	return nil
-}
-
-// auditSites gathers what the audit figure draws from a report; false
-// when no site was matched.
-func auditSites(rep *audit.Report) (picture.AuditSites, bool) {
-	a := picture.AuditSites{Source: rep.Measured, Unit: rep.Unit, OutlierThreshold: rep.OutlierThreshold, Verdict: string(rep.Verdict),
-		Missing: rep.MissingAt(), Extra: rep.ExtraAt()}
-	if len(rep.Sites) == 0 {
-		return a, false
-	}
-	if rep.Tolerance != nil {
-		a.Tolerance = *rep.Tolerance
-	}
-	for _, s := range rep.Sites {
-		a.Position = append(a.Position, s.Position)
-		a.Residual = append(a.Residual, s.Residual)
-		a.Flagged = append(a.Flagged, s.Flagged())
-	}
-	return a, true
 }
 
 // reportFlags holds the flags of "phasonhull report".
@@ -213,9 +194,9 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		if err != nil {
 			return internalErr(err)
 		}
-		page.Audit = auditSummary(rep)
+		page.Audit = report.AuditOf(rep)
 		page.Files = append(page.Files, report.File{Name: report.AuditFile, Data: js})
-		if a, ok := auditSites(rep); ok {
+		if a, ok := picture.AuditSitesOf(rep); ok {
 			pic, err := picture.Audit(a)
 			if err != nil {
 				return internalErr(err)
@@ -250,33 +231,6 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	progress("")
 	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, report.PageFile))
 	return nil
-}
-
-// auditSummary is the part of an audit the page shows.
-func auditSummary(rep *audit.Report) *report.Audit {
-	a := &report.Audit{Verdict: string(rep.Verdict), Reasons: rep.Reasons, Design: rep.Design}
-	u := ""
-	if rep.Unit != "" {
-		u = " " + rep.Unit
-	}
-	add := func(k, v string) { a.Rows = append(a.Rows, [2]string{k, v}) }
-	add("sites", fmt.Sprintf("design %d, measured %d: %d matched, %d missing, %d extra", rep.DesignSites, rep.MeasuredSites, rep.Matched, len(rep.Missing), len(rep.Extra)))
-	if rep.Scale != nil {
-		add("calibration", fmt.Sprintf("offset %.6g ± %.2g%s, scale %.9g ± %.2g", *rep.Offset, *rep.OffsetErr, u, *rep.Scale, *rep.ScaleErr))
-	}
-	add("residuals", fmt.Sprintf("rms %.4g%s, max %.4g%s, robust sigma %.3g%s", rep.RMS, u, rep.Max, u, rep.Sigma, u))
-	if rep.Tolerance != nil {
-		add("tolerance", fmt.Sprintf("%.4g%s", *rep.Tolerance, u))
-	}
-	add("outliers", fmt.Sprintf("%d", len(rep.Outliers)))
-	if c := rep.Hull.Comparison; c != nil {
-		add("hull comparison", c.Verdict)
-	}
-	a.Unit = rep.Unit
-	for _, d := range rep.Defects() {
-		a.Sites = append(a.Sites, report.Site{Kind: d.Kind, Design: d.Design, Rows: d.Measured, Position: d.Position, Residual: d.Residual})
-	}
-	return a
 }
 
 // newProgress returns a function that shows a one-line progress message on

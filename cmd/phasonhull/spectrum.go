@@ -1,19 +1,14 @@
 package main
 
 import (
-	"bufio"
 	"context"
 	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
-	"slices"
-	"strconv"
 	"strings"
-	"text/tabwriter"
 
 	"github.com/spf13/cobra"
 
@@ -21,9 +16,6 @@ import (
 	"phasonhull/pattern/design"
 	"phasonhull/topology/spectrum"
 )
-
-// spectrumSchema names the layout of the JSON report.
-const spectrumSchema = "phasonhull.spectrum/1"
 
 // spectrumFlags holds the flags of "phasonhull spectrum".
 type spectrumFlags struct {
@@ -168,51 +160,6 @@ to 4000 sites, and next-nearest bonds are limited to that.`,
 	return cmd
 }
 
-// spectrumReport is what "phasonhull spectrum" reports, in text or JSON.
-type spectrumReport struct {
-	Schema string `json:"schema"`
-	Source string `json:"source"`
-	Sites  int    `json:"sites"`
-	Unit   string `json:"unit"`
-
-	// Operator describes the operator; nil for measured levels.
-	Operator *operatorInfo `json:"operator"`
-
-	// Angles and Period are what labelled the gaps; LabelSource says
-	// where they came from.
-	Angles []float64 `json:"angles"`
-	Period int       `json:"period,omitempty"`
-	// Generators of the label group when it is neither Z + Zθ nor
-	// Z + Z/p (a hull's own label list labelled the gaps).
-	Generators  []float64 `json:"generators,omitempty"`
-	LabelSource string    `json:"label_source"`
-	MaxCoeff    int       `json:"max_coeff"`
-
-	Spectrum  *spectrum.Result     `json:"spectrum"`
-	EdgeModes *spectrum.EdgeResult `json:"edge_modes,omitempty"`
-
-	Out      string   `json:"out,omitempty"`
-	Notes    []string `json:"notes"`
-	Warnings []string `json:"warnings"`
-	Caution  string   `json:"caution"`
-}
-
-// operatorInfo describes the operator of a report.
-type operatorInfo struct {
-	Model   string  `json:"model"`
-	Law     string  `json:"law"`
-	NNN     float64 `json:"nnn"`
-	Ends    string  `json:"ends"`
-	Closing float64 `json:"closing,omitempty"`
-	OnSite  string  `json:"onsite"`
-}
-
-// caution is printed with every gap table.
-const caution = "A label says which value the IDS takes in a gap of this operator: n + m·θ is the share of levels below the gap. " +
-	"Counts of a finite chain resolve an IDS to about 3/N, so a label is matched within that. " +
-	"An unlabelled gap can mean that the angle is off, that its coefficients exceed --max-coeff, or that the operator breaks the pattern's symmetry " +
-	"(an on-site term with another angle, couplings that do not follow the local configuration)."
-
 func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 	if err := f.check(cmd, args); err != nil {
 		return err
@@ -220,7 +167,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 	if err := f.plot.validate(); err != nil {
 		return err
 	}
-	rep := &spectrumReport{Schema: spectrumSchema, Notes: []string{}, Warnings: []string{}, Caution: caution, MaxCoeff: f.maxCoeff, Angles: []float64{}}
+	rep := spectrum.NewReport(f.maxCoeff)
 	if f.eigenvalues != "" {
 		return runMeasured(cmd, f, rep)
 	}
@@ -228,7 +175,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 	var p *pattern.Pattern
 	var err error
 	if f.design != "" {
-		if spec, err = readSpectrumSpec(f.design); err != nil {
+		if spec, err = design.ReadSpecFile(f.design); err != nil {
 			return err
 		}
 		if f.thetaGrid != "" {
@@ -242,11 +189,11 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		return err
 	}
 	rep.Source, rep.Sites, rep.Unit = p.Source, p.Len(), p.Unit
-	m, info, err := f.buildModel(p.Len(), f.theta, cmd.InOrStdin())
+	m, err := f.buildModel(p.Len(), f.theta, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
-	rep.Operator = info
+	rep.Operator = m.Info(f.onsiteFile)
 	opt, err := f.labelOptions(cmd.Context(), p, spec, rep)
 	if err != nil {
 		return err
@@ -262,7 +209,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		}
 		rep.EdgeModes, rep.Spectrum = er, er.Start
 		if f.plot.dir != "" {
-			pic, err := picture.EdgeFlow(er, f.design, levelsAxis(f.model))
+			pic, err := picture.EdgeFlow(er, f.design, spectrum.Kind(f.model).Axis())
 			if err != nil {
 				return fmt.Errorf("--plot: %w", err)
 			}
@@ -280,7 +227,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		}
 		if f.out != "" {
 			if err := writeFileAtomic(f.out, func(file io.Writer) error {
-				return writeSpectrumLevels(file, op, rep)
+				return rep.WriteLevels(file, op)
 			}); err != nil {
 				return err
 			}
@@ -288,18 +235,10 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		}
 	}
 	rep.Warnings = append(rep.Warnings, rep.Spectrum.Warnings...)
-	if err := f.plot.writeSpectrum(cmd.ErrOrStderr(), rep.Spectrum, rep.Source, levelsAxis(f.model)); err != nil {
+	if err := f.plot.writeSpectrum(cmd.ErrOrStderr(), rep.Spectrum, rep.Source, spectrum.Kind(f.model).Axis()); err != nil {
 		return err
 	}
-	return rep.write(cmd.OutOrStdout(), f.json)
-}
-
-// levelsAxis names the quantity on the spectrum picture's level axis.
-func levelsAxis(model string) string {
-	if model == "springs" {
-		return "ω² (squared frequency)"
-	}
-	return "energy (units of t0)"
+	return writeSpectrumReport(cmd.OutOrStdout(), rep, f.json)
 }
 
 // check refuses contradictory flags before anything is read.
@@ -363,23 +302,17 @@ func (f *spectrumFlags) check(cmd *cobra.Command, args []string) error {
 // buildModel turns the flags into a spectrum.Model for n sites; theta is
 // the almost-Mathieu angle (ignored without --harper). The files of
 // --table and --onsite-file may be "-", read from stdin.
-func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spectrum.Model, *operatorInfo, error) {
-	var m spectrum.Model
-	switch spectrum.Kind(f.model) {
-	case spectrum.Hopping, spectrum.Springs:
-		m.Kind = spectrum.Kind(f.model)
-	default:
-		return m, nil, fmt.Errorf("--model %q: want hopping or springs", f.model)
+func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spectrum.Model, error) {
+	m := spectrum.Model{Kind: spectrum.Kind(f.model), Ends: spectrum.Ends(f.ends), NNN: f.nnn, Closing: f.closing}
+	if m.Kind != spectrum.Hopping && m.Kind != spectrum.Springs {
+		return m, fmt.Errorf("--model %q: want hopping or springs", f.model)
 	}
-	switch spectrum.Ends(f.ends) {
-	case spectrum.Open, spectrum.Periodic:
-		m.Ends = spectrum.Ends(f.ends)
-	default:
-		return m, nil, fmt.Errorf("--ends %q: want open or periodic", f.ends)
+	if m.Ends != spectrum.Open && m.Ends != spectrum.Periodic {
+		return m, fmt.Errorf("--ends %q: want open or periodic", f.ends)
 	}
 	for name, v := range map[string]float64{"t0": f.t0, "decay": f.decay, "power": f.power, "nnn": f.nnn, "closing": f.closing, "onsite": f.onsite, "harper": f.harper, "harper-phase": f.harperPhase} {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return m, nil, fmt.Errorf("--%s %v: not a finite number", name, v)
+			return m, fmt.Errorf("--%s %v: not a finite number", name, v)
 		}
 	}
 	switch f.law {
@@ -393,49 +326,42 @@ func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spe
 			return spectrum.Table{D: d, T: c}, err
 		})
 		if err != nil {
-			return m, nil, err
+			return m, err
 		}
 		m.Law = t
 	default:
-		return m, nil, fmt.Errorf("--hopping %q: want exp, power or table", f.law)
+		return m, fmt.Errorf("--hopping %q: want exp, power or table", f.law)
 	}
 	if f.t0 == 0 && f.law != "table" {
-		return m, nil, errors.New("--t0 0 couples nothing: every level would be an on-site term")
+		return m, errors.New("--t0 0 couples nothing: every level would be an on-site term")
 	}
-	m.NNN, m.Closing = f.nnn, f.closing
 	m.OnSite.Constant = f.onsite
-	onsite := fmt.Sprintf("%g", f.onsite)
 	if f.onsiteFile != "" {
 		v, err := readInput(f.onsiteFile, stdin, pattern.ReadValues)
 		if err != nil {
-			return m, nil, err
+			return m, err
 		}
 		if len(v) != n {
-			return m, nil, fmt.Errorf("--onsite-file %s: %d values for %d sites", f.onsiteFile, len(v), n)
+			return m, fmt.Errorf("--onsite-file %s: %d values for %d sites", f.onsiteFile, len(v), n)
 		}
 		m.OnSite.Values = v
-		onsite += " + values from " + f.onsiteFile
 	}
 	if f.harper != 0 {
 		m.OnSite.Lambda, m.OnSite.Phase = f.harper, f.harperPhase
 		if len(theta) > 0 {
 			m.OnSite.Theta = theta[0]
 		}
-		onsite += fmt.Sprintf(" + 2·%g·cos 2π(nθ + %g)", f.harper, f.harperPhase)
 	}
-	info := &operatorInfo{Model: string(m.Kind), Law: m.Law.String(), NNN: m.NNN, Ends: string(m.Ends), Closing: m.Closing, OnSite: onsite}
-	return m, info, nil
+	return m, nil
 }
 
 // labelOptions builds the options of the gap analysis: the flags, and the
 // labels spectrum.ChooseLabels picks from --theta, --period, the design
-// (spec, when f.design is set) and the pattern p.
-func (f *spectrumFlags) labelOptions(ctx context.Context, p *pattern.Pattern, spec design.Spec, rep *spectrumReport) (spectrum.Options, error) {
+// (spec, when f.design is set) and the pattern p, recorded in rep.
+func (f *spectrumFlags) labelOptions(ctx context.Context, p *pattern.Pattern, spec design.Spec, rep *spectrum.Report) (spectrum.Options, error) {
 	opt := spectrum.Options{MinGap: f.minGap, MaxCoeff: f.maxCoeff}
 	if opt.MinGap == 0 && p != nil {
-		// Not narrower than 4 mean level spacings of this chain, so that
-		// the spacing of a finite chain's levels is not read as gaps.
-		opt.MinGap = max(spectrum.DefaultMinGap, 4/float64(p.Len()))
+		opt.MinGap = spectrum.MinGapFor(p.Len())
 	}
 	switch f.method {
 	case "auto":
@@ -452,34 +378,11 @@ func (f *spectrumFlags) labelOptions(ctx context.Context, p *pattern.Pattern, sp
 	if err != nil {
 		return opt, err
 	}
-	opt = l.Apply(opt)
-	switch l.Source {
-	case spectrum.GivenAngles:
-		rep.LabelSource = "given (--theta)"
-	case spectrum.GivenPeriod:
-		rep.LabelSource = "given (--period)"
-	case spectrum.DesignAngles:
-		rep.LabelSource = "the design's θ"
-	case spectrum.DesignCell:
-		rep.LabelSource = "the design's cell"
-	case spectrum.HullAnalysis:
-		rep.LabelSource = fmt.Sprintf("recovered by the hull analysis (%s hull)", l.Class)
-	}
-	rep.Generators = l.Generators
-	rep.Notes = append(rep.Notes, l.Notes...)
-	if l.Unresolved != "" {
-		rep.Warnings = append(rep.Warnings, "the hull analysis could not decide the class ("+l.Unresolved+"); the gaps are not labelled — give --theta or --period")
-	}
-	rep.Warnings = append(rep.Warnings, l.Warnings...)
-	rep.Angles, rep.Period = opt.Angles, opt.Period
-	if rep.Angles == nil {
-		rep.Angles = []float64{}
-	}
-	return opt, nil
+	return rep.Label(l, opt), nil
 }
 
 // runMeasured analyses measured levels.
-func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) error {
+func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrum.Report) error {
 	v, err := readInput(f.eigenvalues, cmd.InOrStdin(), pattern.ReadValues)
 	if err != nil {
 		return err
@@ -505,7 +408,7 @@ func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) erro
 	}
 	if f.out != "" {
 		if err := writeFileAtomic(f.out, func(file io.Writer) error {
-			return writeSpectrumLevels(file, nil, rep)
+			return rep.WriteLevels(file, nil)
 		}); err != nil {
 			return err
 		}
@@ -515,55 +418,37 @@ func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrumReport) erro
 	if err := f.plot.writeSpectrum(cmd.ErrOrStderr(), rep.Spectrum, f.eigenvalues, "measured level"); err != nil {
 		return err
 	}
-	return rep.write(cmd.OutOrStdout(), f.json)
+	return writeSpectrumReport(cmd.OutOrStdout(), rep, f.json)
 }
 
 // runThetaGrid writes the spectrum over a grid of θ as CSV.
 func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error {
-	thetas, err := parseThetaGrid(f.thetaGrid)
+	thetas, err := spectrum.ParseGrid(f.thetaGrid)
 	if err != nil {
-		return err
+		return fmt.Errorf("--theta-grid %w", err)
 	}
-	m, _, err := f.buildModel(spec.Sites, nil, cmd.InOrStdin())
+	m, err := f.buildModel(spec.Sites, nil, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
 	// The spectra are kept for --plot only.
 	var plotThetas []float64
 	var plotValues [][]float64
+	var keep func(float64, []float64)
+	if f.plot.dir != "" {
+		keep = func(theta float64, v []float64) {
+			plotThetas, plotValues = append(plotThetas, theta), append(plotValues, v)
+		}
+	}
 	scan := func(w io.Writer) error {
 		plotThetas, plotValues = nil, nil
-		bw := bufio.NewWriter(w)
-		fmt.Fprintf(bw, "# phasonhull spectrum: every level of %s over %d values of θ; ids = (index + 1)/N\n", f.design, len(thetas))
-		bw.WriteString("theta,eigenvalue,ids\n")
-		var buf []byte
-		err := spectrum.ScanThetaContext(cmd.Context(), spec, m, thetas, func(theta float64, v []float64) error {
-			if f.plot.dir != "" {
-				plotThetas, plotValues = append(plotThetas, theta), append(plotValues, slices.Clone(v))
-			}
-			for k, e := range v {
-				buf = strconv.AppendFloat(buf[:0], theta, 'g', -1, 64)
-				buf = append(buf, ',')
-				buf = strconv.AppendFloat(buf, e, 'g', -1, 64)
-				buf = append(buf, ',')
-				buf = strconv.AppendFloat(buf, float64(k+1)/float64(len(v)), 'g', -1, 64)
-				buf = append(buf, '\n')
-				if _, err := bw.Write(buf); err != nil {
-					return err
-				}
-			}
-			return nil
-		})
-		if err != nil {
-			return err
-		}
-		return bw.Flush()
+		return spectrum.WriteScan(cmd.Context(), w, spec, m, thetas, f.design, keep)
 	}
 	plot := func() error {
 		if f.plot.dir == "" {
 			return nil
 		}
-		p, err := picture.ThetaScan(plotThetas, plotValues, f.design, levelsAxis(f.model))
+		p, err := picture.ThetaScan(plotThetas, plotValues, f.design, spectrum.Kind(f.model).Axis())
 		if err != nil {
 			return fmt.Errorf("--plot: %w", err)
 		}
@@ -581,7 +466,7 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 		_, err := io.WriteString(cmd.OutOrStdout(), sb.String())
 		return err
 	}
-	if err := writeFileAtomic(f.out, func(file io.Writer) error { return scan(file) }); err != nil {
+	if err := writeFileAtomic(f.out, scan); err != nil {
 		return err
 	}
 	if err := plot(); err != nil {
@@ -591,165 +476,10 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 	return nil
 }
 
-// parseGrid reads START:STOP:COUNT into COUNT evenly spaced values from
-// START to STOP inclusive.
-func parseThetaGrid(s string) ([]float64, error) {
-	parts := strings.Split(s, ":")
-	if len(parts) != 3 {
-		return nil, fmt.Errorf("--theta-grid %q: want START:STOP:COUNT, e.g. 0.01:0.99:99", s)
-	}
-	a, err1 := strconv.ParseFloat(parts[0], 64)
-	b, err2 := strconv.ParseFloat(parts[1], 64)
-	n, err3 := strconv.Atoi(parts[2])
-	if err1 != nil || err2 != nil || err3 != nil || math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) {
-		return nil, fmt.Errorf("--theta-grid %q: START and STOP must be numbers and COUNT an integer", s)
-	}
-	if n < 1 || n > 100_000 {
-		return nil, fmt.Errorf("--theta-grid %q: COUNT must lie in 1..100000", s)
-	}
-	if n == 1 {
-		return []float64{a}, nil
-	}
-	v := make([]float64, n)
-	for i := range v {
-		v[i] = a + (b-a)*float64(i)/float64(n-1)
-	}
-	return v, nil
-}
-
-// readSpec reads a design spec file.
-func readSpectrumSpec(path string) (design.Spec, error) {
-	file, err := os.Open(path)
-	if err != nil {
-		return design.Spec{}, err
-	}
-	defer file.Close()
-	return design.ReadSpec(file, path)
-}
-
-// writeLevels writes every level with the IDS just above it, or, when the
-// levels were counted rather than computed, the counting staircase on an
-// energy grid.
-func writeSpectrumLevels(out io.Writer, op *spectrum.Operator, rep *spectrumReport) error {
-	w := bufio.NewWriter(out)
-	r := rep.Spectrum
-	var buf []byte
-	row := func(x, ids float64) {
-		buf = strconv.AppendFloat(buf[:0], x, 'g', -1, 64)
-		buf = append(buf, ',')
-		buf = strconv.AppendFloat(buf, ids, 'g', -1, 64)
-		buf = append(buf, '\n')
-		w.Write(buf)
-	}
-	if r.Values != nil {
-		fmt.Fprintf(w, "# phasonhull spectrum: the %d levels of %s; ids = (index + 1)/N, the IDS just above each level\n", len(r.Values), rep.Source)
-		w.WriteString("eigenvalue,ids\n")
-		for k, e := range r.Values {
-			row(e, float64(k+1)/float64(len(r.Values)))
-		}
-		return w.Flush()
-	}
-	// The grid reaches a thousandth of the width past the extreme levels,
-	// so that the staircase starts at 0 and ends at 1.
-	const points = 2001
-	fmt.Fprintf(w, "# phasonhull spectrum: the counting staircase of %s (%d sites) at %d energies; ids = levels below the energy / N\n", rep.Source, r.Sites, points)
-	w.WriteString("energy,ids\n")
-	pad := 1e-3 * (r.Highest - r.Lowest)
-	lo, hi := r.Lowest-pad, r.Highest+pad
-	for i := range points {
-		e := lo + (hi-lo)*float64(i)/(points-1)
-		c, err := op.Count(e)
-		if err != nil {
-			return err
-		}
-		row(e, float64(c)/float64(r.Sites))
-	}
-	return w.Flush()
-}
-
-// write prints the report as text or JSON.
-func (rep *spectrumReport) write(out io.Writer, asJSON bool) error {
+// writeSpectrumReport prints the report as text or JSON.
+func writeSpectrumReport(w io.Writer, rep *spectrum.Report, asJSON bool) error {
 	if asJSON {
-		return writeJSON(out, rep)
+		return writeJSON(w, rep)
 	}
-	var b strings.Builder
-	r := rep.Spectrum
-	unit := rep.Unit
-	if unit == "" {
-		unit = "(no unit)"
-	}
-	if o := rep.Operator; o != nil {
-		bonds := "nearest neighbours"
-		if o.NNN != 0 {
-			bonds = fmt.Sprintf("next-nearest ratio %g", o.NNN)
-		}
-		ends := o.Ends
-		if o.Ends == string(spectrum.Periodic) {
-			ends = "periodic (closing spacing: the mean)"
-			if o.Closing != 0 {
-				ends = fmt.Sprintf("periodic (closing spacing %g %s)", o.Closing, unit)
-			}
-		}
-		fmt.Fprintf(&b, "chain       %s: %d sites, %s\n", rep.Source, rep.Sites, unit)
-		fmt.Fprintf(&b, "operator    %s, %s, %s, ends %s, on-site %s\n", o.Model, o.Law, bonds, ends, o.OnSite)
-	} else {
-		fmt.Fprintf(&b, "levels      %s: %d measured levels\n", rep.Source, rep.Sites)
-	}
-	fmt.Fprintf(&b, "spectrum    [%.6g, %.6g] by %s; gaps wider than %.3g (%.3g of the width)\n", r.Lowest, r.Highest, r.Method, r.MinGap, r.MinGap/(r.Highest-r.Lowest))
-	switch {
-	case len(rep.Angles) == 1:
-		fmt.Fprintf(&b, "labels      n + m·θ, θ = %.9g, |m| ≤ %d, %s; matched within %.3g (%.3g/N)\n", rep.Angles[0], rep.MaxCoeff, rep.LabelSource, r.Resolution, r.Resolution*float64(r.Sites))
-	case len(rep.Angles) == 2:
-		fmt.Fprintf(&b, "labels      n + m1·θ1 + m2·θ2, θ = %.9g, %.9g, |m| ≤ %d, %s; matched within %.3g (%.3g/N)\n", rep.Angles[0], rep.Angles[1], rep.MaxCoeff, rep.LabelSource, r.Resolution, r.Resolution*float64(r.Sites))
-	case rep.Period > 0:
-		fmt.Fprintf(&b, "labels      k/%d, %s; matched within %.3g (%.3g/N)\n", rep.Period, rep.LabelSource, r.Resolution, r.Resolution*float64(r.Sites))
-	case len(rep.Generators) > 0:
-		fmt.Fprintf(&b, "labels      the %d labels of the group generated by %v, %s; matched within %.3g (%.3g/N)\n", r.Labels, rep.Generators, rep.LabelSource, r.Resolution, r.Resolution*float64(r.Sites))
-	default:
-		fmt.Fprintf(&b, "labels      none (%s)\n", rep.LabelSource)
-	}
-	labelled := 0
-	for _, g := range r.Gaps {
-		if g.Label != nil {
-			labelled++
-		}
-	}
-	fmt.Fprintf(&b, "gaps        %d, %d labelled\n", len(r.Gaps), labelled)
-	if len(r.Gaps) > 0 {
-		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
-		fmt.Fprintf(tw, "\t#\tIDS\tlabel\tlabel IDS\twidth\trelative\tlower edge\tupper edge\tboundary states\t\n")
-		for i, g := range r.Gaps {
-			lab, lids := "unlabelled", "-"
-			if g.Label != nil {
-				lab, lids = ints(g.Label.Coeffs), fmt.Sprintf("%.6f", g.Label.IDS)
-			}
-			fmt.Fprintf(tw, "\t%d\t%.6f\t%s\t%s\t%.4g\t%.4f\t%.6g\t%.6g\t%d\t\n", i+1, g.IDS, lab, lids, g.Width, g.RelWidth, g.Lower, g.Upper, len(g.Boundary))
-		}
-		tw.Flush()
-	}
-	if er := rep.EdgeModes; er != nil {
-		fmt.Fprintf(&b, "edge modes  %d phases over one turn; signed crossings of each gap's middle (+1 upward), first end and last end; expected +m and −m\n", er.Phases)
-		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
-		fmt.Fprintf(tw, "\tIDS\tlabel\tm\tfirst end\tlast end\tjumps\tunresolved\tagrees\t\n")
-		for _, g := range er.Gaps {
-			lab, m := "unlabelled", "-"
-			if l := g.Gap.Label; l != nil {
-				lab, m = ints(l.Coeffs), fmt.Sprintf("%+d", l.Coeffs[1])
-			}
-			fmt.Fprintf(tw, "\t%.6f\t%s\t%s\t%+d\t%+d\t%d\t%d\t%v\t\n", g.Gap.IDS, lab, m, g.First, g.Last, g.Jumps, g.Unresolved, g.Agrees)
-		}
-		tw.Flush()
-	}
-	if rep.Out != "" {
-		fmt.Fprintf(&b, "written     %s\n", rep.Out)
-	}
-	fmt.Fprintf(&b, "caution     %s\n", rep.Caution)
-	for _, n := range rep.Notes {
-		fmt.Fprintf(&b, "note        %s\n", n)
-	}
-	for _, n := range rep.Warnings {
-		fmt.Fprintf(&b, "warning     %s\n", n)
-	}
-	_, err := io.WriteString(out, b.String())
-	return err
+	return rep.WriteText(w)
 }

@@ -47,7 +47,7 @@ func TestSpectrumCommandJSON(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}
-	if rep.Schema != spectrumSchema || rep.Sites != 400 || rep.Operator.Model != "hopping" || rep.Operator.Ends != "open" || len(rep.Angles) != 1 {
+	if rep.Schema != spectrum.ReportSchema || rep.Sites != 400 || rep.Operator.Model != "hopping" || rep.Operator.Ends != "open" || len(rep.Angles) != 1 {
 		t.Errorf("report header %+v", rep)
 	}
 	gaps := raw["spectrum"].(map[string]any)["gaps"].([]any)
@@ -106,7 +106,7 @@ func TestSpectrumCommandMeasured(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	var rep spectrumReport
+	var rep spectrum.Report
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}
@@ -290,7 +290,7 @@ func TestSpectrumCommandRecoveredAngle(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	var rep spectrumReport
+	var rep spectrum.Report
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}
@@ -317,7 +317,7 @@ func TestSpectrumCommandRecoveredAngle(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	var meas spectrumReport
+	var meas spectrum.Report
 	if err := json.Unmarshal([]byte(out), &meas); err != nil {
 		t.Fatal(err)
 	}

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"sort"
 	"strconv"
 	"strings"
@@ -115,6 +116,17 @@ type Spec struct {
 // caller to set.
 func NewSpec(family Family) Spec {
 	return Spec{Family: family, Sites: DefaultSites, Seed: DefaultSeed}
+}
+
+// ReadSpecFile reads the JSON design spec at path, as ReadSpec does; a
+// file that cannot be opened gives the error of os.Open.
+func ReadSpecFile(path string) (Spec, error) {
+	file, err := os.Open(path)
+	if err != nil {
+		return Spec{}, err
+	}
+	defer file.Close()
+	return ReadSpec(file, path)
 }
 
 // ReadSpec reads a JSON design spec from r; name is used in messages.

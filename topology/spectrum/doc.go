@@ -63,6 +63,15 @@
 // (hull.Result.LabelGroup), in that order, and how wide a match is when
 // the angles were measured; Labelling.Apply puts its choice into Options.
 //
+// # Reports
+//
+// A Report gathers a spectrum's gaps with the operator they were computed
+// on (Model.Info) and what labelled them (Report.Label records a
+// Labelling), in the phasonhull.spectrum/1 JSON form; WriteText writes it
+// for a reader and WriteLevels its levels, or counting staircase, as CSV.
+// WriteScan writes the spectra of ScanTheta over a grid of θ (ParseGrid)
+// as CSV.
+//
 // # Boundary states and the gap label
 //
 // EdgeModes moves the pattern through one turn of its phase (a Sweep,

@@ -1,9 +1,11 @@
 package spectrum_test
 
 import (
+	"context"
 	"fmt"
 	"log"
 	"math"
+	"os"
 
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
@@ -99,4 +101,46 @@ func ExampleAnalyzeMeasured() {
 	// IDS 0.40  label [0 2]
 	// IDS 0.60  label [1 -2]
 	// IDS 0.80  label [1 -1]
+}
+
+// A report of the almost-Mathieu operator's widest gaps at the golden
+// angle, as "phasonhull spectrum" prints it.
+func ExampleReport_WriteText() {
+	x := make([]float64, 400)
+	for i := range x {
+		x[i] = float64(i)
+	}
+	p, err := pattern.New(x, "", "lattice")
+	if err != nil {
+		log.Fatal(err)
+	}
+	theta := (math.Sqrt(5) - 1) / 2
+	m := spectrum.Model{OnSite: spectrum.OnSite{Lambda: 1, Theta: theta}}
+	op, err := spectrum.New(p, m)
+	if err != nil {
+		log.Fatal(err)
+	}
+	rep := spectrum.NewReport(spectrum.DefaultMaxCoeff)
+	rep.Source, rep.Sites, rep.Operator = p.Source, p.Len(), m.Info("")
+	l, err := spectrum.ChooseLabels(context.Background(), spectrum.LabelSources{Angles: []float64{theta}})
+	if err != nil {
+		log.Fatal(err)
+	}
+	opt := rep.Label(l, spectrum.Options{MinGap: 0.1})
+	if rep.Spectrum, err = spectrum.Analyze(op, opt); err != nil {
+		log.Fatal(err)
+	}
+	if err := rep.WriteText(os.Stdout); err != nil {
+		log.Fatal(err)
+	}
+	// Output:
+	// chain       lattice: 400 sites, (no unit)
+	// operator    hopping, t = 1 on every bond, nearest neighbours, ends open, on-site 0 + 2·1·cos 2π(nθ + 0)
+	// spectrum    [-2.59751, 2.5975] by values; gaps wider than 0.52 (0.1 of the width)
+	// labels      n + m·θ, θ = 0.618033989, |m| ≤ 6, given (--theta); matched within 0.0075 (3/N)
+	// gaps        2, 2 labelled
+	//     #       IDS    label  label IDS  width  relative  lower edge  upper edge  boundary states
+	//     1  0.380000  (1, -1)   0.381966  1.685    0.3244    -1.87423   -0.189043                1
+	//     2  0.617500   (0, 1)   0.618034  1.685    0.3244    0.189052     1.87422                0
+	// caution     A label says which value the IDS takes in a gap of this operator: n + m·θ is the share of levels below the gap. Counts of a finite chain resolve an IDS to about 3/N, so a label is matched within that. An unlabelled gap can mean that the angle is off, that its coefficients exceed --max-coeff, or that the operator breaks the pattern's symmetry (an on-site term with another angle, couplings that do not follow the local configuration).
 }

@@ -1,9 +1,15 @@
 package spectrum
 
 import (
+	"bufio"
 	"context"
 	"errors"
 	"fmt"
+	"io"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
 
 	"phasonhull/pattern/design"
 )
@@ -64,4 +70,63 @@ func ScanThetaContext(ctx context.Context, spec design.Spec, m Model, thetas []f
 		}
 	}
 	return nil
+}
+
+// ParseGrid reads START:STOP:COUNT into COUNT evenly spaced values from
+// START to STOP inclusive (START alone when COUNT is 1); COUNT must lie in
+// 1..100000.
+func ParseGrid(s string) ([]float64, error) {
+	parts := strings.Split(s, ":")
+	if len(parts) != 3 {
+		return nil, fmt.Errorf("%q: want START:STOP:COUNT, e.g. 0.01:0.99:99", s)
+	}
+	a, err1 := strconv.ParseFloat(parts[0], 64)
+	b, err2 := strconv.ParseFloat(parts[1], 64)
+	n, err3 := strconv.Atoi(parts[2])
+	if err1 != nil || err2 != nil || err3 != nil || math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) {
+		return nil, fmt.Errorf("%q: START and STOP must be numbers and COUNT an integer", s)
+	}
+	if n < 1 || n > 100_000 {
+		return nil, fmt.Errorf("%q: COUNT must lie in 1..100000", s)
+	}
+	if n == 1 {
+		return []float64{a}, nil
+	}
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = a + (b-a)*float64(i)/float64(n-1)
+	}
+	return v, nil
+}
+
+// WriteScan writes the spectra of ScanTheta as CSV rows
+// theta,eigenvalue,ids (ids = (index + 1)/N), after a comment line naming
+// the design's source, and hands each spectrum to each as well when it is
+// not nil (each may keep the values).
+func WriteScan(ctx context.Context, w io.Writer, spec design.Spec, m Model, thetas []float64, source string, each func(theta float64, values []float64)) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "# phasonhull spectrum: every level of %s over %d values of θ; ids = (index + 1)/N\n", source, len(thetas))
+	bw.WriteString("theta,eigenvalue,ids\n")
+	var buf []byte
+	err := ScanThetaContext(ctx, spec, m, thetas, func(theta float64, v []float64) error {
+		if each != nil {
+			each(theta, slices.Clone(v))
+		}
+		for k, e := range v {
+			buf = strconv.AppendFloat(buf[:0], theta, 'g', -1, 64)
+			buf = append(buf, ',')
+			buf = strconv.AppendFloat(buf, e, 'g', -1, 64)
+			buf = append(buf, ',')
+			buf = strconv.AppendFloat(buf, float64(k+1)/float64(len(v)), 'g', -1, 64)
+			buf = append(buf, '\n')
+			if _, err := bw.Write(buf); err != nil {
+				return err
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		return err
+	}
+	return bw.Flush()
 }

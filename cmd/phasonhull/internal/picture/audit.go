@@ -9,6 +9,8 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"phasonhull/topology/audit"
 )
 
 // AuditSites is what the audit figure draws: the residual of every
@@ -28,6 +30,25 @@ type AuditSites struct {
 	Missing, Extra []float64
 	// Verdict is "pass" or "fail".
 	Verdict string
+}
+
+// AuditSitesOf gathers what the audit figure draws from an audit report;
+// false when no site was matched.
+func AuditSitesOf(rep *audit.Report) (AuditSites, bool) {
+	a := AuditSites{Source: rep.Measured, Unit: rep.Unit, OutlierThreshold: rep.OutlierThreshold, Verdict: string(rep.Verdict),
+		Missing: rep.MissingAt(), Extra: rep.ExtraAt()}
+	if len(rep.Sites) == 0 {
+		return a, false
+	}
+	if rep.Tolerance != nil {
+		a.Tolerance = *rep.Tolerance
+	}
+	for _, s := range rep.Sites {
+		a.Position = append(a.Position, s.Position)
+		a.Residual = append(a.Residual, s.Residual)
+		a.Flagged = append(a.Flagged, s.Flagged())
+	}
+	return a, true
 }
 
 // Audit draws the residual of every site along the chain with the

@@ -16,6 +16,7 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
+	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
 )
 
@@ -289,4 +290,33 @@ func intList(v []int) string {
 		parts[i] = strconv.Itoa(x)
 	}
 	return strings.Join(parts, ", ")
+}
+
+// AuditOf is the part of an audit report the page shows: the verdict
+// with its reasons and a table of the sites, calibration, residuals,
+// tolerance, outliers and hull comparison.
+func AuditOf(rep *audit.Report) *Audit {
+	a := &Audit{Verdict: string(rep.Verdict), Reasons: rep.Reasons, Design: rep.Design}
+	u := ""
+	if rep.Unit != "" {
+		u = " " + rep.Unit
+	}
+	add := func(k, v string) { a.Rows = append(a.Rows, [2]string{k, v}) }
+	add("sites", fmt.Sprintf("design %d, measured %d: %d matched, %d missing, %d extra", rep.DesignSites, rep.MeasuredSites, rep.Matched, len(rep.Missing), len(rep.Extra)))
+	if rep.Scale != nil {
+		add("calibration", fmt.Sprintf("offset %.6g ± %.2g%s, scale %.9g ± %.2g", *rep.Offset, *rep.OffsetErr, u, *rep.Scale, *rep.ScaleErr))
+	}
+	add("residuals", fmt.Sprintf("rms %.4g%s, max %.4g%s, robust sigma %.3g%s", rep.RMS, u, rep.Max, u, rep.Sigma, u))
+	if rep.Tolerance != nil {
+		add("tolerance", fmt.Sprintf("%.4g%s", *rep.Tolerance, u))
+	}
+	add("outliers", fmt.Sprintf("%d", len(rep.Outliers)))
+	if c := rep.Hull.Comparison; c != nil {
+		add("hull comparison", c.Verdict)
+	}
+	a.Unit = rep.Unit
+	for _, d := range rep.Defects() {
+		a.Sites = append(a.Sites, Site{Kind: d.Kind, Design: d.Design, Rows: d.Measured, Position: d.Position, Residual: d.Residual})
+	}
+	return a
 }
