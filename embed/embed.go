@@ -16,6 +16,10 @@ const DefaultLandmarks = 300
 const DefaultSeed = 1
 
 // Options control Embed. The zero value asks for the defaults.
+// ExactData is the Options.Noise of data taken as exact: no position
+// noise is tolerated.
+const ExactData = -1.0
+
 type Options struct {
 	// Window is the delay window; 0 chooses it from the data (see
 	// ChooseWindow).
@@ -31,8 +35,8 @@ type Options struct {
 	// Noise is the position noise, as a fraction of the mean spacing,
 	// that is tolerated: the noise floor estimated from the data is never
 	// taken above what noise of this size produces. 0 means DefaultNoise;
-	// a negative value tolerates none (the floor is then the estimate
-	// alone, capped at zero: exact data).
+	// a negative value (ExactData) tolerates none (the floor is then the
+	// estimate alone, capped at zero: exact data).
 	Noise float64
 	// Exclude marks spacings that no delay vector may contain — a spacing
 	// across a missing site, say; the vectors that would contain one are

@@ -41,23 +41,34 @@ type Length struct {
 	Unit  string
 }
 
-// lengthRE matches a length: a number without sign and an optional unit,
-// spaces allowed around and between them.
-var lengthRE = regexp.MustCompile(`^\s*([0-9.]+(?:[eE][-+]?[0-9]+)?)\s*([A-Za-zµμ]*)\s*$`)
+// lengthRE matches a length: a number with an optional sign and an
+// optional unit, spaces allowed around and between them.
+var lengthRE = regexp.MustCompile(`^\s*([-+]?[0-9.]+(?:[eE][-+]?[0-9]+)?)\s*([A-Za-zµμ]*)\s*$`)
+
+// ParseSignedLength reads a finite length of either sign, or zero (an
+// amplitude, a noise level), written as ParseLength takes it: "-0.1",
+// "+20 nm", "0". The error quotes s.
+func ParseSignedLength(s string) (Length, error) {
+	m := lengthRE.FindStringSubmatch(s)
+	if m == nil {
+		return Length{}, fmt.Errorf("%q: want a length like 0.02mm, -20um or 0.1", s)
+	}
+	v, err := strconv.ParseFloat(m[1], 64)
+	if err != nil || math.IsInf(v, 0) {
+		return Length{}, fmt.Errorf("%q: want a finite length like 0.02mm, -20um or 0.1", s)
+	}
+	return Length{Value: v, Unit: m[2]}, nil
+}
 
 // ParseLength reads a positive length written as a number and an optional
 // unit: "20um", "0.02 mm", "1e-3mm", "20 µm", "3". The unit is not checked
 // here; In refuses one it cannot convert. The error quotes s.
 func ParseLength(s string) (Length, error) {
-	m := lengthRE.FindStringSubmatch(s)
-	if m == nil {
+	l, err := ParseSignedLength(s)
+	if t := strings.TrimSpace(s); err != nil || !(l.Value > 0) || strings.HasPrefix(t, "+") || strings.HasPrefix(t, "-") {
 		return Length{}, fmt.Errorf("%q: want a positive length like 0.02mm or 20um", s)
 	}
-	v, err := strconv.ParseFloat(m[1], 64)
-	if err != nil || !(v > 0) || math.IsInf(v, 0) {
-		return Length{}, fmt.Errorf("%q: want a positive length like 0.02mm or 20um", s)
-	}
-	return Length{Value: v, Unit: m[2]}, nil
+	return l, nil
 }
 
 // In returns the length in unit. A length without a unit is taken to be in

@@ -69,3 +69,31 @@ func TestParseLength(t *testing.T) {
 		t.Errorf("String %q", s)
 	}
 }
+
+// ParseSignedLength takes amplitudes and noise levels: either sign, zero,
+// with or without a unit; ParseLength still wants a positive length.
+func TestParseSignedLength(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want Length
+		ok   bool
+	}{
+		{"-0.1", Length{-0.1, ""}, true},
+		{"+20 nm", Length{20, "nm"}, true},
+		{"0", Length{0, ""}, true},
+		{"1e-3mm", Length{1e-3, "mm"}, true},
+		{"- 3", Length{}, false},
+		{"1e400", Length{}, false},
+		{"mm", Length{}, false},
+	} {
+		got, err := ParseSignedLength(c.in)
+		if (err == nil) != c.ok || got != c.want {
+			t.Errorf("ParseSignedLength(%q) = %v, %v; want %v (ok %v)", c.in, got, err, c.want, c.ok)
+		}
+	}
+	for _, s := range []string{"0", "-1um"} {
+		if _, err := ParseLength(s); err == nil {
+			t.Errorf("ParseLength(%q) accepted a length that is not positive", s)
+		}
+	}
+}

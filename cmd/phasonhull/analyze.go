@@ -6,6 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/topology/hull"
 )
 
@@ -14,6 +15,7 @@ type analyzeFlags struct {
 	in        inputFlags
 	opt       hull.Options
 	memory    string
+	noise     *flagval.Noise
 	json      bool
 	allLabels bool
 	plot      plotFlags
@@ -57,7 +59,7 @@ README).`,
 	fs.IntVar(&f.opt.Subsamples, "subsamples", hull.DefaultSubsamples, "landmark subsamples whose Betti numbers must agree")
 	fs.IntVar(&f.opt.MaxCoeff, "max-coeff", hull.DefaultMaxCoeff, "largest |m| of the listed gap labels")
 	fs.Uint64Var(&f.opt.Seed, "seed", hull.DefaultSeed, "seed of every random choice")
-	fs.Float64Var(&f.opt.Noise, "tolerance", 0, "position noise tolerated, as a fraction of the mean spacing (0: the embedding's default)")
+	f.noise = noiseFlag(fs)
 	fs.StringVar(&f.memory, "memory", "", "memory budget of the persistence computation, e.g. 4GiB (default: the engine's)")
 	fs.BoolVar(&f.json, "json", false, "print the result as one JSON object")
 	fs.BoolVar(&f.allLabels, "all-labels", false, "list every gap label in the text output (default: the first 12)")
@@ -85,6 +87,9 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 		return err
 	}
 	opt := f.opt
+	if opt.Noise, err = noiseFraction(f.noise, p); err != nil {
+		return err
+	}
 	if f.memory != "" {
 		if opt.MemoryBudget, err = parseBytes(f.memory); err != nil {
 			return fmt.Errorf("--memory: %w", err)

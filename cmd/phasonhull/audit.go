@@ -39,7 +39,7 @@ type auditFlags struct {
 func (f *auditFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.designPath, "design", "", "the design: a positions `FILE` (any input format) or a JSON design spec")
 	fs.StringVar(&f.designUnit, "design-unit", "", "length unit of the design, overriding the one in its file or spec")
-	fs.BoolVar(&f.drift, "drift", false, "fit a linear drift of the scale along the chain as well as offset and scale")
+	fs.BoolVar(&f.drift, "fit-drift", false, "fit a linear drift of the scale along the chain as well as offset and scale")
 	fs.StringVar(&f.direction, "direction", "auto", "which way the sample runs against the design: auto, forward or reversed")
 	fs.StringVar(&f.tolerance, "tolerance", "", "largest residual allowed per site, `VALUE[unit]` like 0.02mm or 20um (default: none)")
 	fs.IntVar(&f.allowMissing, "allow-missing", 0, "number of missing design sites allowed")
@@ -87,7 +87,7 @@ Registration. Measured sites are matched one to one, in chain order, to
 design sites by a dynamic-programming alignment of the two sorted chains
 (a skipped design site is missing, a skipped measured site is extra); a site
 may match only within --gate of the smaller design spacing next to it. The
-calibration x = offset + scale·d (+ scale·drift·(d − d0)²/span with --drift,
+calibration x = offset + scale·d (+ scale·drift·(d − d0)²/span with --fit-drift,
 so that the local scale grows from scale at the first design site to
 scale·(1 + 2·drift) at the last) is fitted to the matched pairs by
 iteratively reweighted least squares with Tukey's biweight, alternating
@@ -129,7 +129,7 @@ scan order, so a flagged site can be found in the file. Swapped neighbours
 show only when the file lists the sites in chain order.
 
 --json prints one object (schema phasonhull.audit/1): verdict, reasons,
-offset, scale, drift (with --drift) and their uncertainties,
+offset, scale, drift (with --fit-drift) and their uncertainties,
 max_scale_error, alignment {cost, cost_uncertainty, ties}, rms, max,
 missing, extra, merged, outliers, sites, hull {design, measured,
 comparison, reference}. --out writes the report to a file instead (nothing
@@ -139,7 +139,7 @@ Exit status: 0 when the verdict is pass, 3 when it is fail, 2 for bad input
 or flags, 1 for a bug.`,
 		Example: `  phasonhull audit --design testdata/demo/lw0412_design.json testdata/demo/lw0412_cmm.csv
   phasonhull audit --design design.csv sample.csv --tolerance 0.02mm --allow-missing 1
-  phasonhull audit --design spec.json sample.csv --drift --json > audit.json
+  phasonhull audit --design spec.json sample.csv --fit-drift --json > audit.json
   phasonhull generate modulated --theta 0.3183 --sin 0.24,0.05 --spacing 3 --unit mm --print-spec > spec.json
   phasonhull audit sample.csv`,
 		Args: cobra.ExactArgs(1),

@@ -50,7 +50,7 @@ func num(rep map[string]any, key string) float64 {
 // what audit.Run reports for the same options, byte for byte.
 func TestAuditFlagsReachTheLibrary(t *testing.T) {
 	args := []string{"--design", auditPath("design.json"), auditPath("sample_angle.csv"), "--allow-missing", "50", "--allow-extra", "3",
-		"--tolerance", "0.003 um", "--drift", "--direction", "forward", "--gate", "0.3", "--landmarks", "150", "--seed", "7"}
+		"--tolerance", "0.003 um", "--fit-drift", "--direction", "forward", "--gate", "0.3", "--landmarks", "150", "--seed", "7"}
 	_, stdout, _ := runCmd(append([]string{"audit", "--json"}, args...)...)
 	f, err := design.ReadFile(auditPath("design.json"), "")
 	if err != nil {

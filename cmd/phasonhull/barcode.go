@@ -8,6 +8,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/embed"
 	"phasonhull/pattern"
@@ -27,7 +28,7 @@ type barcodeFlags struct {
 	window         int
 	landmarks      int
 	seed           uint64
-	tolerance      float64
+	noise          *flagval.Noise
 }
 
 func (f *barcodeFlags) register(cmd *cobra.Command) {
@@ -43,7 +44,7 @@ func (f *barcodeFlags) register(cmd *cobra.Command) {
 	fs.IntVar(&f.window, "window", 0, "for a pattern: delay window (0: choose it from the data)")
 	fs.IntVar(&f.landmarks, "landmarks", embed.DefaultLandmarks, "for a pattern: number of max–min landmarks")
 	fs.Uint64Var(&f.seed, "seed", embed.DefaultSeed, "for a pattern: seed of every random choice")
-	fs.Float64Var(&f.tolerance, "tolerance", embed.DefaultNoise, "for a pattern: position noise tolerated, as a fraction of the mean spacing (0: exact data)")
+	f.noise = noiseFlag(fs)
 }
 
 // newBarcodeCmd builds "phasonhull barcode".
@@ -127,9 +128,9 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 		if err != nil {
 			return err
 		}
-		tol := f.tolerance
-		if tol == 0 {
-			tol = -1 // the flag's 0 means none, not the library's default
+		tol, err := noiseFraction(f.noise, p)
+		if err != nil {
+			return err
 		}
 		res, err := embed.Embed(p, embed.Options{Window: f.window, Landmarks: f.landmarks, Seed: f.seed, Noise: tol})
 		if err != nil {

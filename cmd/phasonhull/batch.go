@@ -25,7 +25,7 @@ type batchFlags struct {
 func newBatchCmd() *cobra.Command {
 	var f batchFlags
 	cmd := &cobra.Command{
-		Use:   "batch FILES...|DIR --out SUMMARY.csv [--design DESIGN] [--json SUMMARY.json]",
+		Use:   "batch FILES...|DIR --out SUMMARY.csv [--design DESIGN] [--out-json SUMMARY.json]",
 		Short: "Analyse (or audit against one design) many files into one summary table",
 		Long: `batch runs analyze over many files — or, with --design, audit against one
 design — and writes one summary table with a row per file, in the order
@@ -54,7 +54,7 @@ Exit status: 2 when some file could not be processed (the summary is still
 written), else 3 when some audit failed, else 0; 2 as well for bad flags,
 and 1 for a bug.`,
 		Example: `  phasonhull batch samples/ --out summary.csv
-  phasonhull batch a.csv b.csv c.csv --out summary.csv --json summary.json
+  phasonhull batch a.csv b.csv c.csv --out summary.csv --out-json summary.json
   phasonhull batch samples/ --design design.json --tolerance 20nm --out audit.csv`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -65,11 +65,11 @@ and 1 for a bug.`,
 	f.in.register(fs)
 	f.audit.register(fs)
 	fs.StringVarP(&f.out, "out", "o", "", "write the summary as CSV to `FILE` (required)")
-	fs.StringVar(&f.jsonOut, "json", "", "also write the summary as JSON to `FILE`")
+	fs.StringVar(&f.jsonOut, "out-json", "", "also write the summary as JSON to `FILE`")
 	fs.IntVarP(&f.jobs, "jobs", "j", 0, "files processed at once (0: one per core)")
 	fileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "design")
-	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out", "json")
+	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out", "out-json")
 	return cmd
 }
 

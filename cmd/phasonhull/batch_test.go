@@ -48,7 +48,7 @@ func readSummary(t *testing.T, path string) (header []string, rows []map[string]
 func TestBatchFolderWithBrokenFile(t *testing.T) {
 	dir := t.TempDir()
 	out, js := filepath.Join(dir, "summary.csv"), filepath.Join(dir, "summary.json")
-	code, stdout, stderr := runCmd("batch", batchFolder, "--out", out, "--json", js)
+	code, stdout, stderr := runCmd("batch", batchFolder, "--out", out, "--out-json", js)
 	if code != exitInput {
 		t.Errorf("exit %d, want %d (a file could not be read)", code, exitInput)
 	}
@@ -223,9 +223,9 @@ func TestBatchRefuses(t *testing.T) {
 	os.WriteFile(badSpec, []byte(`{"family": "nonesuch"}`), 0o644)
 	for name, args := range map[string][]string{
 		"out is an input":         {in, "--out", in},
-		"json is an input":        {in, "--out", out, "--json", in},
+		"json is an input":        {in, "--out", out, "--out-json", in},
 		"out is the design":       {in, "--out", badSpec, "--design", badSpec},
-		"out is json":             {in, "--out", out, "--json", out},
+		"out is json":             {in, "--out", out, "--out-json", out},
 		"no out":                  {in},
 		"bad design":              {in, "--out", out, "--design", badSpec},
 		"bad tolerance":           {in, "--out", out, "--tolerance", "x"},

@@ -7,6 +7,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/embed"
 )
@@ -20,7 +21,7 @@ type embedFlags struct {
 	maxWindow int
 	landmarks int
 	seed      uint64
-	tolerance float64
+	noise     *flagval.Noise
 	json      bool
 }
 
@@ -33,7 +34,7 @@ func (f *embedFlags) register(cmd *cobra.Command) {
 	fs.IntVar(&f.maxWindow, "max-window", embed.DefaultMaxWindow, "largest window the choice examines")
 	fs.IntVar(&f.landmarks, "landmarks", embed.DefaultLandmarks, "number of max–min landmarks")
 	fs.Uint64Var(&f.seed, "seed", embed.DefaultSeed, "seed of every random choice (0 means the default)")
-	fs.Float64Var(&f.tolerance, "tolerance", embed.DefaultNoise, "position noise tolerated, as a fraction of the mean spacing (0 or negative: exact data)")
+	f.noise = noiseFlag(fs)
 	fs.BoolVar(&f.json, "json", false, "print the summary as one JSON object")
 }
 
@@ -56,7 +57,8 @@ keeps false neighbours at every window (independent random spacings) gets the
 largest window, and the summary says that the choice did not settle.
 
 Noise: the noise variance of a spacing is estimated from the spectrum and
-never taken above what position noise of --tolerance mean spacings gives;
+never taken above what position noise of --noise (default 3% of the mean
+spacing; 0 for exact data) gives;
 components below three times it are dropped before whitening.
 
 The summary lists the sites and mean spacing, the window with each rule's
@@ -68,7 +70,7 @@ then its whitened components (or, with --raw, its dimensionless spacings).`,
   phasonhull embed design.csv
   phasonhull embed design.csv --json
   phasonhull embed design.csv --window 3 --landmarks 200 --out vectors.csv
-  phasonhull embed sample.csv --raw --out raw.csv --tolerance 0.05`,
+  phasonhull embed sample.csv --raw --out raw.csv --noise 5%`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runEmbed(cmd, args[0], &f)
@@ -91,9 +93,9 @@ func runEmbed(cmd *cobra.Command, path string, f *embedFlags) error {
 	if err != nil {
 		return err
 	}
-	tol := f.tolerance
-	if tol == 0 {
-		tol = -1 // the flag's 0 means none, not the library's default
+	tol, err := noiseFraction(f.noise, p)
+	if err != nil {
+		return err
 	}
 	res, err := embed.Embed(p, embed.Options{
 		Window: f.window, MaxWindow: f.maxWindow, Landmarks: f.landmarks,

@@ -195,7 +195,7 @@ func TestEmbedCommandRefuses(t *testing.T) {
 
 func TestEmbedHelp(t *testing.T) {
 	code, out, _ := runCmd("embed", "--help")
-	if code != exitOK || !strings.Contains(out, "phasonhull embed design.csv") || !strings.Contains(out, "--tolerance") {
+	if code != exitOK || !strings.Contains(out, "phasonhull embed design.csv") || !strings.Contains(out, "--noise") {
 		t.Errorf("help (exit %d):\n%s", code, out)
 	}
 }

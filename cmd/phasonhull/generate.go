@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
@@ -23,6 +24,8 @@ type generateFlags struct {
 	printSpec     bool
 	tiles         string
 	over          design.Spec
+	lengths       map[string]interface{ Resolve(string) error }
+	noise         *flagval.Noise
 }
 
 func (f *generateFlags) register(fs *pflag.FlagSet) {
@@ -32,17 +35,22 @@ func (f *generateFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&f.printSpec, "print-spec", false, "write the design's JSON spec, defaults filled in, instead of positions")
 
 	fs.IntVar(&o.Sites, "sites", design.DefaultSites, "number of sites before perturbation")
-	fs.Float64Var(&o.Spacing, "spacing", 1, "mean spacing L (modulated, loop, circle-map, two-angle, random)")
+	o.Spacing = 1
+	f.lengths = map[string]interface{ Resolve(string) error }{
+		"spacing": flagval.NewLength(&o.Spacing), "amp": flagval.NewLength(&o.Amp), "amp2": flagval.NewLength(&o.Amp2),
+		"sin": flagval.NewLengthList(&o.Sin), "cos": flagval.NewLengthList(&o.Cos),
+	}
+	fs.Var(f.lengths["spacing"].(pflag.Value), "spacing", "mean spacing L, a `LENGTH` (modulated, loop, circle-map, two-angle, random); lengths are in --unit, or carry their own unit: 450nm")
 	fs.StringVar(&o.Unit, "unit", "", "length unit of the positions, e.g. um (written into the CSV header)")
 	fs.Float64SliceVar(&o.Cell, "cell", nil, "periodic: the repeated cell of spacings, a `LIST` like 1,1.5")
 	fs.Float64Var(&o.Theta, "theta", 0, "angle θ in turns, in (0,1) (modulated, two-angle, sturmian)")
 	fs.Float64Var(&o.Phase, "phase", 0, "starting phase in turns (φ; ψ_0 of circle-map; starting arc fraction of loop)")
-	fs.Float64SliceVar(&o.Sin, "sin", nil, "modulated: sine amplitudes a_1,a_2,... (a `LIST`) in the unit")
-	fs.Float64SliceVar(&o.Cos, "cos", nil, "modulated: cosine amplitudes b_1,b_2,... (a `LIST`) in the unit")
-	fs.Float64Var(&o.Amp, "amp", 0, "amplitude in the unit: a_1 of modulated, a of two-angle, amp of loop and circle-map")
+	fs.Var(f.lengths["sin"].(pflag.Value), "sin", "modulated: sine amplitudes a_1,a_2,... (a `LIST` of lengths)")
+	fs.Var(f.lengths["cos"].(pflag.Value), "cos", "modulated: cosine amplitudes b_1,b_2,... (a `LIST` of lengths)")
+	fs.Var(f.lengths["amp"].(pflag.Value), "amp", "amplitude, a `LENGTH`: a_1 of modulated, a of two-angle, amp of loop and circle-map")
 	fs.Float64Var(&o.Theta2, "theta2", 0, "two-angle: second angle θ2 in turns")
 	fs.Float64Var(&o.Phase2, "phase2", 0, "two-angle: second phase φ2 in turns")
-	fs.Float64Var(&o.Amp2, "amp2", 0, "two-angle: second amplitude a2 in the unit")
+	fs.Var(f.lengths["amp2"].(pflag.Value), "amp2", "two-angle: second amplitude a2, a `LENGTH`")
 	fs.Float64SliceVar(&o.RadiusCos, "radius-cos", nil, "loop: radius coefficients c_1,c_2,... (a `LIST`) relative to R")
 	fs.Float64SliceVar(&o.RadiusSin, "radius-sin", nil, "loop: radius coefficients s_1,s_2,... (a `LIST`) relative to R")
 	fs.Float64Var(&o.Step, "step", 0, "loop: arc step as a fraction of the perimeter, in (0,1)")
@@ -53,7 +61,8 @@ func (f *generateFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&o.Rule, "rule", "", "substitution: fibonacci, thue-morse, period-doubling, or a rule like A=AB,B=A")
 	fs.StringVar(&o.Dist, "dist", "", "random: uniform or exponential (default uniform)")
 	fs.Float64Var(&o.Spread, "spread", 0, "random: relative spread in (0,1) (default 0.5)")
-	fs.Float64Var(&o.Noise, "noise", 0, "perturbation: standard deviation of Gaussian position noise, in the unit")
+	f.noise = flagval.NewNoise(0)
+	fs.Var(f.noise, "noise", "perturbation: standard deviation of Gaussian position noise, a `LEVEL`: a length or a percentage of --spacing (2%)")
 	fs.Float64Var(&o.Missing, "missing", 0, "perturbation: fraction of sites removed, in [0,1)")
 	fs.Float64Var(&o.Extra, "extra", 0, "perturbation: spurious sites inserted, as a fraction of the sites")
 	fs.Float64Var(&o.Drift, "drift", 0, "perturbation: linear scale drift, > -0.5 (local scale 1 → 1+2·drift)")
@@ -68,6 +77,26 @@ func (f *generateFlags) apply(fs *pflag.FlagSet, s *design.Spec) error {
 			return fmt.Errorf("--tiles: %w", err)
 		}
 		f.over.Tiles = t
+	}
+	unit := s.Unit
+	if fs.Changed("unit") {
+		unit = f.over.Unit
+	}
+	for name, v := range f.lengths {
+		if err := v.Resolve(unit); fs.Changed(name) && err != nil {
+			return fmt.Errorf("--%s: %w (give --unit for the positions)", name, err)
+		}
+	}
+	if fs.Changed("noise") {
+		spacing := s.WithDefaults().Spacing
+		if fs.Changed("spacing") {
+			spacing = f.over.Spacing
+		}
+		x, err := f.noise.Length(unit, spacing)
+		if err != nil {
+			return err
+		}
+		f.over.Noise = x
 	}
 	if s.Family == design.Modulated && fs.Changed("amp") && fs.Changed("sin") {
 		return fmt.Errorf("--amp is shorthand for the first value of --sin; give one of them")

@@ -9,6 +9,8 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"phasonhull/cmd/phasonhull/internal/flagval"
+	"phasonhull/embed"
 	"phasonhull/pattern"
 )
 
@@ -36,6 +38,23 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 		"columns of a table to read, by header name or number from 1, comma separated, e.g. --columns X,Y or --columns 3 or --columns \"Position [mm]\" (default: every column but a site index of consecutive whole numbers)")
 	fs.BoolVar(&f.decimal, "decimal-comma", false,
 		"read ',' as the decimal mark, e.g. 0,25 (default false: a decimal comma is read only where the file shows it, in semicolon- or tab-separated fields)")
+}
+
+// noiseFlag adds --noise to fs: the position noise an analysis tolerates.
+func noiseFlag(fs *pflag.FlagSet) *flagval.Noise {
+	v := flagval.NewNoise(100 * embed.DefaultNoise)
+	fs.Var(v, "noise", "position noise tolerated, a `LEVEL`: a percentage of the mean spacing (3%) or a length (20nm; a bare number is in the input's unit); 0 for exact data")
+	return v
+}
+
+// noiseFraction is --noise as the library takes it: a fraction of p's
+// mean spacing, embed.ExactData for none.
+func noiseFraction(v *flagval.Noise, p *pattern.Pattern) (float64, error) {
+	f, err := v.Fraction(p.Unit, p.MeanSpacing())
+	if f == 0 {
+		f = embed.ExactData
+	}
+	return f, err
 }
 
 // formatList names the accepted formats: "auto, column, ...".

@@ -183,16 +183,16 @@ type killCase struct {
 // killCases covers every writing flag of every command: the kill test
 // fails when a flag is added without a case here.
 var killCases = map[string]killCase{
-	"embed --out":     {args: []string{"embed", "in.csv", "--out", "out.csv"}, target: "out.csv"},
-	"generate --out":  {args: []string{"generate", "modulated", "--sites", "400", "--theta", "0.2763", "--amp", "0.12", "--out", "out.csv"}, target: "out.csv"},
-	"spectrum --out":  {args: []string{"spectrum", "in.csv", "--hopping", "exp", "--decay", "3", "--out", "out.csv"}, target: "out.csv"},
-	"spectrum --plot": {args: []string{"spectrum", "in.csv", "--hopping", "exp", "--decay", "3", "--plot", "figs"}, target: "figs"},
-	"analyze --plot":  {args: []string{"analyze", "in.csv", "--plot", "figs"}, target: "figs"},
-	"audit --out":     {args: []string{"audit", "--design", "design.json", "in.csv", "--out", "out.txt"}, target: "out.txt"},
-	"audit --plot":    {args: []string{"audit", "--design", "design.json", "in.csv", "--plot", "figs"}, target: "figs"},
-	"batch --out":     {args: []string{"batch", "in.csv", "--out", "out.csv"}, target: "out.csv"},
-	"batch --json":    {args: []string{"batch", "in.csv", "--out", "out.csv", "--json", "out.json"}, target: "out.json", later: true},
-	"report --out":    {args: []string{"report", "in.csv", "--design", "design.json", "--out", "rep"}, target: "rep"},
+	"embed --out":      {args: []string{"embed", "in.csv", "--out", "out.csv"}, target: "out.csv"},
+	"generate --out":   {args: []string{"generate", "modulated", "--sites", "400", "--theta", "0.2763", "--amp", "0.12", "--out", "out.csv"}, target: "out.csv"},
+	"spectrum --out":   {args: []string{"spectrum", "in.csv", "--hopping", "exp", "--decay", "3", "--out", "out.csv"}, target: "out.csv"},
+	"spectrum --plot":  {args: []string{"spectrum", "in.csv", "--hopping", "exp", "--decay", "3", "--plot", "figs"}, target: "figs"},
+	"analyze --plot":   {args: []string{"analyze", "in.csv", "--plot", "figs"}, target: "figs"},
+	"audit --out":      {args: []string{"audit", "--design", "design.json", "in.csv", "--out", "out.txt"}, target: "out.txt"},
+	"audit --plot":     {args: []string{"audit", "--design", "design.json", "in.csv", "--plot", "figs"}, target: "figs"},
+	"batch --out":      {args: []string{"batch", "in.csv", "--out", "out.csv"}, target: "out.csv"},
+	"batch --out-json": {args: []string{"batch", "in.csv", "--out", "out.csv", "--out-json", "out.json"}, target: "out.json", later: true},
+	"report --out":     {args: []string{"report", "in.csv", "--design", "design.json", "--out", "rep"}, target: "rep"},
 }
 
 // A run stopped at any point leaves its output as it was and no temporary

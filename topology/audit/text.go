@@ -36,7 +36,7 @@ func (r *Report) WriteText(w io.Writer) error {
 				*r.Drift, *r.DriftErr, *r.Scale, *r.Scale*(1+2**r.Drift))
 			fmt.Fprintf(&b, "            x = offset + scale·d + scale·drift·(d − d0)²/span\n")
 		} else {
-			fmt.Fprintf(&b, "            x = offset + scale·d (--drift fits a drift of the scale too)\n")
+			fmt.Fprintf(&b, "            x = offset + scale·d (--fit-drift fits a drift of the scale too)\n")
 		}
 		if *r.Scale < 0 {
 			fmt.Fprintf(&b, "            the sample runs opposite to the design (negative scale)\n")

@@ -1,0 +1,53 @@
+package flagval
+
+import (
+	"slices"
+	"testing"
+)
+
+// A length given with its own unit is converted to the unit of the
+// positions; a bare number is taken in that unit; a unit without a unit
+// to convert to is refused (common practice: 1 um = 1000 nm).
+func TestLengthResolve(t *testing.T) {
+	x := 1.0
+	v := NewLength(&x)
+	if err := v.Resolve("um"); err != nil || x != 1 {
+		t.Fatalf("default: %v, %v", x, err)
+	}
+	for _, c := range []struct {
+		in, unit string
+		want     float64
+		ok       bool
+	}{
+		{"450nm", "um", 0.45, true},
+		{"0.45", "um", 0.45, true},
+		{"-20 nm", "nm", -20, true},
+		{"2mm", "", 0, false},
+		{"2deg", "um", 0, false},
+	} {
+		if err := v.Set(c.in); err != nil {
+			t.Fatalf("Set(%q): %v", c.in, err)
+		}
+		err := v.Resolve(c.unit)
+		if (err == nil) != c.ok || (c.ok && x != c.want) {
+			t.Errorf("%q in %q: %v, %v; want %v (ok %v)", c.in, c.unit, x, err, c.want, c.ok)
+		}
+	}
+	if err := v.Set("abc"); err == nil {
+		t.Error("Set accepted a word")
+	}
+}
+
+func TestLengthListResolve(t *testing.T) {
+	var xs []float64
+	v := NewLengthList(&xs)
+	if err := v.Set("0.1,30nm,-0.02"); err != nil {
+		t.Fatal(err)
+	}
+	if err := v.Resolve("um"); err != nil || !slices.Equal(xs, []float64{0.1, 0.03, -0.02}) {
+		t.Errorf("got %v, %v", xs, err)
+	}
+	if err := v.Set("0.1,x"); err == nil {
+		t.Error("a list with a word was accepted")
+	}
+}
