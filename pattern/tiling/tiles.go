@@ -7,6 +7,8 @@ import (
 	"slices"
 	"sort"
 	"strings"
+
+	"gonum.org/v1/gonum/stat"
 )
 
 // Defaults of Options, and the fixed thresholds of Detect.
@@ -305,14 +307,8 @@ func moments(x []float64) (mean, std float64) {
 	if len(x) == 0 {
 		return math.NaN(), math.NaN()
 	}
-	for _, v := range x {
-		mean += v
-	}
-	mean /= float64(len(x))
-	for _, v := range x {
-		std += (v - mean) * (v - mean)
-	}
-	return mean, math.Sqrt(std / float64(len(x)))
+	mean, variance := stat.PopMeanVariance(x, nil)
+	return mean, math.Sqrt(variance)
 }
 
 // tile is a tile under refinement: its length, its scatter and the range

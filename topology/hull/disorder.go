@@ -109,16 +109,7 @@ func classifyNoise(u []float64) noiseKind {
 // spacingSpread sets the disorder figure of a chain without a hull model:
 // the standard deviation of its spacings.
 func (a *analysis) spacingSpread() {
-	u := a.cleanSpacings()
-	var m, s float64
-	for _, v := range u {
-		m += v
-	}
-	m /= float64(len(u))
-	for _, v := range u {
-		s += (v - m) * (v - m)
-	}
-	rel := math.Sqrt(s / float64(len(u)))
+	rel := math.Sqrt(stat.PopVariance(a.cleanSpacings(), nil))
 	a.res.Disorder = &Disorder{RMS: rel * a.res.MeanSpacing, Relative: rel, Model: "none: the spread of the spacings"}
 }
 
