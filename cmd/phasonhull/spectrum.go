@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
 	"strings"
@@ -27,6 +28,7 @@ type spectrumFlags struct {
 	model, law, table, ends string
 	t0, decay, power, nnn   float64
 	closing                 float64
+	closingLen              *flagval.Length
 	onsite                  float64
 	onsiteFile              string
 	harper, harperPhase     float64
@@ -66,7 +68,8 @@ func (f *spectrumFlags) register(cmd *cobra.Command) {
 	fs.StringVar(&f.table, "table", "", "table law: `FILE` of rows distance,coupling (distance in the pattern's unit), linear between rows")
 	fs.Float64Var(&f.nnn, "nnn", 0, "next-nearest coupling ratio: bond n–n+2 carries nnn·t((d_n + d_{n+1})/2)")
 	fs.StringVar(&f.ends, "ends", string(spectrum.Open), "ends of the chain: open or periodic")
-	fs.Float64Var(&f.closing, "closing", 0, "periodic: the spacing that closes the ring (0: the mean spacing)")
+	f.closingLen = flagval.NewLength(&f.closing)
+	fs.Var(f.closingLen, "closing", "periodic: the spacing that closes the ring, a `LENGTH` (0: the mean spacing)")
 	fs.Float64Var(&f.onsite, "onsite", 0, "constant on-site term (a ground spring for springs)")
 	fs.StringVar(&f.onsiteFile, "onsite-file", "", "per-site on-site terms from `FILE`, one per line, added to --onsite")
 	fs.Float64Var(&f.harper, "harper", 0, "add the almost-Mathieu on-site term 2λ·cos 2π(nθ + φ) with this λ (θ from --theta)")
@@ -189,7 +192,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		return err
 	}
 	rep.Source, rep.Sites, rep.Unit = p.Source, p.Len(), p.Unit
-	m, err := f.buildModel(p.Len(), f.theta, cmd.InOrStdin())
+	m, err := f.buildModel(p.Len(), p.Unit, f.theta, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
@@ -302,7 +305,10 @@ func (f *spectrumFlags) check(cmd *cobra.Command, args []string) error {
 // buildModel turns the flags into a spectrum.Model for n sites; theta is
 // the almost-Mathieu angle (ignored without --harper). The files of
 // --table and --onsite-file may be "-", read from stdin.
-func (f *spectrumFlags) buildModel(n int, theta []float64, stdin io.Reader) (spectrum.Model, error) {
+func (f *spectrumFlags) buildModel(n int, unit string, theta []float64, stdin io.Reader) (spectrum.Model, error) {
+	if err := f.closingLen.Resolve(unit); err != nil {
+		return spectrum.Model{}, fmt.Errorf("--closing: %w", err)
+	}
 	m := spectrum.Model{Kind: spectrum.Kind(f.model), Ends: spectrum.Ends(f.ends), NNN: f.nnn, Closing: f.closing}
 	if m.Kind != spectrum.Hopping && m.Kind != spectrum.Springs {
 		return m, fmt.Errorf("--model %q: want hopping or springs", f.model)
@@ -427,7 +433,7 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 	if err != nil {
 		return fmt.Errorf("--theta-grid %w", err)
 	}
-	m, err := f.buildModel(spec.Sites, nil, cmd.InOrStdin())
+	m, err := f.buildModel(spec.Sites, spec.Unit, nil, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}

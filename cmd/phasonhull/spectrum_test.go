@@ -334,3 +334,24 @@ func TestSpectrumCommandRecoveredAngle(t *testing.T) {
 		t.Errorf("%d measured gaps labelled", labelled)
 	}
 }
+
+// --closing is a length: with the file's unit written out, or in another
+// unit, it gives the same ring as the bare number (common practice:
+// 1 mm = 1000 um).
+func TestSpectrumClosingTakesUnits(t *testing.T) {
+	base := []string{"spectrum", "../../testdata/demo/lw0412_design.csv", "--hopping", "exp", "--decay", "3", "--ends", "periodic", "--json"}
+	var outs []string
+	for _, c := range []string{"3.1", "3.1mm", "3100 um"} {
+		code, out, stderr := runCmd(append(base, "--closing", c)...)
+		if code != exitOK {
+			t.Fatalf("--closing %s: exit %d: %s", c, code, stderr)
+		}
+		outs = append(outs, out)
+	}
+	if outs[0] != outs[1] || outs[0] != outs[2] {
+		t.Error("--closing 3.1, 3.1mm and 3100 um give different spectra")
+	}
+	if code, _, _ := runCmd(append(base, "--closing", "3.1deg")...); code != exitInput {
+		t.Errorf("--closing in degrees: exit %d, want %d", code, exitInput)
+	}
+}
