@@ -91,7 +91,7 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 		return err
 	}
 	if f.memory != "" {
-		if opt.MemoryBudget, err = parseBytes(f.memory); err != nil {
+		if opt.MemoryBudget, err = flagval.ParseBytes(f.memory); err != nil {
 			return fmt.Errorf("--memory: %w", err)
 		}
 	}

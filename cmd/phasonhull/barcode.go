@@ -105,7 +105,7 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	}
 	var budget int64
 	if f.memory != "" {
-		b, err := parseBytes(f.memory)
+		b, err := flagval.ParseBytes(f.memory)
 		if err != nil {
 			return fmt.Errorf("--memory: %w", err)
 		}

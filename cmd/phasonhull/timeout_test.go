@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"path/filepath"
+	"phasonhull/cmd/phasonhull/internal/runlimit"
 	"strings"
 	"testing"
 	"time"
@@ -67,7 +68,7 @@ func TestTimeoutPanic(t *testing.T) {
 	cmd.SetOut(&bytes.Buffer{})
 	cmd.SetErr(&stderr)
 	code := guard(&stderr, func() int {
-		bounded(cmd, time.Minute, func() error { panic("boom") })
+		runlimit.Bounded(cmd, time.Minute, func() error { panic("boom") })
 		return exitOK
 	})
 	if code != exitInternal || !strings.Contains(stderr.String(), "internal error: boom") {

@@ -51,3 +51,18 @@ func TestLengthListResolve(t *testing.T) {
 		t.Error("a list with a word was accepted")
 	}
 }
+
+// ParseBytes reads memory sizes in binary and decimal units (common
+// practice: 1 KiB = 1024 B, 1 kB = 1000 B).
+func TestParseBytes(t *testing.T) {
+	for in, want := range map[string]int64{"512MiB": 512 << 20, "8GiB": 8 << 30, "2GB": 2e9, "1000000": 1e6, " 4 KiB ": 4096} {
+		if got, err := ParseBytes(in); err != nil || got != want {
+			t.Errorf("ParseBytes(%q) = %d, %v; want %d", in, got, err, want)
+		}
+	}
+	for _, bad := range []string{"", "0", "-1GiB", "lots", "1e30TB"} {
+		if _, err := ParseBytes(bad); err == nil {
+			t.Errorf("ParseBytes(%q) accepted", bad)
+		}
+	}
+}

@@ -1,4 +1,4 @@
-package main
+package flagval
 
 import (
 	"fmt"
@@ -7,9 +7,9 @@ import (
 	"strings"
 )
 
-// parseBytes reads a memory size such as 512MiB, 8GiB, 2GB or 1000000
+// ParseBytes reads a memory size such as 512MiB, 8GiB, 2GB or 1000000
 // (bytes).
-func parseBytes(s string) (int64, error) {
+func ParseBytes(s string) (int64, error) {
 	t := strings.TrimSpace(s)
 	units := []struct {
 		suffix string
