@@ -4,26 +4,12 @@ import (
 	"context"
 	"errors"
 	"strings"
-	"sync/atomic"
 	"testing"
 
+	"phasonhull/topology/internal/ctxtest"
 	"phasonhull/topology/rips"
 	"phasonhull/topology/rips/ripstest"
 )
-
-// countdown is a context that reports itself cancelled from its (n+1)-th
-// call of Err on, so that a test can stop a computation at a known check.
-type countdown struct {
-	context.Context
-	left atomic.Int64
-}
-
-func (c *countdown) Err() error {
-	if c.left.Add(-1) < 0 {
-		return context.Canceled
-	}
-	return nil
-}
 
 // A cancelled context stops the computation before it starts, and a
 // context cancelled while the columns of H1 are reduced stops the
@@ -38,8 +24,7 @@ func TestContextStops(t *testing.T) {
 	}
 	// Two checks pass (the start and the loop over dimensions); the third,
 	// at the first column of dimension 1, stops it.
-	cd := &countdown{Context: context.Background()}
-	cd.left.Store(2)
+	cd := ctxtest.NewCountdown(2)
 	_, err := rips.VietorisRipsContext(cd, pts, rips.Options{MaxDim: 1})
 	if !errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), "dimension 1") {
 		t.Fatalf("cancelled in the reduction: error %v, want context.Canceled in dimension 1", err)

@@ -10,21 +10,8 @@ import (
 
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
+	"phasonhull/topology/internal/ctxtest"
 )
-
-// countdown is a context that reports itself cancelled from its (n+1)-th
-// call of Err on, so that a test can stop a computation at a known check.
-type countdown struct {
-	context.Context
-	left atomic.Int64
-}
-
-func (c *countdown) Err() error {
-	if c.left.Add(-1) < 0 {
-		return context.Canceled
-	}
-	return nil
-}
 
 // A context that is done stops the phason sweep: before the first chain is
 // built when it is done from the start, and after no more chains than the
@@ -53,8 +40,7 @@ func TestEdgeModesStopsWhenCancelled(t *testing.T) {
 	}
 
 	const through = 5
-	cd := &countdown{Context: context.Background()}
-	cd.left.Store(through)
+	cd := ctxtest.NewCountdown(through)
 	built.Store(0)
 	if _, err := EdgeModesContext(cd, counted, m, opt); !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled on the way: error %v, want context.Canceled", err)
@@ -121,8 +107,7 @@ func TestAnalyzeStopsWhenCancelled(t *testing.T) {
 	if _, err := AnalyzeContext(ctx, op, opt); !errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), "before the levels") {
 		t.Fatalf("cancelled from the start: error %v, want context.Canceled before the levels", err)
 	}
-	cd := &countdown{Context: context.Background()}
-	cd.left.Store(2)
+	cd := ctxtest.NewCountdown(2)
 	if _, err := AnalyzeContext(cd, op, opt); !errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), "bracketing") {
 		t.Fatalf("cancelled after two checks: error %v, want context.Canceled before bracketing", err)
 	}
