@@ -12,6 +12,7 @@ import (
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/embed"
 	"phasonhull/pattern"
+	"phasonhull/topology/hull"
 	"phasonhull/topology/rips"
 )
 
@@ -34,9 +35,9 @@ type barcodeFlags struct {
 func (f *barcodeFlags) register(cmd *cobra.Command) {
 	fs := cmd.Flags()
 	fs.StringVar(&f.points, "points", "", "read a point cloud from `FILE` (one point a row) instead of a pattern")
-	fs.IntVar(&f.dim, "dim", 2, "highest homology dimension, 0 to 3")
-	fs.Float64Var(&f.threshold, "threshold", 0, "largest edge length (0: the enclosing radius, where nothing changes any more)")
-	fs.IntVar(&f.prime, "prime", 2, "coefficients in Z/p for this prime p")
+	fs.IntVar(&f.dim, "homology", 2, "compute the bars of H0 up to H`K`, K from 0 to 3")
+	fs.Float64Var(&f.threshold, "max-edge", 0, "admit edges up to this `LENGTH` only (0: as far as any bar can still change)")
+	fs.IntVar(&f.prime, "field", hull.Field, "coefficients in the field Z/`P`, P a prime; the default is the hull analysis's own field")
 	fs.StringVar(&f.memory, "memory", "", "memory budget, e.g. 2GiB (default 8GiB); larger jobs are refused")
 	fs.Float64Var(&f.minPersistence, "min-persistence", 0, "leave out bars shorter than this")
 	fs.BoolVar(&f.json, "json", false, "print one JSON object")
@@ -54,7 +55,11 @@ func newBarcodeCmd() *cobra.Command {
 		Use:   "barcode [FILE]",
 		Short: "Persistence barcode of a pattern's landmark cloud or of a point cloud",
 		Long: `barcode computes the persistent homology of the Vietoris–Rips filtration of a
-point cloud, in dimensions 0 to --dim with coefficients in Z/--prime.
+point cloud, for H0 up to H(--homology), with coefficients in Z/(--field).
+The default field is Z/47, the one the hull analysis reads its loops in
+(its circular coordinates need a prime well above the small integers a
+cocycle takes); the hulls phasonhull meets have no torsion, so every field
+gives their Betti numbers, and --field 2 is the cheapest.
 
 The cloud is either the landmark cloud of a pattern (FILE, or - for standard
 input, read and embedded as "phasonhull embed" does) or, with --points, a
@@ -62,18 +67,19 @@ file of points: one point a row, coordinates separated by commas,
 semicolons or white space, '#' starting a comment, no header row; every row
 must have the same number of coordinates.
 
-A bar [birth, death) is a class born when edges of length birth join the
-complex and killed at length death. Bars of zero persistence are left out.
-Without --threshold the complex is built up to the enclosing radius, where
-it becomes a cone: every bar then ends there or earlier, and the one H0 bar
-that never ends has death "inf". With a smaller --threshold, classes still
-alive at the threshold get death "inf".
+A bar [birth, death) is a class that appears once edges of length birth
+are admitted and disappears once edges of length death are. Bars of zero
+persistence are left out. By default edges are admitted up to the length
+past which no bar can start or end any more: from there on one point is
+joined to every other, every loop and void is filled, and only the single
+H0 class that never ends is left, with death "inf". With --max-edge, the
+classes still alive at that length get death "inf" too.
 
 The table lists the bars by dimension, longest first. Before a long
 computation the size of the complex is estimated, and a job over the memory
 budget is refused with a hint of what to lower.`,
 		Example: `  phasonhull barcode --points cloud.csv
-  phasonhull barcode --points cloud.csv --dim 1 --threshold 0.8 --json
+  phasonhull barcode --points cloud.csv --homology 1 --max-edge 0.8 --json
   phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
   phasonhull barcode design.csv --landmarks 200 --min-persistence 0.05`,
 		Args: cobra.MaximumNArgs(1),
@@ -92,13 +98,13 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 		return errors.New("give either a pattern FILE or --points FILE, not both and not neither")
 	}
 	if f.dim < 0 || f.dim > rips.MaxDim {
-		return fmt.Errorf("--dim %d: must be between 0 and %d", f.dim, rips.MaxDim)
+		return fmt.Errorf("--homology %d: must be between 0 and %d", f.dim, rips.MaxDim)
 	}
 	if f.threshold < 0 || math.IsNaN(f.threshold) || math.IsInf(f.threshold, 0) {
-		return fmt.Errorf("--threshold %v: must be a finite length, or 0 for the enclosing radius", f.threshold)
+		return fmt.Errorf("--max-edge %v: must be a finite length, or 0 for no limit", f.threshold)
 	}
 	if !rips.IsPrime(f.prime) {
-		return fmt.Errorf("--prime %d: not a prime", f.prime)
+		return fmt.Errorf("--field %d: not a prime", f.prime)
 	}
 	if f.minPersistence < 0 || math.IsNaN(f.minPersistence) {
 		return fmt.Errorf("--min-persistence %v: must not be negative", f.minPersistence)

@@ -63,7 +63,7 @@ func TestBarcodePointsMatchesLibrary(t *testing.T) {
 	pts, text := torusCloud()
 	path := writeText(t, "torus.csv", text)
 	for _, prime := range []int{2, 3} {
-		code, out, stderr := runCmd("barcode", "--points", path, "--json", "--prime", strconv.Itoa(prime))
+		code, out, stderr := runCmd("barcode", "--points", path, "--json", "--field", strconv.Itoa(prime))
 		if code != exitOK {
 			t.Fatalf("exit %d: %s", code, stderr)
 		}
@@ -110,7 +110,7 @@ func TestBarcodePatternMatchesLibrary(t *testing.T) {
 	}
 	f.Close()
 
-	code, out, stderr := runCmd("barcode", path, "--json", "--dim", "1", "--landmarks", "120")
+	code, out, stderr := runCmd("barcode", path, "--json", "--homology", "1", "--landmarks", "120")
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -132,7 +132,7 @@ func TestBarcodePatternMatchesLibrary(t *testing.T) {
 	}
 	long := 0
 	for _, b := range got {
-		if b.Dim == 1 && b.Persistence() > rep.EnclosingRadius/4 {
+		if b.Dim == 1 && b.Persistence() > rep.Radius/4 {
 			long++
 		}
 	}
@@ -147,15 +147,15 @@ func TestBarcodeText(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	for _, want := range []string{"4 points", "Z/2", "H0: 4 bars, H1: 1 bar, H2: 0 bars", "dim", "persistence", "inf", "1.41421"} {
+	for _, want := range []string{"4 points", "Z/47", "H0: 4 bars, H1: 1 bar, H2: 0 bars", "dim", "persistence", "inf", "1.41421"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("output lacks %q:\n%s", want, out)
 		}
 	}
-	// --min-persistence drops the short bars, a threshold below the
-	// enclosing radius is said.
-	code, out, _ = runCmd("barcode", "--points", path, "--min-persistence", "0.5", "--threshold", "1.2")
-	if code != exitOK || !strings.Contains(out, "H0: 4 bars, H1: 1 bar") || !strings.Contains(out, "below the enclosing radius") {
+	// --min-persistence drops the short bars, a --max-edge short of the
+	// radius of the cloud is said.
+	code, out, _ = runCmd("barcode", "--points", path, "--min-persistence", "0.5", "--max-edge", "1.2")
+	if code != exitOK || !strings.Contains(out, "H0: 4 bars, H1: 1 bar") || !strings.Contains(out, "short of the cloud's radius") {
 		t.Errorf("exit %d:\n%s", code, out)
 	}
 	code, out, _ = runCmd("barcode", "--points", path, "--min-persistence", "1.5")
@@ -181,9 +181,9 @@ func TestBarcodeRefuses(t *testing.T) {
 		{[]string{"--points", filepath.Join(t.TempDir(), "missing.txt")}, "missing.txt"},
 		{[]string{}, "either a pattern FILE or --points"},
 		{[]string{ok, "--points", ok}, "not both"},
-		{[]string{"--points", ok, "--prime", "4"}, "--prime 4: not a prime"},
-		{[]string{"--points", ok, "--dim", "4"}, "--dim 4"},
-		{[]string{"--points", ok, "--threshold", "-1"}, "--threshold"},
+		{[]string{"--points", ok, "--field", "4"}, "--field 4: not a prime"},
+		{[]string{"--points", ok, "--homology", "4"}, "--homology 4"},
+		{[]string{"--points", ok, "--max-edge", "-1"}, "--max-edge"},
 		{[]string{"--points", ok, "--memory", "lots"}, "--memory"},
 		{[]string{"--points", ok, "--memory", "100B"}, "memory budget"},
 		{[]string{"--points", ok, "--memory", "100B"}, "--threshold, --dim, --landmarks, --memory"},
@@ -198,7 +198,7 @@ func TestBarcodeRefuses(t *testing.T) {
 
 func TestBarcodeHelp(t *testing.T) {
 	code, out, _ := runCmd("barcode", "--help")
-	for _, want := range []string{"Examples:", "phasonhull barcode --points cloud.csv", "--threshold", "--prime", "--memory", "enclosing radius"} {
+	for _, want := range []string{"Examples:", "phasonhull barcode --points cloud.csv", "--max-edge", "--field", "--memory", "Z/47"} {
 		if code != exitOK || !strings.Contains(out, want) {
 			t.Errorf("help lacks %q:\n%s", want, out)
 		}

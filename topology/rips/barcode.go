@@ -14,13 +14,13 @@ import (
 // number per dimension. Its JSON form is what "phasonhull barcode --json"
 // prints.
 type Barcode struct {
-	Source          string  `json:"source"`
-	Points          int     `json:"points"`
-	Dim             int     `json:"dim"`
-	Prime           int     `json:"prime"`
-	Threshold       float64 `json:"threshold"`
-	EnclosingRadius float64 `json:"enclosing_radius"`
-	MinPersistence  float64 `json:"min_persistence"`
+	Source         string  `json:"source"`
+	Points         int     `json:"points"`
+	Dim            int     `json:"dim"`
+	Prime          int     `json:"prime"`
+	Threshold      float64 `json:"threshold"`
+	Radius         float64 `json:"radius"`
+	MinPersistence float64 `json:"min_persistence"`
 	// Counts[k] is the number of bars of dimension k listed.
 	Counts []int `json:"counts"`
 	Bars   []Bar `json:"bars"`
@@ -32,7 +32,7 @@ type Barcode struct {
 func (d *Diagram) Barcode(source string, maxDim int, minPersistence float64) *Barcode {
 	r := &Barcode{
 		Source: source, Points: d.Points, Dim: maxDim, Prime: d.Prime, Threshold: d.Threshold,
-		EnclosingRadius: d.EnclosingRadius, MinPersistence: minPersistence,
+		Radius: d.Radius, MinPersistence: minPersistence,
 		Counts: make([]int, maxDim+1), Bars: []Bar{},
 	}
 	for _, b := range d.Bars {
@@ -52,10 +52,10 @@ func (d *Diagram) Barcode(source string, maxDim int, minPersistence float64) *Ba
 func (r *Barcode) WriteText(w io.Writer) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "barcode of %s: %d points, coefficients Z/%d, dimensions 0 to %d\n", r.Source, r.Points, r.Prime, r.Dim)
-	if r.Threshold < r.EnclosingRadius {
-		fmt.Fprintf(bw, "complex up to length %.6g (below the enclosing radius %.6g: bars alive there never end)\n", r.Threshold, r.EnclosingRadius)
+	if r.Threshold < r.Radius {
+		fmt.Fprintf(bw, "edges up to length %.6g, short of the cloud's radius %.6g: bars alive there are reported as never ending\n", r.Threshold, r.Radius)
 	} else {
-		fmt.Fprintf(bw, "complex up to the enclosing radius %.6g, where it becomes a cone\n", r.EnclosingRadius)
+		fmt.Fprintf(bw, "edges up to the cloud's radius %.6g, past which no bar changes (one point is joined to all others)\n", r.Radius)
 	}
 	for k, c := range r.Counts {
 		s := "s"

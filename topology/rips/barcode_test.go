@@ -13,7 +13,7 @@ import (
 // order of ComparePersistence, and counts them per dimension.
 func TestBarcodeFilterAndOrder(t *testing.T) {
 	inf := math.Inf(1)
-	d := &rips.Diagram{Points: 5, Prime: 2, Threshold: 3, EnclosingRadius: 3, Bars: []rips.Bar{
+	d := &rips.Diagram{Points: 5, Prime: 2, Threshold: 3, Radius: 3, Bars: []rips.Bar{
 		{Dim: 0, Birth: 0, Death: 0.5}, {Dim: 0, Birth: 0, Death: inf}, {Dim: 0, Birth: 0, Death: 2},
 		{Dim: 1, Birth: 1, Death: 1.1}, {Dim: 1, Birth: 1, Death: 2.5}, {Dim: 1, Birth: 0.5, Death: 2},
 	}}
@@ -49,7 +49,7 @@ func ExampleDiagram_Barcode() {
 	}
 	// Output:
 	// barcode of hexagon: 6 points, coefficients Z/2, dimensions 0 to 2
-	// complex up to the enclosing radius 2, where it becomes a cone
+	// edges up to the cloud's radius 2, past which no bar changes (one point is joined to all others)
 	// H0: 6 bars, H1: 1 bar, H2: 1 bar (at least 0.1 long)
 	//
 	//   dim    birth    death  persistence

@@ -66,10 +66,11 @@
 //
 // # Conventions
 //
-// Bars of zero persistence are not reported. With Options.Threshold = 0 the
-// complex is built up to the enclosing radius, where it becomes a cone:
-// all bars are then those of the complete filtration, and only one H0
-// class is essential. A smaller threshold cuts the filtration, and classes
+// Bars of zero persistence are not reported. With Options.Threshold = 0
+// edges are admitted up to the radius of the cloud, min_i max_j d(i, j):
+// past it one point is joined to every other, so no bar can start or end,
+// all bars are those of the complete filtration, and only one H0 class is
+// essential. A smaller threshold cuts the filtration, and classes
 // alive there are reported with Death = +Inf.
 //
 // A representative cocycle of an H1 bar [b, d) is the chain σ + V of the

@@ -22,7 +22,7 @@ type metric struct {
 	vals      []float64 // distinct edge lengths up to the threshold, ascending
 	order     []uint32  // edges up to the threshold in filtration order, as edge indices
 	threshold float64   // the largest edge length admitted
-	enclosing float64   // the enclosing radius min_i max_j d(i, j)
+	radius    float64   // the radius of the cloud, min_i max_j d(i, j)
 }
 
 // flatten validates the cloud and copies it into one row-major slice.
@@ -127,19 +127,19 @@ func pairwise(flat []float64, n, dim, workers int) (dist, far []float64) {
 }
 
 // newMetric ranks the edges of the cloud up to the threshold (0: the
-// enclosing radius; larger thresholds are lowered to it, where nothing
+// radius of the cloud; larger thresholds are lowered to it, where nothing
 // changes any more).
 func newMetric(flat []float64, n, dim int, threshold float64, workers int) *metric {
 	dist, far := pairwise(flat, n, dim, workers)
-	enclosing := 0.0
+	radius := 0.0
 	if n > 1 {
-		enclosing = math.Inf(1)
+		radius = math.Inf(1)
 		for _, f := range far {
-			enclosing = min(enclosing, f)
+			radius = min(radius, f)
 		}
 	}
-	t := enclosing
-	if threshold > 0 && threshold < enclosing {
+	t := radius
+	if threshold > 0 && threshold < radius {
 		t = threshold
 	}
 
@@ -181,7 +181,7 @@ func newMetric(flat []float64, n, dim int, threshold float64, workers int) *metr
 			rank[i*n+j] = r
 		}
 	}
-	return &metric{n: n, rank: rank, vals: vals, order: ids, threshold: t, enclosing: enclosing}
+	return &metric{n: n, rank: rank, vals: vals, order: ids, threshold: t, radius: radius}
 }
 
 // radixSort sorts keys ascending, carrying ids along, stably: a

@@ -49,7 +49,7 @@ func TestHexagon(t *testing.T) {
 			t.Errorf("H0 bar %v: want death 1 (the side)", b)
 		}
 	}
-	// Betti numbers inside each bar, and past the enclosing radius.
+	// Betti numbers inside each bar, and past the radius of the cloud.
 	for _, c := range []struct {
 		t    float64
 		want []int
@@ -111,7 +111,7 @@ func TestEvenlySpacedCircle(t *testing.T) {
 // Common practice: a well-sampled sphere shows Betti numbers (1, 0, 1) and
 // a well-sampled flat torus (1, 2, 1) as long bars, while sampling noise
 // gives short ones. "Long" here is a persistence above a quarter of the
-// enclosing radius.
+// radius of the cloud.
 func TestLongBarsOfSphereAndTorus(t *testing.T) {
 	cases := []struct {
 		name string
@@ -126,7 +126,7 @@ func TestLongBarsOfSphereAndTorus(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		bars := longBars(d, 2, d.EnclosingRadius/4)
+		bars := longBars(d, 2, d.Radius/4)
 		for dim, w := range c.want {
 			if len(bars[dim]) != w {
 				t.Errorf("%s: %d long H%d bars %v, want %d", c.name, len(bars[dim]), dim, bars[dim], w)

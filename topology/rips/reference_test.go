@@ -41,7 +41,7 @@ type refCase struct {
 	name      string
 	pts       [][]float64
 	dim       int
-	threshold float64 // 0: the enclosing radius
+	threshold float64 // 0: the radius of the cloud
 	prime     int     // 0: 2
 }
 
@@ -69,7 +69,7 @@ func referenceBattery() []refCase {
 		{name: "polygon-12", pts: q(ripstest.RegularPolygon(12)), dim: 2},
 		{name: "repeated-points", pts: repeated(q(ripstest.Sphere(60, 17)), 20), dim: 2},
 	}
-	// Threshold below the enclosing radius: halfway between two
+	// Threshold below the cloud's radius: halfway between two
 	// consecutive distinct lengths, so that both programs admit the same
 	// edges whatever their precision.
 	cube := q(ripstest.Cube(100, 3, 13))

@@ -28,7 +28,7 @@ type Options struct {
 	// MaxDim is the highest homology dimension computed, 0 to 3.
 	MaxDim int
 	// Threshold is the largest edge length admitted in the complex; 0
-	// means the enclosing radius (see VietorisRips).
+	// means the radius of the cloud (see VietorisRips).
 	Threshold float64
 	// Prime is the characteristic p of the coefficient field Z/p; 0 means
 	// 2. It must be a prime below 65536.
@@ -55,12 +55,12 @@ type Diagram struct {
 	// Options.Cocycles is set, in the order of their bars.
 	Cocycles []Cocycle
 	// Threshold is the largest edge length in the complex: the requested
-	// threshold, or the enclosing radius when that is smaller or none was
+	// threshold, or the radius of the cloud when that is smaller or none was
 	// requested.
 	Threshold float64
-	// EnclosingRadius is min_i max_j d(i, j), the scale at which the
-	// complex becomes a cone.
-	EnclosingRadius float64
+	// Radius is the radius of the cloud, min_i max_j d(i, j): past it one
+	// point is joined to every other and no bar changes.
+	Radius float64
 	// Prime is the coefficient field's characteristic.
 	Prime int
 	// Points is the number of points.
@@ -113,8 +113,8 @@ func (d *Diagram) Betti(maxDim int, t float64) []int {
 //
 // A simplex enters the filtration at its diameter, the length of its
 // longest edge. With opt.Threshold = 0 the complex is built up to the
-// enclosing radius r = min_i max_j d(i, j): there the complex is a cone
-// over the point attaining it, every class of positive dimension has died,
+// radius of the cloud r = min_i max_j d(i, j): there the point attaining
+// it is joined to every other, so the complex contracts onto it, every class of positive dimension has died,
 // and the bars are exactly those of the whole filtration, with a single
 // essential H0 bar. A larger threshold is lowered to r, which changes
 // nothing. A smaller threshold t cuts the filtration at t: a class still
@@ -264,7 +264,7 @@ func (e *engine) diagram(opt Options) *Diagram {
 		p = 2
 	}
 	return &Diagram{
-		Bars: bars, Cocycles: e.cocs, Threshold: e.m.threshold, EnclosingRadius: e.m.enclosing,
+		Bars: bars, Cocycles: e.cocs, Threshold: e.m.threshold, Radius: e.m.radius,
 		Prime: p, Points: e.n, Stats: e.stats,
 	}
 }

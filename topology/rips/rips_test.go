@@ -144,7 +144,7 @@ func TestFieldsAgreeWithoutTorsion(t *testing.T) {
 	}
 	long := func(prime int) []int {
 		d := compute(t, rp2, rips.Options{MaxDim: 2, Prime: prime})
-		bars := longBars(d, 2, d.EnclosingRadius/4)
+		bars := longBars(d, 2, d.Radius/4)
 		return []int{len(bars[0]), len(bars[1]), len(bars[2])}
 	}
 	if got := long(2); !slices.Equal(got, []int{1, 1, 1}) {
@@ -160,7 +160,7 @@ func TestFieldsAgreeWithoutTorsion(t *testing.T) {
 func TestThresholdTruncates(t *testing.T) {
 	for _, pts := range [][]([]float64){ripstest.Cube(100, 3, 61), ripstest.Circle(90, 0.05, 62)} {
 		full := compute(t, pts, rips.Options{MaxDim: 2})
-		cut := full.EnclosingRadius * 0.45
+		cut := full.Radius * 0.45
 		got := sortedBars(compute(t, pts, rips.Options{MaxDim: 2, Threshold: cut}))
 		var want []rips.Bar
 		for _, b := range full.Bars {
@@ -175,10 +175,10 @@ func TestThresholdTruncates(t *testing.T) {
 		if !reflect.DeepEqual(got, want) {
 			t.Errorf("%d points, threshold %v: got\n%v\nwant\n%v", len(pts), cut, got, want)
 		}
-		// A threshold above the enclosing radius changes nothing.
-		above := compute(t, pts, rips.Options{MaxDim: 2, Threshold: 3 * full.EnclosingRadius})
+		// A threshold above the radius of the cloud changes nothing.
+		above := compute(t, pts, rips.Options{MaxDim: 2, Threshold: 3 * full.Radius})
 		if !reflect.DeepEqual(sortedBars(above), sortedBars(full)) {
-			t.Errorf("%d points: a threshold above the enclosing radius changed the bars", len(pts))
+			t.Errorf("%d points: a threshold above the radius of the cloud changed the bars", len(pts))
 		}
 	}
 }

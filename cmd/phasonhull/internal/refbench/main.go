@@ -3,7 +3,7 @@
 // checks that both print the same barcode.
 //
 // Both programs run as child processes on the same file, alternately, a
-// few times each: this engine as "phasonhull barcode --points FILE --dim D
+// few times each: this engine as "phasonhull barcode --points FILE --homology D --field 2
 // --json" (built from this module into a temporary folder), the reference
 // as "ripser --format point-cloud --dim D FILE". The table gives the median
 // wall time of each, their ratio, and the peak resident memory of each
@@ -85,7 +85,7 @@ func run(reps int, only, ref string) error {
 		}
 	}
 
-	fmt.Printf("refbench: %d repetitions, alternating; engine: %s barcode --points FILE --dim D --json; reference: %s --format point-cloud --dim D FILE\n\n", reps, bin, refPath)
+	fmt.Printf("refbench: %d repetitions, alternating; engine: %s barcode --points FILE --homology D --field 2 --json; reference: %s --format point-cloud --dim D FILE\n\n", reps, bin, refPath)
 	tw := tabwriter.NewWriter(os.Stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "cloud\tpoints\tdim\tengine s\treference s\tratio\tengine MiB\treference MiB\tbarcodes\t")
 	for _, c := range ripstest.BenchmarkSet() {
@@ -103,7 +103,7 @@ func run(reps int, only, ref string) error {
 		for i := 0; i < reps; i++ {
 			steps := []func() error{
 				func() error {
-					return measure(ours, bin, []string{"barcode", "--points", path, "--dim", dim, "--json"}, parseOurs)
+					return measure(ours, bin, []string{"barcode", "--points", path, "--homology", dim, "--field", "2", "--json"}, parseOurs)
 				},
 				func() error {
 					return measure(theirs, refPath, refArgs, ripstest.ParseReference)
