@@ -63,7 +63,7 @@ func (f *generateFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.tiles, "tiles", "", "sturmian, substitution: tile `LENGTHS` like A=1,B=1.618 (default A=1,B=golden ratio)")
 	fs.Float64Var(&o.Intercept, "intercept", 0, "sturmian: intercept ρ in [0,1)")
 	fs.StringVar(&o.Rule, "rule", "", "substitution: fibonacci, thue-morse, period-doubling, or a rule like A=AB,B=A")
-	fs.StringVar(&o.Dist, "dist", "", "random: uniform or exponential (default uniform)")
+	fs.StringVar(&o.Dist, "dist", "", "random: uniform, exponential or gaussian (default uniform)")
 	fs.Float64Var(&o.Spread, "spread", 0, "random: relative spread in (0,1) (default 0.5)")
 	f.noise = flagval.NewNoise(0)
 	fs.Var(f.noise, "noise", "perturbation: standard deviation of Gaussian position noise, a `LEVEL`: a length or a percentage of --spacing (2%)")

@@ -51,7 +51,8 @@
 //   - substitution: the tile word of a substitution rule ("rule": fibonacci,
 //     thue-morse, period-doubling, or a rule like "A=AB,B=A"), iterated from
 //     the first letter of the rule.
-//   - random: independent spacings ("dist" uniform or exponential, "spread").
+//   - random: independent spacings ("dist" uniform, exponential or
+//     gaussian, "spread").
 //
 // # Perturbations
 //

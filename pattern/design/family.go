@@ -136,8 +136,9 @@ func table() []family {
 		{
 			name: Random, uses: uses("spacing", "dist", "spread"),
 			formula: "independent random spacings",
-			help: "independent spacings: uniform on [L(1−spread), L(1+spread)], or\n" +
-				"exponential L(1−spread) + L·spread·E (mean L, sd L·spread)",
+			help: "independent spacings: uniform on [L(1−spread), L(1+spread)],\n" +
+				"exponential L(1−spread) + L·spread·E (mean L, sd L·spread), or\n" +
+				"gaussian L(1 + spread·Z), Z normal cut at ±4 (spread < 0.25)",
 			defaults: defaultsRandom,
 			check:    checkRandom, build: buildRandom,
 		},

@@ -98,7 +98,9 @@ type Spec struct {
 	// default) on [L(1−spread), L(1+spread)], or "exponential", a shifted
 	// exponential L(1−spread) + L·spread·E with E of mean 1, so that the
 	// mean is L, the standard deviation L·spread and no spacing is below
-	// L(1−spread).
+	// L(1−spread), or "gaussian", L(1 + spread·Z) with Z standard normal
+	// cut at ±4 (drawn again beyond), so that the mean is L, the standard
+	// deviation L·spread to within 0.1%, and spread must stay below 1/4.
 	Dist string `json:"dist,omitempty"`
 	// Spread is the random family's relative spread, in (0, 1); 0 stands
 	// for the default 0.5.

@@ -240,7 +240,8 @@ func TestValidateRefusals(t *testing.T) {
 		{fam("substitution", func(s *Spec) { s.Rule = "a=ab,b=a" }), "tiles: missing; the rule's letters ab need lengths"},
 		{fam("substitution", func(s *Spec) { s.Rule = "fibonacci"; s.Tiles = map[string]float64{"A": 1, "B": 2, "C": 3} }), `letter "C" does not occur`},
 		{fam("substitution", func(s *Spec) { s.Rule = "fibonacci"; s.Tiles = map[string]float64{"A": 1, "B": 1e-12} }), "too small for distinct sites"},
-		{fam("random", func(s *Spec) { s.Dist = "gaussian" }), `dist "gaussian": unknown`},
+		{fam("random", func(s *Spec) { s.Dist = "cauchy" }), `dist "cauchy": unknown`},
+		{fam("random", func(s *Spec) { s.Dist, s.Spread = "gaussian", 0.3 }), "a gaussian spread must stay below 0.25"},
 		{fam("random", func(s *Spec) { s.Spread = 1 }), "spread = 1"},
 		{fam("random", func(s *Spec) { s.Theta = 0.3 }), "theta = 0.3 has no effect on the random family (it takes spacing, dist, spread)"},
 	} {
