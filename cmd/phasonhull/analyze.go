@@ -95,13 +95,19 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 			return fmt.Errorf("--memory: %w", err)
 		}
 	}
+	progress := progressOf(cmd)
+	defer progress.Close()
+	progress.Stage(fmt.Sprintf("analysing %s (%d sites)", p.Source, p.Len()))
 	res, err := hull.AnalyzeContext(cmd.Context(), p, opt)
 	if err != nil {
 		return err
 	}
+	progress.Stage("drawing the figures")
+	f.plot.list = listTo(cmd)
 	if err := f.plot.writeAnalysis(cmd.ErrOrStderr(), res); err != nil {
 		return err
 	}
+	progress.Close()
 	out := cmd.OutOrStdout()
 	if f.json {
 		return writeJSON(out, res)

@@ -219,17 +219,24 @@ func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
 	if err != nil {
 		return err
 	}
+	progress := progressOf(cmd)
+	defer progress.Close()
+	progress.Stage("analysing the design " + f.audit.designPath)
 	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
 	if err != nil {
 		return err
 	}
+	progress.Stage(fmt.Sprintf("auditing %s (%d sites)", p.Source, p.Len()))
 	rep, err := audit.Run(cmd.Context(), d, p, opt)
 	if err != nil {
 		return err
 	}
+	progress.Stage("drawing the figures")
+	f.plot.list = listTo(cmd)
 	if err := f.plot.writeAudit(rep); err != nil {
 		return err
 	}
+	progress.Close()
 	var buf bytes.Buffer
 	if f.json {
 		if err := writeJSON(&buf, rep); err != nil {

@@ -146,10 +146,10 @@ func runBarcode(cmd *cobra.Command, args []string, f *barcodeFlags) error {
 	}
 
 	opt := rips.Options{MaxDim: f.dim, Threshold: f.threshold, Prime: f.prime, MemoryBudget: budget}
-	if isTerminal(cmd.ErrOrStderr()) {
+	if quiet, _ := cmd.Flags().GetBool("quiet"); !quiet && isTerminal(cmd.ErrOrStderr()) {
 		opt.Progress = cmd.ErrOrStderr()
 	}
-	d, err := rips.VietorisRips(pts, opt)
+	d, err := rips.VietorisRipsContext(cmd.Context(), pts, opt)
 	if errors.Is(err, rips.ErrBudget) {
 		return fmt.Errorf("barcode of %s: %w (flags: --threshold, --dim, --landmarks, --memory)", source, err)
 	}

@@ -91,12 +91,17 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		return err
 	}
 	// The design is analysed once, with every core.
+	progress := progressOf(cmd)
+	defer progress.Close()
+	progress.Stage("analysing the design " + f.audit.designPath)
 	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
 	if err != nil {
 		return err
 	}
 	load := func(path string) (*pattern.Pattern, error) { return f.in.load(path, nil) }
-	sum := batch.Run(cmd.Context(), files, load, d, opt, f.jobs)
+	progress.Stage("files done")
+	sum := batch.Run(cmd.Context(), files, load, d, opt, f.jobs, progress.Count)
+	progress.Close()
 	if err := writeFileAtomic(f.out, sum.WriteCSV); err != nil {
 		return err
 	}

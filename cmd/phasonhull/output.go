@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"phasonhull/cmd/phasonhull/internal/outfile"
+	"phasonhull/cmd/phasonhull/internal/progress"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
@@ -68,6 +69,22 @@ func runPaths(cmd *cobra.Command, args []string) (ins, outs []outfile.Path) {
 		}
 	})
 	return ins, outs
+}
+
+// progressOf returns the progress line of a run: shown on standard error
+// when that is a terminal and --quiet is not given.
+func progressOf(cmd *cobra.Command) *progress.Line {
+	quiet, _ := cmd.Flags().GetBool("quiet")
+	return progress.New(cmd.ErrOrStderr(), !quiet && isTerminal(cmd.ErrOrStderr()))
+}
+
+// listTo is where a run lists the files it wrote: standard error, or
+// nowhere with --quiet.
+func listTo(cmd *cobra.Command) io.Writer {
+	if quiet, _ := cmd.Flags().GetBool("quiet"); quiet {
+		return nil
+	}
+	return cmd.ErrOrStderr()
 }
 
 // writeFileAtomic writes the file at path through outfile.WriteFile: the

@@ -21,6 +21,9 @@ import (
 type plotFlags struct {
 	dir    string
 	format string
+	// list, when not nil, is told each file written (standard error,
+	// unless --quiet).
+	list io.Writer
 }
 
 // register adds --plot and --plot-format to fs (--format names the input
@@ -107,6 +110,11 @@ func (f *plotFlags) write(pics []*picture.Picture) error {
 	if err := outfile.WriteFiles(f.dir, files); err != nil {
 		return fmt.Errorf("--plot %s: %w", f.dir, err)
 	}
+	if f.list != nil {
+		for _, file := range files {
+			fmt.Fprintf(f.list, "phasonhull: wrote %s\n", filepath.Join(f.dir, file.Name))
+		}
+	}
 	return nil
 }
 
@@ -173,8 +181,9 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	progress := newProgress(cmd.ErrOrStderr())
-	progress("analysing " + p.Source)
+	progress := progressOf(cmd)
+	defer progress.Close()
+	progress.Stage(fmt.Sprintf("analysing %s (%d sites)", p.Source, p.Len()))
 	var page report.Page
 	var res *hull.Result
 	if d == nil {
@@ -212,7 +221,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	}
 	page.Analysis = res
 	page.Files = append([]report.File{{Name: report.AnalysisFile, Data: js}}, page.Files...)
-	progress("drawing the figures")
+	progress.Stage("drawing the figures")
 	pics, err := picture.Analysis(res)
 	if err == nil {
 		figs := page.Figures
@@ -224,23 +233,14 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		}
 		page.Figures = append(page.Figures, figs...)
 	}
-	progress("writing " + f.out)
+	progress.Stage("writing " + f.out)
 	if err := report.Write(f.out, &page); err != nil {
 		return err
 	}
-	progress("")
+	progress.Close()
 	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, report.PageFile))
+	for _, file := range page.Files {
+		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, file.Name))
+	}
 	return nil
-}
-
-// newProgress returns a function that shows a one-line progress message on
-// w when w is a terminal, and does nothing otherwise; an empty message
-// clears the line.
-func newProgress(w io.Writer) func(string) {
-	if !isTerminal(w) {
-		return func(string) {}
-	}
-	return func(msg string) {
-		fmt.Fprintf(w, "\r\033[K%s", msg)
-	}
 }

@@ -303,3 +303,22 @@ func TestReportInChromium(t *testing.T) {
 		t.Errorf("the rendered page looks blank (grey variance %.3g)", v)
 	}
 }
+
+// --plot lists the files it wrote on standard error, and --quiet keeps it
+// silent; the results on standard output are the same either way.
+func TestPlotListsFilesWritten(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "figs")
+	code, out, stderr := runCmd("analyze", demoSample, "--plot", dir)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, name := range entries(t, dir) {
+		if !strings.Contains(stderr, "wrote "+filepath.Join(dir, name)+"\n") {
+			t.Errorf("stderr %q does not list %s", stderr, name)
+		}
+	}
+	code, quietOut, quietErr := runCmd("analyze", demoSample, "--plot", dir, "--quiet")
+	if code != exitOK || quietErr != "" || quietOut != out {
+		t.Errorf("--quiet: exit %d, stderr %q, same stdout %v", code, quietErr, quietOut == out)
+	}
+}

@@ -26,9 +26,12 @@ homology.`,
   # Write a modulated design and look at its delay-coordinate trace
   phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
   phasonhull embed design.csv`,
+		Version:       version(),
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
+	root.PersistentFlags().Bool("quiet", false, "no progress line and no list of the files written on standard error (results and errors still print)")
+	root.SetVersionTemplate("phasonhull {{.Version}}\n")
 	root.SetIn(stdin)
 	root.SetOut(stdout)
 	root.SetErr(stderr)

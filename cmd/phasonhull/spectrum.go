@@ -201,7 +201,11 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 	if err != nil {
 		return err
 	}
+	progress := progressOf(cmd)
+	defer progress.Close()
+	f.plot.list = listTo(cmd)
 	if f.edgeModes {
+		progress.Stage("following the boundary states over one turn of the phase")
 		sweep, err := spectrum.PhaseSweep(spec)
 		if err != nil {
 			return err
@@ -225,6 +229,7 @@ func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
 		if err != nil {
 			return err
 		}
+		progress.Stage(fmt.Sprintf("the spectrum of %d sites", p.Len()))
 		if rep.Spectrum, err = spectrum.AnalyzeContext(cmd.Context(), op, opt); err != nil {
 			return err
 		}
@@ -440,9 +445,15 @@ func runThetaGrid(cmd *cobra.Command, f *spectrumFlags, spec design.Spec) error 
 	// The spectra are kept for --plot only.
 	var plotThetas []float64
 	var plotValues [][]float64
-	var keep func(float64, []float64)
-	if f.plot.dir != "" {
-		keep = func(theta float64, v []float64) {
+	progress := progressOf(cmd)
+	defer progress.Close()
+	progress.Stage("values of θ done")
+	f.plot.list = listTo(cmd)
+	scanned := 0
+	keep := func(theta float64, v []float64) {
+		scanned++
+		progress.Count(scanned, len(thetas))
+		if f.plot.dir != "" {
 			plotThetas, plotValues = append(plotThetas, theta), append(plotValues, v)
 		}
 	}

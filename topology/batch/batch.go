@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"runtime"
 	"sync"
+	"sync/atomic"
 
 	"phasonhull/pattern"
 	"phasonhull/topology/audit"
@@ -64,8 +65,9 @@ type Loader func(path string) (*pattern.Pattern, error)
 // Run processes files with at most jobs at once (0: one per core): each
 // is read by load and analysed with opt.Hull, or, when d is not nil,
 // audited against d with opt. The cores are shared among the workers'
-// persistence computations. The rows come in the order of files.
-func Run(ctx context.Context, files []string, load Loader, d *audit.Design, opt audit.Options, jobs int) *Summary {
+// persistence computations. The rows come in the order of files. done,
+// when not nil, is told after each file how many of all are done.
+func Run(ctx context.Context, files []string, load Loader, d *audit.Design, opt audit.Options, jobs int, done func(n, total int)) *Summary {
 	if jobs <= 0 {
 		jobs = runtime.GOMAXPROCS(0)
 	}
@@ -75,12 +77,16 @@ func Run(ctx context.Context, files []string, load Loader, d *audit.Design, opt 
 	rows := make([]Row, len(files))
 	next := make(chan int)
 	var wg sync.WaitGroup
+	var finished atomic.Int64
 	for range jobs {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			for i := range next {
 				rows[i] = One(ctx, files[i], load, d, opt)
+				if n := finished.Add(1); done != nil {
+					done(int(n), len(files))
+				}
 			}
 		}()
 	}

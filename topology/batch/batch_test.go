@@ -50,7 +50,7 @@ func TestRun(t *testing.T) {
 	files := []string{"circle", "bad", "cell", "panic"}
 	var first *batch.Summary
 	for _, jobs := range []int{1, 3, 0} {
-		s := batch.Run(context.Background(), files, loader(t), nil, audit.Options{}, jobs)
+		s := batch.Run(context.Background(), files, loader(t), nil, audit.Options{}, jobs, nil)
 		if s.Schema != batch.Schema || s.Files != 4 || s.Errors != 2 || s.Failed != 0 || s.Design != "" {
 			t.Fatalf("jobs %d: summary %+v", jobs, s)
 		}
@@ -88,7 +88,7 @@ func TestRunAudit(t *testing.T) {
 		t.Fatal(err)
 	}
 	d := audit.NewDesign(context.Background(), &design.File{Path: "circle.json", Kind: design.KindPositions, Pattern: p}, hull.Options{})
-	s := batch.Run(context.Background(), []string{"circle", "other"}, load, d, audit.Options{}, 2)
+	s := batch.Run(context.Background(), []string{"circle", "other"}, load, d, audit.Options{}, 2, nil)
 	if s.Design != "circle.json" || s.Failed != 1 || s.Errors != 0 {
 		t.Fatalf("summary %+v", s)
 	}
@@ -103,7 +103,7 @@ func TestRunAudit(t *testing.T) {
 
 // The CSV has a column per field and empty cells for what a row lacks.
 func TestWriteCSV(t *testing.T) {
-	s := batch.Run(context.Background(), []string{"circle", "bad"}, loader(t), nil, audit.Options{}, 1)
+	s := batch.Run(context.Background(), []string{"circle", "bad"}, loader(t), nil, audit.Options{}, 1, nil)
 	var b bytes.Buffer
 	if err := s.WriteCSV(&b); err != nil {
 		t.Fatal(err)

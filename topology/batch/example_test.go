@@ -24,7 +24,7 @@ func ExampleRun() {
 		}
 		return design.Generate(s)
 	}
-	sum := batch.Run(context.Background(), []string{"modulated.csv", "missing.csv", "cell.csv"}, load, nil, audit.Options{}, 2)
+	sum := batch.Run(context.Background(), []string{"modulated.csv", "missing.csv", "cell.csv"}, load, nil, audit.Options{}, 2, nil)
 	for _, r := range sum.Rows {
 		if r.Error != "" {
 			fmt.Printf("%-14s error: %s\n", r.File, r.Error)
