@@ -7,6 +7,7 @@ import (
 	"math"
 	"path/filepath"
 	"slices"
+	"strconv"
 
 	"gonum.org/v1/gonum/stat/distuv"
 	"gonum.org/v1/plot"
@@ -69,6 +70,23 @@ func (t auditTicks) Ticks(lo, hi float64) []plot.Tick {
 	}
 	if t.defects != 0 {
 		out = append(out, plot.Tick{Value: t.defects, Label: "defects"})
+	}
+	return out
+}
+
+// countTicks are the usual ticks of a count axis, whole numbers only.
+type countTicks struct{}
+
+// Ticks implements plot.Ticker.
+func (countTicks) Ticks(lo, hi float64) []plot.Tick {
+	var out []plot.Tick
+	for _, k := range (plot.DefaultTicks{}).Ticks(lo, hi) {
+		if k.Value == math.Trunc(k.Value) {
+			if k.Label != "" {
+				k.Label = strconv.FormatFloat(k.Value, 'f', -1, 64)
+			}
+			out = append(out, k)
+		}
 	}
 	return out
 }
@@ -205,6 +223,7 @@ func Audit(a AuditSites) (*Picture, error) {
 	}
 	hist.X.Min, hist.X.Max = rlo-pad, rhi+pad
 	hist.Y.Min, hist.Y.Max = 0, hmax*1.08
+	hist.Y.Tick.Marker = countTicks{}
 
 	// Normal quantile plot: sorted residuals against the quantiles of a
 	// unit normal at (k + ½)/n, with the line of the robust centre and
