@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"path/filepath"
 	"slices"
 
 	"gonum.org/v1/plot"
@@ -109,6 +110,10 @@ func Angle(r *hull.Result) (*Picture, error) {
 		return nil, errors.New("angle: the result has no circular coordinate")
 	}
 	top := make([]*plot.Plot, 0, len(tr.Coordinates))
+	vec := draw.GlyphStyle{Color: Tidewater.Blue, Radius: vg.Points(1.4), Shape: draw.CircleGlyph{}}
+	resid := draw.GlyphStyle{Color: Tidewater.Pine, Radius: vg.Points(1.4), Shape: draw.CircleGlyph{}}
+	fitStyle := draw.LineStyle{Color: Tidewater.Rust, Width: vg.Points(1.2)}
+	runs := 0
 	bottom := make([]*plot.Plot, 0, len(tr.Coordinates))
 	for k, phi := range tr.Coordinates {
 		l, err := LiftCoordinate(tr.Rows, phi)
@@ -119,6 +124,7 @@ func Angle(r *hull.Result) (*Picture, error) {
 		if k < len(r.Angles) {
 			reported = fmt.Sprintf("\nreported θ%d = %.6f ± %.2g (folded)", k+1, r.Angles[k], r.AngleUncertainty[k])
 		}
+		runs = max(runs, l.Runs)
 		p := newPanel(fmt.Sprintf("φ%d lifted: slope %.6f turns/site%s", k+1, l.Slope, reported), "site index", fmt.Sprintf("lifted φ%d (turns)", k+1))
 		xy := make(plotter.XYs, len(l.Site))
 		res := make(plotter.XYs, len(l.Site))
@@ -130,21 +136,16 @@ func Angle(r *hull.Result) (*Picture, error) {
 		if err != nil {
 			return nil, fmt.Errorf("angle %d: %w", k+1, err)
 		}
-		s.GlyphStyle = draw.GlyphStyle{Color: Tidewater.Blue, Radius: vg.Points(1.2), Shape: draw.CircleGlyph{}}
+		s.GlyphStyle = vec
 		p.Add(s)
 		x0, x1 := l.Site[0], l.Site[len(l.Site)-1]
-		p.Legend.Add("vectors", s)
 		for i, j := 0, 0; i < len(l.Site); i = j {
 			for j = i + 1; j < len(l.Site) && l.Site[j]-l.Site[j-1] == 1; j++ {
 			}
 			fit, _ := plotter.NewLine(plotter.XYs{{X: l.Site[i], Y: l.Fit[i]}, {X: l.Site[j-1], Y: l.Fit[j-1]}})
-			fit.Color, fit.Width = Tidewater.Rust, vg.Points(1)
+			fit.LineStyle = fitStyle
 			p.Add(fit)
-			if i == 0 {
-				p.Legend.Add(fmt.Sprintf("least squares, common slope (runs: %d)", l.Runs), fit)
-			}
 		}
-		p.Legend.Top = l.Slope < 0 // the corner the line leaves empty
 		top = append(top, p)
 
 		q := newPanel("residual from the line", "site index", "residual (turns)")
@@ -152,19 +153,24 @@ func Angle(r *hull.Result) (*Picture, error) {
 		if err != nil {
 			return nil, fmt.Errorf("angle %d: %w", k+1, err)
 		}
-		rs.GlyphStyle = draw.GlyphStyle{Color: Tidewater.Pine, Radius: vg.Points(1.2), Shape: draw.CircleGlyph{}}
+		rs.GlyphStyle = resid
 		q.Add(rs)
 		zero, _ := plotter.NewLine(plotter.XYs{{X: x0, Y: 0}, {X: x1, Y: 0}})
-		zero.Color = Tidewater.Ink
+		zero.Color, zero.Width = Tidewater.Ink, vg.Points(0.6)
 		q.Add(zero)
 		bottom = append(bottom, q)
 	}
 	return &Picture{
 		Name:   "angle",
 		Width:  6 * vg.Inch,
-		Height: 4 * vg.Inch,
-		title:  fmt.Sprintf("%s — step angle from the circular coordinate", r.Source),
+		Height: 4.6 * vg.Inch,
+		title:  fmt.Sprintf("%s — step angle from the circular coordinate", filepath.Base(r.Source)),
 		panels: [][]*plot.Plot{top, bottom},
+		key: []keyItem{
+			entry{label: "delay vector", thumbs: []plot.Thumbnailer{&plotter.Scatter{GlyphStyle: vec}}},
+			entry{label: fmt.Sprintf("least squares: one slope, one intercept per run (%d runs)", runs), thumbs: []plot.Thumbnailer{&plotter.Line{LineStyle: fitStyle}}},
+			entry{label: "residual", thumbs: []plot.Thumbnailer{&plotter.Scatter{GlyphStyle: resid}}},
+		},
 		Caption: "The circular coordinate of each delay vector, unwrapped along the chain, against site index; the slope of the " +
 			"least-squares lines (one slope, one intercept per run of consecutive vectors) is the step angle before folding into [0, ½] (the reported angle is refined on the positions). " +
 			"The residual panel shows what the line does not explain.",

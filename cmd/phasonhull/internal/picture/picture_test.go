@@ -14,7 +14,6 @@ import (
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
 	"phasonhull/topology/hull"
-	"phasonhull/topology/spectrum"
 )
 
 const demo = "../../../../testdata/demo/lw0412_cmm.csv"
@@ -229,23 +228,7 @@ func TestParseFormat(t *testing.T) {
 // (1, −1) and (−1, 2) — IDS 1 − θ ≈ 0.382 and 2θ − 1 ≈ 0.236 (closed form
 // of the gap-labelling theorem for Z + Zθ).
 func TestSpectrumPicture(t *testing.T) {
-	x := make([]float64, 400)
-	for i := range x {
-		x[i] = float64(i)
-	}
-	p, err := pattern.New(x, "", "lattice")
-	if err != nil {
-		t.Fatal(err)
-	}
-	theta := (math.Sqrt(5) - 1) / 2
-	op, err := spectrum.New(p, spectrum.Model{OnSite: spectrum.OnSite{Lambda: 1, Theta: theta, Phase: 0.1}})
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := spectrum.Analyze(op, spectrum.Options{Angles: []float64{theta}, MinGap: 0.05, Method: spectrum.Values})
-	if err != nil {
-		t.Fatal(err)
-	}
+	res, _ := mathieu(t)
 	labelled := 0
 	for _, g := range res.Gaps {
 		if g.Label != nil {

@@ -1,29 +1,21 @@
-// Package picture draws the figures of a hull analysis and of an audit:
-// projections of the delay cloud, barcodes and persistence diagrams, the
-// lifted circular coordinate against site index, and residuals along the
-// chain. It is presentation only: every number it draws was computed by
-// the analysis packages.
 package picture
 
 import (
-	"bytes"
-	"fmt"
 	"image/color"
-	"io"
 	"math"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
+	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
-	"gonum.org/v1/plot/vg/vgsvg"
 )
 
-// Tidewater is the palette every figure draws from: six colours chosen to
-// stay apart in lightness as well as hue, so that they remain distinct
-// under the common colour-vision deficiencies (red–green and blue–yellow)
-// and in greyscale print. Ink is for text, axes and reference lines.
+// Tidewater is the house palette every figure draws from: six colours
+// chosen to stay apart in lightness as well as hue, so that they remain
+// distinct under the common colour-vision deficiencies (red–green and
+// blue–yellow) and in greyscale print. Ink is for text, axes and
+// reference lines. The HTML report uses the same colours.
 var Tidewater = struct {
 	Ink, Blue, Amber, Sky, Rust, Pine, Plum color.RGBA
 }{
@@ -36,17 +28,88 @@ var Tidewater = struct {
 	Plum:  color.RGBA{0xa0, 0x4e, 0x96, 0xff},
 }
 
-// dimColour is the colour of homology dimension d in barcodes and diagrams.
-func dimColour(d int) color.RGBA {
+// The Tidewater text sizes, in points. A figure is 6 inches wide at 150
+// dpi; shown 800 pixels wide, a point is 1.8 pixels, so the smallest text
+// (tick labels, 8 pt) stands about 14 pixels tall.
+const (
+	sizeTitle = 11
+	sizePanel = 9.5
+	sizeAxis  = 9
+	sizeTick  = 8
+	sizeKey   = 8.5
+	sizeNote  = 8
+)
+
+// houseFont is the one face of every text: Liberation Sans, the
+// sans-serif family of the font collection the plotting library embeds.
+func houseFont(size vg.Length) font.Font {
+	return font.Font{Typeface: "Liberation", Variant: "Sans", Size: size}
+}
+
+// textStyle is a house text style of the given size and colour.
+func textStyle(size vg.Length, c color.Color) text.Style {
+	return text.Style{Color: c, Font: houseFont(size), Handler: plot.DefaultTextHandler}
+}
+
+// Mark is how one homology dimension is drawn in barcodes and persistence
+// diagrams: its colour and its glyph.
+type Mark struct {
+	Colour color.RGBA
+	Shape  draw.GlyphDrawer
+	// Name is the glyph's name, for captions and the key.
+	Name string
+}
+
+// TidewaterMarks are the marks of the homology dimensions in every
+// barcode and persistence diagram: H0 blue squares, H1 rust diamonds, H2
+// pine hexagons, higher dimensions plum squares set on a corner… each a
+// filled shape of its own colour, so that a dimension reads from its
+// colour and, in greyscale, from its outline.
+func TidewaterMarks(d int) Mark {
 	switch d {
 	case 0:
-		return Tidewater.Ink
+		return Mark{Tidewater.Blue, draw.BoxGlyph{}, "square"}
 	case 1:
-		return Tidewater.Blue
+		return Mark{Tidewater.Rust, diamondGlyph{}, "diamond"}
 	case 2:
-		return Tidewater.Amber
+		return Mark{Tidewater.Pine, hexagonGlyph{}, "hexagon"}
 	}
-	return Tidewater.Plum
+	return Mark{Tidewater.Plum, diamondGlyph{}, "diamond"}
+}
+
+// diamondGlyph is a filled square standing on a corner.
+type diamondGlyph struct{}
+
+// DrawGlyph implements draw.GlyphDrawer.
+func (diamondGlyph) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
+	fillPolygon(c, sty, pt, 4, math.Pi/2, 1.3)
+}
+
+// hexagonGlyph is a filled regular hexagon with a flat top.
+type hexagonGlyph struct{}
+
+// DrawGlyph implements draw.GlyphDrawer.
+func (hexagonGlyph) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
+	fillPolygon(c, sty, pt, 6, 0, 1.1)
+}
+
+// fillPolygon fills the regular n-gon about pt with its first corner at
+// angle a0 and its corners at scale × the glyph radius.
+func fillPolygon(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point, n int, a0, scale float64) {
+	c.SetColor(sty.Color)
+	r := float64(sty.Radius) * scale
+	var p vg.Path
+	for k := 0; k < n; k++ {
+		a := a0 + 2*math.Pi*float64(k)/float64(n)
+		q := vg.Point{X: pt.X + vg.Length(r*math.Cos(a)), Y: pt.Y + vg.Length(r*math.Sin(a))}
+		if k == 0 {
+			p.Move(q)
+		} else {
+			p.Line(q)
+		}
+	}
+	p.Close()
+	c.Fill(p)
 }
 
 // cyclicStops is the closed loop of palette colours the circular
@@ -71,126 +134,44 @@ func faded(c color.RGBA, a float64) color.RGBA {
 	return color.RGBA{m(c.R), m(c.G), m(c.B), m(c.A)}
 }
 
-// Format is an image encoding of a picture.
-type Format string
+// dashed is the dash pattern of reference lines.
+var dashed = []vg.Length{vg.Points(4), vg.Points(2.5)}
 
-// The encodings Encode writes.
-const (
-	PNG Format = "png"
-	SVG Format = "svg"
-)
-
-// ParseFormat reads a format name.
-func ParseFormat(s string) (Format, error) {
-	switch Format(s) {
-	case PNG, SVG:
-		return Format(s), nil
-	}
-	return "", fmt.Errorf("picture format %q: want png or svg", s)
-}
-
-// DPI is the resolution of PNG pictures.
-const DPI = 150
-
-// Picture is one figure: a grid of panels drawn on one page.
-type Picture struct {
-	// Name is the file name stem, such as "hull-projections".
-	Name string
-	// Caption says in one sentence what the figure shows.
-	Caption string
-	// Width and Height are the page size.
-	Width, Height vg.Length
-
-	title  string
-	panels [][]*plot.Plot // rows of panels; nil entries are left blank
-}
-
-// Pixels returns the size of the PNG encoding in pixels.
-func (p *Picture) Pixels() (w, h int) {
-	return int(p.Width.Dots(DPI) + 0.5), int(p.Height.Dots(DPI) + 0.5)
-}
-
-// Encode writes the picture to w in format f.
-func (p *Picture) Encode(w io.Writer, f Format) error {
-	var c vg.CanvasWriterTo
-	switch f {
-	case PNG:
-		c = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(p.Width, p.Height), vgimg.UseDPI(DPI),
-			vgimg.UseBackgroundColor(color.White))}
-	case SVG:
-		s := vgsvg.New(p.Width, p.Height)
-		s.SetColor(color.White)
-		s.Fill(rectPath(p.Width, p.Height))
-		c = s
-	default:
-		return fmt.Errorf("picture %s: unknown format %q", p.Name, f)
-	}
-	dc := draw.New(c)
-	if p.title != "" {
-		sty := draw.TextStyle{Color: Tidewater.Ink, Font: font.From(plot.DefaultFont, 11), XAlign: draw.XCenter, YAlign: draw.YTop, Handler: plot.DefaultTextHandler}
-		dc.FillText(sty, vg.Point{X: dc.Center().X, Y: dc.Max.Y - vg.Points(4)}, p.title)
-		dc.Max.Y -= sty.Height(p.title) + vg.Points(8)
-	}
-	rows, cols := len(p.panels), 0
-	for _, r := range p.panels {
-		cols = max(cols, len(r))
-	}
-	grid := make([][]*plot.Plot, rows)
-	for i, r := range p.panels {
-		grid[i] = make([]*plot.Plot, cols)
-		copy(grid[i], r)
-	}
-	tiles := draw.Tiles{Rows: rows, Cols: cols, PadX: vg.Points(6), PadY: vg.Points(6),
-		PadTop: vg.Points(2), PadBottom: vg.Points(2), PadLeft: vg.Points(2), PadRight: vg.Points(6)}
-	canvases := plot.Align(grid, tiles, dc)
-	for i := range grid {
-		for j, pl := range grid[i] {
-			if pl != nil {
-				pl.Draw(canvases[i][j])
-			}
-		}
-	}
-	if _, err := c.WriteTo(w); err != nil {
-		return fmt.Errorf("picture %s: %w", p.Name, err)
-	}
-	return nil
-}
-
-// Bytes returns the picture encoded in format f.
-func (p *Picture) Bytes(f Format) ([]byte, error) {
-	var b bytes.Buffer
-	if err := p.Encode(&b, f); err != nil {
-		return nil, err
-	}
-	return b.Bytes(), nil
-}
-
-func rectPath(w, h vg.Length) vg.Path {
-	var r vg.Path
-	r.Move(vg.Point{})
-	r.Line(vg.Point{X: w})
-	r.Line(vg.Point{X: w, Y: h})
-	r.Line(vg.Point{Y: h})
-	r.Close()
-	return r
-}
-
-// newPanel returns an empty panel in the house style.
+// newPanel returns an empty panel in the house style. Panels never carry
+// a legend of their own: what a mark means goes in the picture's key.
 func newPanel(title, x, y string) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = title
-	p.Title.TextStyle.Font.Size = 9
-	p.Title.TextStyle.Color = Tidewater.Ink
+	p.Title.TextStyle = textStyle(sizePanel, Tidewater.Ink)
+	p.Title.TextStyle.XAlign, p.Title.TextStyle.YAlign = draw.XCenter, draw.YTop
+	p.Title.Padding = vg.Points(4)
 	for _, a := range []*plot.Axis{&p.X, &p.Y} {
-		a.Label.TextStyle.Font.Size = 8
-		a.Label.TextStyle.Color = Tidewater.Ink
-		a.Tick.Label.Font.Size = 7
-		a.Tick.Label.Color = Tidewater.Ink
+		rot := a.Label.TextStyle.Rotation
+		a.Label.TextStyle = textStyle(sizeAxis, Tidewater.Ink)
+		a.Label.TextStyle.Rotation = rot
+		a.Label.TextStyle.XAlign, a.Label.TextStyle.YAlign = draw.XCenter, draw.YBottom
+		xa, ya := a.Tick.Label.XAlign, a.Tick.Label.YAlign
+		a.Tick.Label = textStyle(sizeTick, Tidewater.Ink)
+		a.Tick.Label.XAlign, a.Tick.Label.YAlign = xa, ya
 		a.LineStyle.Color = Tidewater.Ink
 		a.Tick.LineStyle.Color = Tidewater.Ink
+		a.Tick.Length = vg.Points(5)
 	}
 	p.X.Label.Text, p.Y.Label.Text = x, y
-	p.Legend.TextStyle.Font.Size = 7
-	p.Legend.Top = true
+	p.Legend.TextStyle = textStyle(sizeKey, Tidewater.Ink)
 	return p
+}
+
+// thinRing is an open circle drawn with a hairline, for marks that sit
+// over coloured points without hiding them.
+type thinRing struct{}
+
+// DrawGlyph implements draw.GlyphDrawer.
+func (thinRing) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
+	c.SetLineStyle(draw.LineStyle{Color: sty.Color, Width: vg.Points(0.45)})
+	var p vg.Path
+	p.Move(vg.Point{X: pt.X + sty.Radius, Y: pt.Y})
+	p.Arc(pt, sty.Radius, 0, 2*math.Pi)
+	p.Close()
+	c.Stroke(p)
 }

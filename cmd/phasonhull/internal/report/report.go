@@ -224,7 +224,7 @@ var page = template.Must(template.New("report").Funcs(template.FuncMap{"ints": i
 <meta charset="utf-8">
 <title>Hull report — {{.R.Source}}</title>
 <style>
-body { font: 15px/1.45 system-ui, sans-serif; color: #222228; margin: 2em auto; max-width: 62em; padding: 0 1em; }
+body { font: 15px/1.45 "Liberation Sans", Arimo, Arial, Helvetica, sans-serif; color: #222228; margin: 2em auto; max-width: 62em; padding: 0 1em; }
 h1 { font-size: 1.5em; border-bottom: 3px solid #1d4f91; padding-bottom: .2em; }
 h2 { font-size: 1.15em; color: #1d4f91; margin-top: 1.6em; }
 table { border-collapse: collapse; margin: .5em 0; }
