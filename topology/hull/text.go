@@ -173,27 +173,18 @@ func (r *Result) writeLabels(b *strings.Builder, all bool) {
 	if len(g.Labels) == 0 {
 		return
 	}
-	// One uncertainty per angle the coefficients multiply; none for a
-	// period (exact) or the factor frequencies of a word (not measured).
-	var sigma []float64
-	if len(r.AngleUncertainty) == len(g.Labels[0].Coeffs)-1 {
-		sigma = r.AngleUncertainty
-	}
 	type row struct{ ids, pm, coeffs, flag string }
 	rows := []row{{ids: "IDS", coeffs: "coefficients"}}
 	blurred := false
-	listed := topology.List(g.Labels, sigma)
+	listed := r.ListLabels()
 	if !all && len(listed) > labelsShown {
 		listed = listed[:labelsShown]
 	}
 	for _, l := range listed {
-		rw := row{ids: fmt.Sprintf("%.6f", l.IDS), coeffs: l.CoeffString()}
-		switch {
-		case sigma != nil:
-			v, u := notation.Rounded(l.IDS, l.Uncertainty)
-			rw.ids, rw.pm = v, "± "+u
-		case h.Class == Finite:
-			rw.ids = fmt.Sprintf("%d/%d", int(math.Round(l.IDS*float64(h.Period))), h.Period)
+		rw := row{coeffs: l.CoeffString()}
+		var u string
+		if rw.ids, u = r.LabelIDS(l); u != "" {
+			rw.pm = "± " + u
 		}
 		if l.Blurred {
 			rw.flag, blurred = " ?", true
@@ -223,6 +214,34 @@ func (r *Result) writeLabels(b *strings.Builder, all bool) {
 	if blurred {
 		fmt.Fprintf(b, "            ? uncertain by more than half the distance to the nearest label: a gap there may carry either\n")
 	}
+}
+
+// ListLabels returns the gap labels as the text and the report list them:
+// lowest order first, each with the uncertainty of its IDS from the
+// angles' uncertainties and whether it is blurred with its nearest
+// neighbour (topology.List). A period's labels are exact; those of the
+// factor frequencies of a word carry no uncertainty (none is measured).
+func (r *Result) ListLabels() []topology.Listed {
+	g := r.GapLabels
+	var sigma []float64
+	if len(g.Labels) > 0 && len(r.AngleUncertainty) == len(g.Labels[0].Coeffs)-1 {
+		sigma = r.AngleUncertainty
+	}
+	return topology.List(g.Labels, sigma)
+}
+
+// LabelIDS writes the IDS of a label of ListLabels as the text and the
+// report do: to the digits its uncertainty justifies, with that
+// uncertainty (notation.Rounded) when the angles were measured; as k/p
+// for a finite hull; with six decimals (and no uncertainty) otherwise.
+func (r *Result) LabelIDS(l topology.Listed) (value, uncertainty string) {
+	switch h := r.Hull; {
+	case h.Class == Finite && h.Period > 1:
+		return fmt.Sprintf("%d/%d", int(math.Round(l.IDS*float64(h.Period))), h.Period), ""
+	case len(r.AngleUncertainty) == len(l.Coeffs)-1:
+		return notation.Rounded(l.IDS, l.Uncertainty)
+	}
+	return fmt.Sprintf("%.6f", l.IDS), ""
 }
 
 // floats writes numbers with 10 significant digits, comma-separated.
