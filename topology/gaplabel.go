@@ -4,8 +4,8 @@ import (
 	"cmp"
 	"math"
 	"slices"
-	"strconv"
-	"strings"
+
+	"phasonhull/internal/notation"
 )
 
 // labelTol is the distance below which two integrated densities of states
@@ -36,14 +36,63 @@ type Label struct {
 	Coeffs []int `json:"coeffs"`
 }
 
-// CoeffString writes the coefficients as the reports print them:
-// "(n, m)", "(n, m1, m2)".
-func (l Label) CoeffString() string {
-	s := make([]string, len(l.Coeffs))
-	for i, c := range l.Coeffs {
-		s[i] = strconv.Itoa(c)
+// CoeffString writes the coefficients as every text, page and figure
+// writes them: "(n, m)", "(n, m1, m2)".
+func (l Label) CoeffString() string { return notation.Tuple(l.Coeffs) }
+
+// Order is the order of the label, Σ|m_i| over its angle coefficients:
+// the smaller, the wider the gap it tends to label.
+func (l Label) Order() int { return absSum(l.Coeffs[1:]) }
+
+// Uncertainty is the standard uncertainty of the label's IDS, Σ|m_i|·σ_i,
+// from the uncertainties sigma of the angles its coefficients multiply.
+// It is 0 when sigma does not give one per angle.
+func (l Label) Uncertainty(sigma []float64) float64 {
+	if len(sigma) != len(l.Coeffs)-1 {
+		return 0
 	}
-	return "(" + strings.Join(s, ", ") + ")"
+	var u float64
+	for i, m := range l.Coeffs[1:] {
+		u += float64(abs(m)) * sigma[i]
+	}
+	return u
+}
+
+// Listed is a label as a report lists it: with the uncertainty of its
+// IDS, and whether that uncertainty blurs it with its nearest neighbour.
+type Listed struct {
+	Label
+	// Uncertainty is Label.Uncertainty of the angles' uncertainties.
+	Uncertainty float64
+	// Blurred is set when Uncertainty is more than half the distance
+	// to the nearest other label: a gap at this IDS could as well carry
+	// that label.
+	Blurred bool
+}
+
+// List returns labels as a report lists them: lowest order first, then by
+// IDS, each with its uncertainty from the angles' uncertainties sigma (nil
+// when they are exact or unknown) and whether it is Blurred with its
+// nearest neighbour among labels.
+func List(labels []Label, sigma []float64) []Listed {
+	byIDS := slices.Clone(labels)
+	slices.SortFunc(byIDS, func(x, y Label) int { return cmp.Compare(x.IDS, y.IDS) })
+	out := make([]Listed, len(labels))
+	for i, l := range labels {
+		u := l.Uncertainty(sigma)
+		gap := math.Inf(1)
+		j, _ := slices.BinarySearchFunc(byIDS, l.IDS, func(x Label, ids float64) int { return cmp.Compare(x.IDS, ids) })
+		for _, k := range []int{j - 1, j + 1} {
+			if k >= 0 && k < len(byIDS) {
+				gap = min(gap, math.Abs(byIDS[k].IDS-l.IDS))
+			}
+		}
+		out[i] = Listed{Label: l, Uncertainty: u, Blurred: u > gap/2}
+	}
+	slices.SortStableFunc(out, func(x, y Listed) int {
+		return cmp.Or(cmp.Compare(x.Order(), y.Order()), cmp.Compare(x.IDS, y.IDS))
+	})
+	return out
 }
 
 // Labels lists the gap labels n + m1·θ1 (+ m2·θ2 ...) that fall strictly

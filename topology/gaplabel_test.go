@@ -188,3 +188,57 @@ func TestCoeffString(t *testing.T) {
 		}
 	}
 }
+
+// List puts the labels of lowest order first, carries each IDS's
+// uncertainty Σ|m_i|·σ_i, and blurs exactly the labels whose uncertainty
+// exceeds half the distance to their nearest neighbour.
+func TestList(t *testing.T) {
+	theta, sigma := 0.2763, 0.0015
+	labels := Labels([]float64{theta}, 12)
+	got := List(labels, []float64{sigma})
+	if len(got) != len(labels) {
+		t.Fatalf("%d listed, want %d", len(got), len(labels))
+	}
+	for i := 1; i < len(got); i++ {
+		a, b := got[i-1], got[i]
+		if a.Order() > b.Order() || (a.Order() == b.Order() && a.IDS >= b.IDS) {
+			t.Errorf("rows %d and %d out of order: %v (order %d) before %v (order %d)", i-1, i, a.Label, a.Order(), b.Label, b.Order())
+		}
+	}
+	if got[0].Order() != 1 || got[0].IDS != theta {
+		t.Errorf("first row %v, want (0, 1) at θ", got[0].Label)
+	}
+	blurred := 0
+	for _, l := range got {
+		m := l.Coeffs[1]
+		if m < 0 {
+			m = -m
+		}
+		if want := float64(m) * sigma; math.Abs(l.Uncertainty-want) > 1e-15 {
+			t.Errorf("%v: uncertainty %g, want %g", l.Label, l.Uncertainty, want)
+		}
+		near := math.Inf(1)
+		for _, o := range labels {
+			if o.IDS != l.IDS {
+				near = min(near, math.Abs(o.IDS-l.IDS))
+			}
+		}
+		if want := l.Uncertainty > near/2; l.Blurred != want {
+			t.Errorf("%v: blurred %v, want %v (uncertainty %g, neighbour at %g)", l.Label, l.Blurred, want, l.Uncertainty, near)
+		}
+		if l.Blurred {
+			blurred++
+		}
+	}
+	// At this uncertainty the order-12 labels (±0.018) are blurred, the
+	// order-1 ones (±0.0015) are not: the test sees both kinds.
+	if blurred == 0 || got[0].Blurred {
+		t.Errorf("%d blurred, first row blurred %v: want some, not the first", blurred, got[0].Blurred)
+	}
+	// Exact angles: no uncertainty, nothing blurred.
+	for _, l := range List(labels, nil) {
+		if l.Uncertainty != 0 || l.Blurred {
+			t.Errorf("%v with exact angles: uncertainty %g, blurred %v", l.Label, l.Uncertainty, l.Blurred)
+		}
+	}
+}

@@ -12,6 +12,7 @@ import (
 	"strings"
 	"testing"
 
+	"phasonhull/internal/notation"
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
 	"phasonhull/topology/audit"
@@ -264,12 +265,16 @@ func TestWriteText(t *testing.T) {
 	d := readDesign(t, "design.json")
 	p, extra := defects{offset: 2500, scale: 1 + 3e-4, missing: []int{0, 77, 78}, displaced: map[int]float64{120: 30}, extraAfter: []int{150}}.build(t, d)
 	var b bytes.Buffer
-	if err := run(t, d, p, audit.Options{}).WriteText(&b); err != nil {
+	rep := run(t, d, p, audit.Options{})
+	if err := rep.WriteText(&b); err != nil {
 		t.Fatal(err)
 	}
 	out := b.String()
+	// The calibration and the angles to the digits their uncertainties justify.
+	calib := "calibration offset " + notation.PlusMinus(*rep.Offset, *rep.OffsetErr) + " nm, scale " + notation.PlusMinus(*rep.Scale, *rep.ScaleErr) + " ("
+	theta := "sample: " + string(rep.Hull.Measured.Hull.Class) + ", θ = " + notation.PlusMinus(rep.Hull.Measured.Angles[0], rep.Hull.Measured.AngleUncertainty[0]) + ","
 	for _, want := range []string{"design #0 ", "design #77 ", "design #78 ", "measured #" + strconv.Itoa(extra[0]) + " ",
-		"design #120 (measured #", "scale 1.000", "verdict     FAIL: 3 design site(s) missing, 0 allowed; 1 extra measured site(s), 0 allowed\n"} {
+		"design #120 (measured #", calib, theta, "verdict     FAIL: 3 design site(s) missing, 0 allowed; 1 extra measured site(s), 0 allowed\n"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("text report lacks %q:\n%s", want, out)
 		}

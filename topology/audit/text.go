@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"phasonhull/internal/notation"
 	"phasonhull/topology/hull"
 )
 
@@ -29,11 +30,15 @@ func (r *Report) WriteText(w io.Writer) error {
 		fmt.Fprintf(&b, "sites       %d, %d in the hull model, %d left out as spurious\n", r.MeasuredSites, r.Matched, len(r.Extra))
 	}
 	if r.Scale != nil {
-		fmt.Fprintf(&b, "calibration offset %.6g ± %.2g%s, scale %.9g ± %.2g (%+.1f ± %.1f ppm)\n",
-			*r.Offset, *r.OffsetErr, u, *r.Scale, *r.ScaleErr, (math.Abs(*r.Scale)-1)*1e6, *r.ScaleErr*1e6)
+		ppm := notation.PlusMinus((math.Abs(*r.Scale)-1)*1e6, *r.ScaleErr*1e6)
+		if !strings.HasPrefix(ppm, "-") {
+			ppm = "+" + ppm
+		}
+		fmt.Fprintf(&b, "calibration offset %s%s, scale %s (%s ppm)\n",
+			notation.PlusMinus(*r.Offset, *r.OffsetErr), u, notation.PlusMinus(*r.Scale, *r.ScaleErr), ppm)
 		if r.Drift != nil {
-			fmt.Fprintf(&b, "            drift %.4g ± %.2g: the local scale goes from %.9g at the first design site to %.9g at the last\n",
-				*r.Drift, *r.DriftErr, *r.Scale, *r.Scale*(1+2**r.Drift))
+			fmt.Fprintf(&b, "            drift %s: the local scale goes from %.9g at the first design site to %.9g at the last\n",
+				notation.PlusMinus(*r.Drift, *r.DriftErr), *r.Scale, *r.Scale*(1+2**r.Drift))
 			fmt.Fprintf(&b, "            x = offset + scale·d + scale·drift·(d − d0)²/span\n")
 		} else {
 			fmt.Fprintf(&b, "            x = offset + scale·d (--fit-drift fits a drift of the scale too)\n")
@@ -164,7 +169,7 @@ func hullLine(r *hull.Result) string {
 		if len(r.Angles) > 1 {
 			sub = strconv.Itoa(i + 1)
 		}
-		s += fmt.Sprintf(", θ%s = %.9f ± %.2g", sub, a, r.AngleUncertainty[i])
+		s += fmt.Sprintf(", θ%s = %s", sub, notation.PlusMinus(a, r.AngleUncertainty[i]))
 	}
 	if r.Disorder != nil {
 		s += fmt.Sprintf(", disorder %.3g of the mean spacing", r.Disorder.Relative)

@@ -3,9 +3,13 @@ package hull
 import (
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
-	"text/tabwriter"
+	"unicode/utf8"
+
+	"phasonhull/internal/notation"
+	"phasonhull/topology"
 )
 
 // labelsShown bounds the gap labels WriteText lists unless asked for all.
@@ -15,10 +19,15 @@ const labelsShown = 12
 const barsShown = 6
 
 // WriteText writes the result for a reader, as "phasonhull analyze"
-// prints it: the pattern, the class with its Betti numbers and reason,
-// the angle(s), the gap-label group and its first labels (every label
-// when allLabels is set; the JSON form always lists all), the embedding,
-// the significant barcodes, the notes and the warnings.
+// prints it: the pattern, the class with its Betti numbers (for the
+// classes read off barcodes) and reason, the tiles of a tiling, the
+// angle(s), the disorder with its model, the gap-label group and its
+// first labels, lowest order first (every label when allLabels is set;
+// the JSON form always lists all, by IDS), the embedding, the significant
+// barcodes, the notes and the warnings. Every value with an uncertainty
+// is written to the digits it justifies (notation.PlusMinus); a label
+// whose IDS is uncertain by more than half the distance to its nearest
+// neighbour is marked "?".
 func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	var b strings.Builder
 	unit := r.Unit
@@ -31,20 +40,26 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	if h.Period > 0 {
 		fmt.Fprintf(&b, ", period %d", h.Period)
 	}
-	fmt.Fprintf(&b, " (Betti %s, confidence %.2f)\n", ints(h.Betti), h.Confidence)
+	if len(h.Betti) > 0 {
+		// Classes not read off barcodes (cantor, disordered) have none.
+		fmt.Fprintf(&b, " (Betti %s, confidence %.2f)", notation.Tuple(h.Betti), h.Confidence)
+	}
+	b.WriteString("\n")
 	fmt.Fprintf(&b, "            %s\n", h.Reason)
+	r.writeTiles(&b)
 	switch len(r.Angles) {
 	case 0:
 	case 1:
-		fmt.Fprintf(&b, "angle       θ = %.9f ± %.2g turns (folded into [0, 1/2])\n", r.Angles[0], r.AngleUncertainty[0])
+		fmt.Fprintf(&b, "angle       θ = %s turns (folded into [0, 1/2])\n", notation.PlusMinus(r.Angles[0], r.AngleUncertainty[0]))
 	default:
 		for i, a := range r.Angles {
-			fmt.Fprintf(&b, "angle %d     θ%d = %.9f ± %.2g turns\n", i+1, i+1, a, r.AngleUncertainty[i])
+			fmt.Fprintf(&b, "angle %d     θ%d = %s turns\n", i+1, i+1, notation.PlusMinus(a, r.AngleUncertainty[i]))
 		}
 	}
 	if r.AngleMethod != "" {
 		fmt.Fprintf(&b, "            %s\n", r.AngleMethod)
 	}
+	r.writeDisorder(&b)
 	r.writeLabels(&b, allLabels)
 	e := r.Embedding
 	fmt.Fprintf(&b, "embedding   window %d, %d component(s), %d vectors", e.Window, e.Components, e.Vectors)
@@ -85,16 +100,69 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	return err
 }
 
-// writeLabels writes the gap-label group and its first labels.
+// writeTiles writes the tiles of a chain read as a tiling and the class
+// of its word.
+func (r *Result) writeTiles(b *strings.Builder) {
+	t := r.Tiles
+	if t == nil {
+		return
+	}
+	unit := ""
+	if r.Unit != "" {
+		unit = " " + r.Unit
+	}
+	tiles := make([]string, len(t.Lengths))
+	for i, l := range t.Lengths {
+		tiles[i] = fmt.Sprintf("%c = %.6g%s (%d)", []rune(t.Letters)[i], l, unit, t.Counts[i])
+	}
+	fmt.Fprintf(b, "tiles       %s", strings.Join(tiles, ", "))
+	if t.Missing > 0 {
+		fmt.Fprintf(b, "; %d spacing(s) read as two tiles with a site missing", t.Missing)
+	}
+	fmt.Fprintf(b, "\n            word %s", t.WordClass)
+	if n := len(t.Complexity); n > 0 {
+		fmt.Fprintf(b, ", complexity p(%d) = %d", n, t.Complexity[n-1])
+	}
+	if t.ModuleRank > 0 {
+		fmt.Fprintf(b, ", factor frequencies of rank %d", t.ModuleRank)
+	}
+	b.WriteString("\n")
+}
+
+// writeDisorder writes the scatter of the sites about the model of the
+// hull, and what the delay cloud showed of it when that was measured.
+func (r *Result) writeDisorder(b *strings.Builder) {
+	d := r.Disorder
+	if d == nil {
+		return
+	}
+	unit := ""
+	if r.Unit != "" {
+		unit = " " + r.Unit
+	}
+	fmt.Fprintf(b, "disorder    %.3g of the mean spacing (RMS %.3g%s)", d.Relative, d.RMS, unit)
+	if rest, ok := strings.CutPrefix(d.Model, "none: "); ok {
+		fmt.Fprintf(b, ": no model of the hull, %s", rest)
+	} else {
+		fmt.Fprintf(b, " about the model: %s", d.Model)
+	}
+	if d.IntrinsicDimension > 0 {
+		fmt.Fprintf(b, "; mutual information of consecutive spacings %.2g nats, dimension of the delay cloud %.2g", d.MutualInformation, d.IntrinsicDimension)
+	}
+	b.WriteString("\n")
+}
+
+// writeLabels writes the gap-label group and its first labels, lowest
+// order first.
 func (r *Result) writeLabels(b *strings.Builder, all bool) {
 	h, g := r.Hull, r.GapLabels
 	switch {
 	case h.Class == Finite:
 		fmt.Fprintf(b, "gap labels  Z + Z/%d: IDS = k/%d, k = 1..%d\n", h.Period, h.Period, h.Period-1)
 	case len(r.Angles) == 1:
-		fmt.Fprintf(b, "gap labels  Z + Zθ: IDS = n + m·θ in (0, 1), |m| ≤ %d (%d labels)\n", g.MaxCoeff, len(g.Labels))
+		fmt.Fprintf(b, "gap labels  Z + Zθ: IDS = n + m·θ in (0, 1), |m| ≤ %d (%d labels, lowest order first)\n", g.MaxCoeff, len(g.Labels))
 	case len(r.Angles) == 2:
-		fmt.Fprintf(b, "gap labels  Z + Zθ1 + Zθ2: IDS = n + m1·θ1 + m2·θ2 in (0, 1), |m| ≤ %d (%d labels)\n", g.MaxCoeff, len(g.Labels))
+		fmt.Fprintf(b, "gap labels  Z + Zθ1 + Zθ2: IDS = n + m1·θ1 + m2·θ2 in (0, 1), |m| ≤ %d (%d labels, lowest order first)\n", g.MaxCoeff, len(g.Labels))
 	case h.Class == Cantor && len(g.Labels) > 0:
 		fmt.Fprintf(b, "gap labels  the group generated by %s (factor frequencies of the word): %d labels\n", floats(g.Generators), len(g.Labels))
 	case h.Class == Cantor:
@@ -105,25 +173,75 @@ func (r *Result) writeLabels(b *strings.Builder, all bool) {
 	if len(g.Labels) == 0 {
 		return
 	}
-	tw := tabwriter.NewWriter(b, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "            \tIDS\tcoefficients\t\n")
-	for i, l := range g.Labels {
-		if !all && i == labelsShown {
-			fmt.Fprintf(tw, "            \t…\t(%d more; --all-labels or --json)\t\n", len(g.Labels)-labelsShown)
-			break
-		}
-		fmt.Fprintf(tw, "            \t%.6f\t%s\t\n", l.IDS, l.CoeffString())
+	type row struct{ ids, pm, coeffs, flag string }
+	rows := []row{{ids: "IDS", coeffs: "coefficients"}}
+	blurred := false
+	listed := r.ListLabels()
+	if !all && len(listed) > labelsShown {
+		listed = listed[:labelsShown]
 	}
-	tw.Flush()
+	for _, l := range listed {
+		rw := row{coeffs: l.CoeffString()}
+		var u string
+		if rw.ids, u = r.LabelIDS(l); u != "" {
+			rw.pm = "± " + u
+		}
+		if l.Blurred {
+			rw.flag, blurred = " ?", true
+		}
+		rows = append(rows, rw)
+	}
+	// The values right-aligned, their uncertainties left-aligned after
+	// them, the coefficients right-aligned.
+	var w [3]int
+	for _, rw := range rows {
+		for i, c := range []string{rw.ids, rw.pm, rw.coeffs} {
+			w[i] = max(w[i], utf8.RuneCountInString(c))
+		}
+	}
+	pad := func(s string, n int) string { return strings.Repeat(" ", n-utf8.RuneCountInString(s)) }
+	for _, rw := range rows {
+		b.WriteString("            ")
+		b.WriteString(pad(rw.ids, w[0]) + rw.ids)
+		if w[1] > 0 {
+			b.WriteString(" " + rw.pm + pad(rw.pm, w[1]))
+		}
+		b.WriteString("  " + pad(rw.coeffs, w[2]) + rw.coeffs + rw.flag + "\n")
+	}
+	if n := len(g.Labels) - len(listed); n > 0 {
+		fmt.Fprintf(b, "            … %d more, of higher order (--all-labels or --json)\n", n)
+	}
+	if blurred {
+		fmt.Fprintf(b, "            ? uncertain by more than half the distance to the nearest label: a gap there may carry either\n")
+	}
 }
 
-// ints writes integers as "(a, b, c)".
-func ints(v []int) string {
-	s := make([]string, len(v))
-	for i, x := range v {
-		s[i] = strconv.Itoa(x)
+// ListLabels returns the gap labels as the text and the report list them:
+// lowest order first, each with the uncertainty of its IDS from the
+// angles' uncertainties and whether it is blurred with its nearest
+// neighbour (topology.List). A period's labels are exact; those of the
+// factor frequencies of a word carry no uncertainty (none is measured).
+func (r *Result) ListLabels() []topology.Listed {
+	g := r.GapLabels
+	var sigma []float64
+	if len(g.Labels) > 0 && len(r.AngleUncertainty) == len(g.Labels[0].Coeffs)-1 {
+		sigma = r.AngleUncertainty
 	}
-	return "(" + strings.Join(s, ", ") + ")"
+	return topology.List(g.Labels, sigma)
+}
+
+// LabelIDS writes the IDS of a label of ListLabels as the text and the
+// report do: to the digits its uncertainty justifies, with that
+// uncertainty (notation.Rounded) when the angles were measured; as k/p
+// for a finite hull; with six decimals (and no uncertainty) otherwise.
+func (r *Result) LabelIDS(l topology.Listed) (value, uncertainty string) {
+	switch h := r.Hull; {
+	case h.Class == Finite && h.Period > 1:
+		return fmt.Sprintf("%d/%d", int(math.Round(l.IDS*float64(h.Period))), h.Period), ""
+	case len(r.AngleUncertainty) == len(l.Coeffs)-1:
+		return notation.Rounded(l.IDS, l.Uncertainty)
+	}
+	return fmt.Sprintf("%.6f", l.IDS), ""
 }
 
 // floats writes numbers with 10 significant digits, comma-separated.

@@ -4,17 +4,22 @@ import (
 	"fmt"
 	"log"
 	"os"
+	"slices"
 	"strings"
 	"testing"
 
+	"phasonhull/internal/notation"
 	"phasonhull/pattern/design"
+	"phasonhull/topology"
 	"phasonhull/topology/hull"
 )
 
-// The text lists the first labels and says how many more there are;
-// asked for all, it lists every label and no such line.
+// The text lists the labels of lowest order first, each IDS to the digits
+// its uncertainty justifies, and says how many more there are; asked for
+// all, it lists every label and no such line.
 func TestWriteTextLabels(t *testing.T) {
-	p, err := design.Generate(design.Spec{Family: design.Modulated, Sites: 600, Theta: 0.2763, Sin: []float64{0.1}})
+	p, err := design.Generate(design.Spec{Family: design.Modulated, Sites: 600, Theta: 0.2763, Sin: []float64{0.1},
+		Noise: 0.01, Seed: 5})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -22,21 +27,26 @@ func TestWriteTextLabels(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	if len(r.Angles) != 1 || !(r.AngleUncertainty[0] > 1e-9) {
+		t.Fatalf("angles %v ± %v: the test needs one measured angle", r.Angles, r.AngleUncertainty)
+	}
 	n := len(r.GapLabels.Labels)
 	if n <= 12 {
 		t.Fatalf("%d labels: the test needs more than 12", n)
 	}
-	rows := func(text string) int {
-		c := 0
+	// rows returns the labels the text lists, in the order it lists them.
+	rows := func(text string) []topology.Listed {
+		var got []topology.Listed
 		for _, line := range strings.Split(text, "\n") {
-			for _, l := range r.GapLabels.Labels {
-				f := strings.Fields(line)
-				if len(f) >= 2 && f[0] == fmt.Sprintf("%.6f", l.IDS) && strings.Join(f[1:], " ") == l.CoeffString() {
-					c++
+			for _, l := range topology.List(r.GapLabels.Labels, r.AngleUncertainty) {
+				want := "            " + notation.PlusMinus(l.IDS, l.Uncertainty)
+				if c := l.CoeffString(); strings.HasPrefix(strings.TrimLeft(line, " "), strings.TrimLeft(want, " ")) && strings.Contains(line, c) &&
+					strings.HasSuffix(strings.TrimSuffix(line, " ?"), c) {
+					got = append(got, l)
 				}
 			}
 		}
-		return c
+		return got
 	}
 	var short, all strings.Builder
 	if err := r.WriteText(&short, false); err != nil {
@@ -45,21 +55,126 @@ func TestWriteTextLabels(t *testing.T) {
 	if err := r.WriteText(&all, true); err != nil {
 		t.Fatal(err)
 	}
-	if got := rows(short.String()); got != 12 {
-		t.Errorf("short text lists %d labels, want 12", got)
+	shown := rows(short.String())
+	if len(shown) != 12 {
+		t.Errorf("short text lists %d labels, want 12:\n%s", len(shown), short.String())
 	}
-	if want := fmt.Sprintf("(%d more; --all-labels or --json)", n-12); !strings.Contains(short.String(), want) {
+	// The shown labels are those of lowest order, in order of order.
+	for i, l := range shown {
+		if i > 0 && l.Order() < shown[i-1].Order() {
+			t.Errorf("row %d: %v of order %d after one of order %d", i, l.Label, l.Order(), shown[i-1].Order())
+		}
+		for _, o := range r.GapLabels.Labels {
+			if o.Order() < l.Order() && !slices.ContainsFunc(shown, func(s topology.Listed) bool { return s.IDS == o.IDS }) {
+				t.Errorf("%v of order %d left out while %v of order %d is shown", o, o.Order(), l.Label, l.Order())
+			}
+		}
+	}
+	if want := fmt.Sprintf("… %d more, of higher order (--all-labels or --json)", n-12); !strings.Contains(short.String(), want) {
 		t.Errorf("short text lacks %q:\n%s", want, short.String())
 	}
-	if got := rows(all.String()); got != n {
-		t.Errorf("full text lists %d labels, want %d", got, n)
+	if got := rows(all.String()); len(got) != n {
+		t.Errorf("full text lists %d labels, want %d", len(got), n)
 	}
-	if strings.Contains(all.String(), "more;") {
+	if strings.Contains(all.String(), "more, of higher order") {
 		t.Errorf("full text says labels were left out:\n%s", all.String())
 	}
-	for _, want := range []string{"hull        circle (Betti (1, 1, 0)", "gap labels  Z + Zθ: IDS = n + m·θ in (0, 1), |m| ≤ 10"} {
+	for _, want := range []string{
+		"hull        circle (Betti (1, 1, 0)",
+		"gap labels  Z + Zθ: IDS = n + m·θ in (0, 1), |m| ≤ 10",
+		"angle       θ = " + notation.PlusMinus(r.Angles[0], r.AngleUncertainty[0]) + " turns",
+		fmt.Sprintf("disorder    %.3g of the mean spacing", r.Disorder.Relative),
+		"about the model: " + r.Disorder.Model,
+	} {
 		if !strings.Contains(all.String(), want) {
 			t.Errorf("text lacks %q:\n%s", want, all.String())
+		}
+	}
+}
+
+// A label whose IDS is uncertain by more than half the distance to its
+// nearest neighbour is marked, and a legend says what the mark means;
+// without such a label there is neither.
+func TestWriteTextBlurredLabels(t *testing.T) {
+	p, err := design.Generate(design.Spec{Family: design.Modulated, Sites: 25, Theta: 0.2763, Sin: []float64{0.1},
+		Noise: 0.03, Seed: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	legend := "            ? uncertain by more than half the distance to the nearest label"
+	for _, mc := range []int{2, 10} {
+		r, err := hull.Analyze(p, hull.Options{MaxCoeff: mc})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(r.Angles) != 1 {
+			t.Fatalf("%s hull: the test needs one angle", r.Hull.Class)
+		}
+		var b strings.Builder
+		if err := r.WriteText(&b, true); err != nil {
+			t.Fatal(err)
+		}
+		marked := 0
+		for _, line := range strings.Split(b.String(), "\n") {
+			if strings.HasSuffix(line, ") ?") {
+				marked++
+			}
+		}
+		want := 0
+		for _, l := range topology.List(r.GapLabels.Labels, r.AngleUncertainty) {
+			if l.Blurred {
+				want++
+			}
+		}
+		if marked != want {
+			t.Errorf("|m| ≤ %d: %d labels marked, want %d:\n%s", mc, marked, want, b.String())
+		}
+		if got := strings.Contains(b.String(), legend); got != (want > 0) {
+			t.Errorf("|m| ≤ %d: legend shown %v with %d marked labels:\n%s", mc, got, want, b.String())
+		}
+		if mc == 10 && want == 0 {
+			t.Errorf("|m| ≤ 10 at θ ± %.2g: no label marked; the test needs some", r.AngleUncertainty[0])
+		}
+	}
+}
+
+// Classes not read off barcodes print no Betti numbers; a tiling prints
+// its tiles and the class of its word; a chain without a hull model prints
+// the spread of its spacings as its disorder.
+func TestWriteTextCantorAndDisordered(t *testing.T) {
+	for _, c := range []struct {
+		spec  design.Spec
+		class hull.Class
+		want  []string
+	}{
+		{design.Spec{Family: design.Substitution, Sites: 1000, Rule: "fibonacci"}, hull.Cantor,
+			[]string{"hull        cantor\n", "tiles       A = 1 (", "word sturmian, complexity p(", "about the model: ideal tiling of the word"}},
+		{design.Spec{Family: design.Random, Sites: 500, Seed: 7}, hull.Disordered,
+			[]string{"hull        disordered\n", ": no model of the hull, the spread of the spacings; mutual information of consecutive spacings"}},
+	} {
+		p, err := design.Generate(c.spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := hull.Analyze(p, hull.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.Hull.Class != c.class || len(r.Hull.Betti) != 0 {
+			t.Fatalf("%s: class %s, Betti %v; the test needs %s without Betti numbers", c.spec.Family, r.Hull.Class, r.Hull.Betti, c.class)
+		}
+		var b strings.Builder
+		if err := r.WriteText(&b, false); err != nil {
+			t.Fatal(err)
+		}
+		text := b.String()
+		if strings.Contains(text, "Betti") {
+			t.Errorf("%s: text names Betti numbers it does not have:\n%s", c.class, text)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(text, w) {
+				t.Errorf("%s: text lacks %q:\n%s", c.class, w, text)
+			}
 		}
 	}
 }
@@ -81,10 +196,11 @@ func ExampleResult_WriteText() {
 	// pattern     generated: 300 sites, mean spacing 1.06789 (no unit)
 	// hull        finite, period 3 (Betti (3, 0, 0), confidence 1.00)
 	//             the spacings repeat with period 3 up to the measured noise (mean squared difference 1.59e-08 times its noise expectation)
+	// disorder    7.11e-14 of the mean spacing (RMS 7.59e-14) about the model: periodic cell of the lattice
 	// gap labels  Z + Z/3: IDS = k/3, k = 1..2
-	//                      IDS  coefficients
-	//                 0.333333        (0, 1)
-	//                 0.666667       (1, -1)
+	//             IDS  coefficients
+	//             1/3        (0, 1)
+	//             2/3       (1, -1)
 	// embedding   window 12, 2 component(s), 288 vectors, 3 landmarks, cover radius 2.88e-14
 	// note        generated from the periodic family, a repeated cell of spacings, with sites = 300, cell = 1,1.5,0.7, noise = 0, missing = 0, extra = 0, drift = 0, seed = 0
 }

@@ -35,13 +35,13 @@ func ExampleAnalyze() {
 		log.Fatal(err)
 	}
 	for _, g := range res.Gaps {
-		fmt.Printf("IDS %.3f  width %.3f  label n, m = %v\n", g.IDS, g.RelWidth, g.Label.Coeffs)
+		fmt.Printf("IDS %.3f  width %.3f  label (n, m) = %s\n", g.IDS, g.RelWidth, g.Label.CoeffString())
 	}
 	// Output:
-	// IDS 0.235  width 0.064  label n, m = [-1 2]
-	// IDS 0.382  width 0.324  label n, m = [1 -1]
-	// IDS 0.618  width 0.324  label n, m = [0 1]
-	// IDS 0.763  width 0.064  label n, m = [2 -2]
+	// IDS 0.235  width 0.064  label (n, m) = (-1, 2)
+	// IDS 0.382  width 0.324  label (n, m) = (1, -1)
+	// IDS 0.618  width 0.324  label (n, m) = (0, 1)
+	// IDS 0.763  width 0.064  label (n, m) = (2, -2)
 }
 
 // Sweeping the phase of a modulated design through one turn: the states
@@ -94,13 +94,13 @@ func ExampleAnalyzeMeasured() {
 		log.Fatal(err)
 	}
 	for _, g := range res.Gaps {
-		fmt.Printf("IDS %.2f  label %v\n", g.IDS, g.Label.Coeffs)
+		fmt.Printf("IDS %.2f  label %s\n", g.IDS, g.Label.CoeffString())
 	}
 	// Output:
-	// IDS 0.20  label [0 1]
-	// IDS 0.40  label [0 2]
-	// IDS 0.60  label [1 -2]
-	// IDS 0.80  label [1 -1]
+	// IDS 0.20  label (0, 1)
+	// IDS 0.40  label (0, 2)
+	// IDS 0.60  label (1, -2)
+	// IDS 0.80  label (1, -1)
 }
 
 // A report of the almost-Mathieu operator's widest gaps at the golden

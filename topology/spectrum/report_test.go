@@ -182,3 +182,43 @@ func TestWriteScan(t *testing.T) {
 		}
 	}
 }
+
+// On a Fibonacci chain most gaps are of high order: the text names the
+// bound that labels them, and that bound labels as many gaps as it says.
+func TestLargerBound(t *testing.T) {
+	p := generate(t, design.Spec{Family: design.Substitution, Rule: "fibonacci", Sites: 5000, Tiles: map[string]float64{"A": 1.618, "B": 1}})
+	op := build(t, p, Model{Law: Exp{T0: 1, Decay: 2}})
+	theta := (3 - math.Sqrt(5)) / 2 // frequency of B (common practice)
+	report := func(maxCoeff int) *Report {
+		r := NewReport(maxCoeff)
+		r.Source, r.Sites = p.Source, p.Len()
+		opt := r.Label(Labelling{Source: GivenAngles, Angles: []float64{theta}}, Options{MaxCoeff: maxCoeff})
+		r.Spectrum = analyze(t, op, opt)
+		return r
+	}
+	labelled := func(r *Report) int {
+		n := 0
+		for _, g := range r.Spectrum.Gaps {
+			if g.Label != nil {
+				n++
+			}
+		}
+		return n
+	}
+	r := report(DefaultMaxCoeff)
+	now := labelled(r)
+	mc, n, ok := r.LargerBound()
+	if !ok || mc <= DefaultMaxCoeff || n <= now {
+		t.Fatalf("%d gaps, %d labelled at |m| ≤ %d: LargerBound = %d, %d, %v; want a larger bound that labels more", len(r.Spectrum.Gaps), now, DefaultMaxCoeff, mc, n, ok)
+	}
+	if got := labelled(report(mc)); got != n {
+		t.Errorf("--max-coeff %d labels %d gaps, LargerBound said %d", mc, got, n)
+	}
+	var b strings.Builder
+	if err := r.WriteText(&b); err != nil {
+		t.Fatal(err)
+	}
+	if want := "            --max-coeff " + strconv.Itoa(mc) + " would label " + strconv.Itoa(n) + " of them"; !strings.Contains(b.String(), want) {
+		t.Errorf("text lacks %q:\n%s", want, b.String())
+	}
+}

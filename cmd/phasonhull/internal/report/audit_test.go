@@ -23,7 +23,7 @@ func TestAuditOf(t *testing.T) {
 	}
 	want := [][2]string{
 		{"sites", "design 361, measured 360: 360 matched, 1 missing, 0 extra"},
-		{"calibration", "offset 13.41 ± 0.002 mm, scale 1.0000004 ± 1.4e-06"},
+		{"calibration", "offset 13.4100 ± 0.0020 mm, scale 1.0000004 ± 0.0000014"},
 		{"residuals", "rms 0.0079 mm, max 0.0246 mm, robust sigma 0.0087 mm"},
 		{"tolerance", "0.05 mm"},
 		{"outliers", "0"},

@@ -16,6 +16,7 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
+	"phasonhull/internal/notation"
 	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
 )
@@ -137,13 +138,19 @@ type viewModel struct {
 	Audit    *Audit
 	Summary  [][2]string
 	Labels   []labelRow
+	Blurred  bool
 	More     int
 	Figures  []figureView
 	Files    []string
 	Cautions []string
 }
 
-type labelRow struct{ IDS, Coeffs string }
+type labelRow struct {
+	IDS, Coeffs string
+	// Blurred marks an IDS uncertain by more than half the distance to
+	// the nearest label.
+	Blurred bool
+}
 
 type figureView struct {
 	Name, Caption string
@@ -167,36 +174,60 @@ func view(p *Page) viewModel {
 		class += fmt.Sprintf(", period %d", r.Hull.Period)
 	}
 	add("hull", class)
-	add("Betti numbers", fmt.Sprint(r.Hull.Betti))
-	add("confidence", fmt.Sprintf("%.2f (share of landmark subsamples with the same Betti numbers)", r.Hull.Confidence))
+	if len(r.Hull.Betti) > 0 {
+		// Classes not read off barcodes (cantor, disordered) have none.
+		add("Betti numbers", notation.Tuple(r.Hull.Betti))
+		add("confidence", fmt.Sprintf("%.2f (share of landmark subsamples with the same Betti numbers)", r.Hull.Confidence))
+	}
 	if len(r.Hull.ScaleBand) == 2 {
 		add("scale band", fmt.Sprintf("[%.3g, %.3g) whitened units", r.Hull.ScaleBand[0], r.Hull.ScaleBand[1]))
 	}
 	add("reason", r.Hull.Reason)
+	if t := r.Tiles; t != nil {
+		tiles := make([]string, len(t.Lengths))
+		for i, l := range t.Lengths {
+			tiles[i] = fmt.Sprintf("%c = %.6g %s (%d)", []rune(t.Letters)[i], l, r.Unit, t.Counts[i])
+		}
+		add("tiles", fmt.Sprintf("%s; word %s", strings.Join(tiles, ", "), t.WordClass))
+	}
 	for i, a := range r.Angles {
 		name := "angle θ"
 		if len(r.Angles) > 1 {
 			name = fmt.Sprintf("angle θ%d", i+1)
 		}
-		add(name, fmt.Sprintf("%.9f ± %.2g turns (one standard uncertainty; folded into [0, ½])", a, r.AngleUncertainty[i]))
+		add(name, fmt.Sprintf("%s turns (one standard uncertainty; folded into [0, ½])", notation.PlusMinus(a, r.AngleUncertainty[i])))
 	}
 	if r.AngleMethod != "" {
 		add("angle method", r.AngleMethod)
 	}
 	if d := r.Disorder; d != nil {
-		add("disorder", fmt.Sprintf("rms %.4g %s (%.3g of the mean spacing) about the %s model; mutual information %.3g nats, intrinsic dimension %.2f",
-			d.RMS, r.Unit, d.Relative, d.Model, d.MutualInformation, d.IntrinsicDimension))
+		model := "about the model: " + d.Model
+		if rest, ok := strings.CutPrefix(d.Model, "none: "); ok {
+			model = "no model of the hull, " + rest
+		}
+		line := fmt.Sprintf("%.3g of the mean spacing (rms %.3g %s), %s", d.Relative, d.RMS, r.Unit, model)
+		if d.IntrinsicDimension > 0 {
+			line += fmt.Sprintf("; mutual information of consecutive spacings %.2g nats, dimension of the delay cloud %.2g", d.MutualInformation, d.IntrinsicDimension)
+		}
+		add("disorder", line)
 	}
 	e := r.Embedding
 	add("embedding", fmt.Sprintf("window %d (chosen %d), %d component(s), %d vectors, %d landmarks", e.Window, e.ChosenWindow, e.Components, e.Vectors, e.Landmarks))
 	add("threshold τ", fmt.Sprintf("%.3g whitened units (cover radius %.3g, sampling gap %.3g, noise scale %.3g)",
 		r.Persistence.Threshold, r.Persistence.CoverRadius, r.Persistence.SamplingGap, r.Persistence.NoiseScale))
-	for i, l := range r.GapLabels.Labels {
+	// Lowest order first, each IDS to the digits its uncertainty
+	// justifies, as the text lists them.
+	for i, l := range r.ListLabels() {
 		if i == maxLabels {
 			v.More = len(r.GapLabels.Labels) - maxLabels
 			break
 		}
-		v.Labels = append(v.Labels, labelRow{IDS: fmt.Sprintf("%.6f", l.IDS), Coeffs: fmt.Sprint(l.Coeffs)})
+		ids, u := r.LabelIDS(l)
+		if u != "" {
+			ids += " ± " + u
+		}
+		v.Labels = append(v.Labels, labelRow{IDS: ids, Coeffs: l.CoeffString(), Blurred: l.Blurred})
+		v.Blurred = v.Blurred || l.Blurred
 	}
 	for _, f := range p.Figures {
 		v.Figures = append(v.Figures, figureView{Name: f.Name, Caption: f.Caption,
@@ -264,9 +295,10 @@ code { font-size: .92em; }
 <h2>Gap labels</h2>
 {{if .Labels}}<table>
 <tr><th>IDS</th><th>coefficients</th></tr>
-{{range .Labels}}<tr><td>{{.IDS}}</td><td>{{.Coeffs}}</td></tr>
+{{range .Labels}}<tr><td>{{.IDS}}</td><td>{{.Coeffs}}{{if .Blurred}} ?{{end}}</td></tr>
 {{end}}</table>
-{{if .More}}<p>{{.More}} more in <code>analysis.json</code>.</p>{{end}}
+{{if .Blurred}}<p>? uncertain by more than half the distance to the nearest label: a gap there may carry either.</p>{{end}}
+{{if .More}}<p>{{.More}} more, of higher order, in <code>analysis.json</code>.</p>{{end}}
 {{else}}<p>None: the group is Z, no gap inside the spectrum is forced to a label.</p>{{end}}
 <h2>Figures</h2>
 {{range .Figures}}<figure><img src="{{.Src}}" alt="{{.Name}}"><figcaption>{{.Caption}}</figcaption></figure>
@@ -304,7 +336,7 @@ func AuditOf(rep *audit.Report) *Audit {
 	add := func(k, v string) { a.Rows = append(a.Rows, [2]string{k, v}) }
 	add("sites", fmt.Sprintf("design %d, measured %d: %d matched, %d missing, %d extra", rep.DesignSites, rep.MeasuredSites, rep.Matched, len(rep.Missing), len(rep.Extra)))
 	if rep.Scale != nil {
-		add("calibration", fmt.Sprintf("offset %.6g ± %.2g%s, scale %.9g ± %.2g", *rep.Offset, *rep.OffsetErr, u, *rep.Scale, *rep.ScaleErr))
+		add("calibration", fmt.Sprintf("offset %s%s, scale %s", notation.PlusMinus(*rep.Offset, *rep.OffsetErr), u, notation.PlusMinus(*rep.Scale, *rep.ScaleErr)))
 	}
 	add("residuals", fmt.Sprintf("rms %.4g%s, max %.4g%s, robust sigma %.3g%s", rep.RMS, u, rep.Max, u, rep.Sigma, u))
 	if rep.Tolerance != nil {
