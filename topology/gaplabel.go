@@ -5,7 +5,7 @@ import (
 	"math"
 	"slices"
 
-	"phasonhull/internal/notation"
+	"phasonhull/topology/notation"
 )
 
 // labelTol is the distance below which two integrated densities of states

@@ -12,11 +12,11 @@ import (
 	"strings"
 	"testing"
 
-	"phasonhull/internal/notation"
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
 	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
+	"phasonhull/topology/notation"
 )
 
 // auditDir holds the shipped audit inputs: design.json (a modulated design

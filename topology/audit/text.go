@@ -8,8 +8,8 @@ import (
 	"strconv"
 	"strings"
 
-	"phasonhull/internal/notation"
 	"phasonhull/topology/hull"
+	"phasonhull/topology/notation"
 )
 
 // maxListed bounds the entries of each defect list in the text.

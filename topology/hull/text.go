@@ -8,8 +8,8 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"phasonhull/internal/notation"
 	"phasonhull/topology"
+	"phasonhull/topology/notation"
 )
 
 // labelsShown bounds the gap labels WriteText lists unless asked for all.

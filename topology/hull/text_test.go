@@ -8,10 +8,10 @@ import (
 	"strings"
 	"testing"
 
-	"phasonhull/internal/notation"
 	"phasonhull/pattern/design"
 	"phasonhull/topology"
 	"phasonhull/topology/hull"
+	"phasonhull/topology/notation"
 )
 
 // The text lists the labels of lowest order first, each IDS to the digits

@@ -13,6 +13,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"phasonhull/topology/hull"
+	"phasonhull/topology/notation"
 )
 
 // Lift is a circular coordinate unwrapped along the chain, with the
@@ -122,7 +123,7 @@ func Angle(r *hull.Result) (*Picture, error) {
 		}
 		reported := ""
 		if k < len(r.Angles) {
-			reported = fmt.Sprintf("\nreported θ%d = %.6f ± %.2g (folded)", k+1, r.Angles[k], r.AngleUncertainty[k])
+			reported = fmt.Sprintf("\nreported θ%d = %s (folded)", k+1, notation.PlusMinus(r.Angles[k], r.AngleUncertainty[k]))
 		}
 		runs = max(runs, l.Runs)
 		p := newPanel(fmt.Sprintf("φ%d lifted: slope %.6f turns/site%s", k+1, l.Slope, reported), "site index", fmt.Sprintf("lifted φ%d (turns)", k+1))

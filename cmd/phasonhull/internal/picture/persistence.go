@@ -6,7 +6,6 @@ import (
 	"path/filepath"
 	"slices"
 	"sort"
-	"strconv"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -15,6 +14,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"phasonhull/topology/hull"
+	"phasonhull/topology/notation"
 	"phasonhull/topology/rips"
 )
 
@@ -36,15 +36,6 @@ const (
 	shownH0 = 12
 	shownHk = 24
 )
-
-// tuple writes integers as the reports do: "(1, 1, 0)".
-func tuple(v []int) string {
-	s := make([]string, len(v))
-	for i, x := range v {
-		s[i] = strconv.Itoa(x)
-	}
-	return "(" + strings.Join(s, ", ") + ")"
-}
 
 // infinityTicks marks the axis from 0 to top with the usual ticks and
 // the position inf, beyond it, with "∞".
@@ -256,7 +247,7 @@ func Persistence(r *hull.Result) (*Picture, error) {
 	)
 	cls := fmt.Sprintf("%s hull", r.Hull.Class)
 	if len(r.Hull.Betti) > 0 {
-		cls += fmt.Sprintf(", Betti %s, confidence %.2f", tuple(r.Hull.Betti), r.Hull.Confidence)
+		cls += fmt.Sprintf(", Betti %s, confidence %.2f", notation.Tuple(r.Hull.Betti), r.Hull.Confidence)
 	}
 	var shapes []string
 	for _, d := range dims {

@@ -16,9 +16,9 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
-	"phasonhull/internal/notation"
 	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
+	"phasonhull/topology/notation"
 )
 
 // Page is everything one report shows.

@@ -6,9 +6,9 @@ import (
 	"strings"
 	"testing"
 
-	"phasonhull/internal/notation"
 	"phasonhull/topology"
 	"phasonhull/topology/hull"
+	"phasonhull/topology/notation"
 )
 
 func testPage() *Page {

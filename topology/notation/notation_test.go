@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"testing"
 
-	"phasonhull/internal/notation"
+	"phasonhull/topology/notation"
 )
 
 func TestPlusMinus(t *testing.T) {
