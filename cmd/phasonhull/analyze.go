@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"phasonhull/cmd/phasonhull/internal/flagval"
+	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/topology/hull"
 )
 
@@ -64,7 +65,7 @@ README).`,
 	fs.BoolVar(&f.json, "json", false, "print the result as one JSON object")
 	fs.BoolVar(&f.allLabels, "all-labels", false, "list every gap label in the text output (default: the first 12)")
 	f.plot.register(fs)
-	fileArgs(cmd)
+	outfile.FileArgs(cmd)
 	return cmd
 }
 

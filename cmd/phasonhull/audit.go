@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
+	"phasonhull/cmd/phasonhull/internal/progress"
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
 	"phasonhull/pattern/register"
@@ -153,7 +154,7 @@ or flags, 1 for a bug.`,
 	fs.BoolVar(&f.json, "json", false, "print the report as one JSON object")
 	fs.StringVarP(&f.out, "out", "o", "", "write the report to `FILE` instead of standard output (nothing is written on bad input)")
 	f.plot.register(fs)
-	fileArgs(cmd)
+	outfile.FileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "design")
 	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out")
 	return cmd
@@ -192,12 +193,13 @@ func (f *auditFlags) options() (audit.Options, error) {
 	return opt, opt.Validate()
 }
 
-// loadDesign reads the design of --design and analyses its hull; nil
-// without --design.
-func (f *auditFlags) loadDesign(ctx context.Context, opt hull.Options) (*audit.Design, error) {
+// loadDesign reads the design of --design and analyses its hull, saying
+// so on the progress line; nil without --design.
+func (f *auditFlags) loadDesign(ctx context.Context, pl *progress.Line, opt hull.Options) (*audit.Design, error) {
 	if f.designPath == "" {
 		return nil, nil
 	}
+	pl.Stage("analysing the design " + f.designPath)
 	file, err := design.ReadFile(f.designPath, f.designUnit)
 	if err != nil {
 		return nil, fmt.Errorf("design: %w", err)
@@ -221,8 +223,7 @@ func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
 	}
 	progress := progressOf(cmd)
 	defer progress.Close()
-	progress.Stage("analysing the design " + f.audit.designPath)
-	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
+	d, err := f.audit.loadDesign(cmd.Context(), progress, opt.Hull)
 	if err != nil {
 		return err
 	}

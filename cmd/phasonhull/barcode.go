@@ -88,7 +88,7 @@ budget is refused with a hint of what to lower.`,
 		},
 	}
 	f.register(cmd)
-	fileArgs(cmd)
+	outfile.FileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "points")
 	return cmd
 }

@@ -67,7 +67,7 @@ and 1 for a bug.`,
 	fs.StringVarP(&f.out, "out", "o", "", "write the summary as CSV to `FILE` (required)")
 	fs.StringVar(&f.jsonOut, "out-json", "", "also write the summary as JSON to `FILE`")
 	fs.IntVarP(&f.jobs, "jobs", "j", 0, "files processed at once (0: one per core)")
-	fileArgs(cmd)
+	outfile.FileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "design")
 	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out", "out-json")
 	return cmd
@@ -85,7 +85,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 		return err
 	}
 	// A folder's files leave out the design; outputs that would be among
-	// them were refused before the run started (bindOutputCheck).
+	// them were refused before the run started (outfile.Bind).
 	files, err := batch.Files(args, []string{f.audit.designPath})
 	if err != nil {
 		return err
@@ -93,8 +93,7 @@ func runBatch(cmd *cobra.Command, args []string, f *batchFlags) error {
 	// The design is analysed once, with every core.
 	progress := progressOf(cmd)
 	defer progress.Close()
-	progress.Stage("analysing the design " + f.audit.designPath)
-	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
+	d, err := f.audit.loadDesign(cmd.Context(), progress, opt.Hull)
 	if err != nil {
 		return err
 	}

@@ -77,7 +77,7 @@ then its whitened components (or, with --raw, its dimensionless spacings).`,
 		},
 	}
 	f.register(cmd)
-	fileArgs(cmd)
+	outfile.FileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out")
 	return cmd
 }

@@ -58,7 +58,7 @@ func guard(stderr io.Writer, f func() int) (code int) {
 // execute runs one command line without the panic guard.
 func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	root := newRootCmd(stdin, stdout, stderr)
-	bindOutputCheck(root)
+	outfile.Bind(root)
 	bindTimeout(root)
 	root.SetArgs(args)
 	err := root.Execute()

@@ -85,7 +85,7 @@ func TestNoOutputOverwritesAnInput(t *testing.T) {
 			continue
 		}
 		slots := flagsWith(cmd, outfile.Input)
-		if cmd.Annotations[argsAreFiles] != "" {
+		if cmd.Annotations[outfile.ArgsAreFiles] != "" {
 			slots = append(slots, "")
 		}
 		if len(slots) == 0 {

@@ -159,7 +159,7 @@ does not change the exit status.`,
 	f.in.register(fs)
 	f.audit.register(fs)
 	fs.StringVarP(&f.out, "out", "o", "", "write the report into `DIR` (required)")
-	fileArgs(cmd)
+	outfile.FileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "design")
 	outfile.Mark(cmd.Flags(), outfile.OutputDir, "out")
 	return cmd
@@ -177,12 +177,12 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	d, err := f.audit.loadDesign(cmd.Context(), opt.Hull)
+	progress := progressOf(cmd)
+	defer progress.Close()
+	d, err := f.audit.loadDesign(cmd.Context(), progress, opt.Hull)
 	if err != nil {
 		return err
 	}
-	progress := progressOf(cmd)
-	defer progress.Close()
 	progress.Stage(fmt.Sprintf("analysing %s (%d sites)", p.Source, p.Len()))
 	var page report.Page
 	var res *hull.Result

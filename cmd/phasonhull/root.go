@@ -2,6 +2,7 @@ package main
 
 import (
 	"io"
+	"phasonhull/cmd/phasonhull/internal/buildinfo"
 
 	"github.com/spf13/cobra"
 )
@@ -26,7 +27,7 @@ homology.`,
   # Write a modulated design and look at its delay-coordinate trace
   phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
   phasonhull embed design.csv`,
-		Version:       version(),
+		Version:       buildinfo.Version(),
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}

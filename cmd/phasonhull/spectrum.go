@@ -157,7 +157,7 @@ to 4000 sites, and next-nearest bonds are limited to that.`,
 		},
 	}
 	f.register(cmd)
-	fileArgs(cmd)
+	outfile.FileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "design", "eigenvalues", "pattern", "table", "onsite-file")
 	outfile.Mark(cmd.Flags(), outfile.OutputFile, "out")
 	return cmd

@@ -1,13 +1,15 @@
-package main
+// Package buildinfo describes the binary from what the Go toolchain
+// recorded when it was built.
+package buildinfo
 
 import (
 	"fmt"
 	"runtime/debug"
 )
 
-// version describes the binary: the module version and the commit it was
+// Version describes the binary: the module version and the commit it was
 // built from, as the Go toolchain recorded them.
-func version() string {
+func Version() string {
 	bi, ok := debug.ReadBuildInfo()
 	if !ok {
 		return "unknown (built without module information)"
