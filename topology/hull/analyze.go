@@ -167,9 +167,8 @@ func (a *analysis) model(ctx context.Context) error {
 	ci := info(a.res.Hull.Class)
 	switch {
 	case ci.angles > 0:
-		if err := a.measureAngles(ctx, ci.angles); err != nil {
-			return err
-		}
+		// The angles were measured and checked when the class was
+		// decided (anglesCheck).
 		if a.res.Disorder != nil && a.res.Tiles == nil {
 			if mi, dim, ok := a.disorderFigures(); ok {
 				a.res.Disorder.MutualInformation, a.res.Disorder.IntrinsicDimension = mi, dim
