@@ -39,18 +39,22 @@ func (f *generateFlags) register(fs *pflag.FlagSet) {
 	f.lengths = map[string]interface{ Resolve(string) error }{
 		"spacing": flagval.NewLength(&o.Spacing), "amp": flagval.NewLength(&o.Amp), "amp2": flagval.NewLength(&o.Amp2),
 		"sin": flagval.NewLengthList(&o.Sin), "cos": flagval.NewLengthList(&o.Cos),
+		"amps": flagval.NewLengthList(&o.Amps),
 	}
-	fs.Var(f.lengths["spacing"].(pflag.Value), "spacing", "mean spacing L, a `LENGTH` (modulated, loop, circle-map, two-angle, random); lengths are in --unit, or carry their own unit: 450nm")
+	fs.Var(f.lengths["spacing"].(pflag.Value), "spacing", "mean spacing L, a `LENGTH` (modulated, loop, circle-map, two-angle, multi-angle, random); lengths are in --unit, or carry their own unit: 450nm")
 	fs.StringVar(&o.Unit, "unit", "", "length unit of the positions, e.g. um (written into the CSV header)")
-	fs.Float64SliceVar(&o.Cell, "cell", nil, "periodic: the repeated cell of spacings, a `LIST` like 1,1.5")
-	fs.Float64Var(&o.Theta, "theta", 0, "angle θ in turns, in (0,1) (modulated, two-angle, sturmian)")
+	fs.Float64SliceVar(&o.Cell, "cell", nil, "periodic, decorated: the repeated cell of spacings, a `LIST` like 1,1.5")
+	fs.Float64Var(&o.Theta, "theta", 0, "angle θ in turns, in (0,1) (modulated, decorated, two-angle, sturmian)")
 	fs.Float64Var(&o.Phase, "phase", 0, "starting phase in turns (φ; ψ_0 of circle-map; starting arc fraction of loop)")
-	fs.Var(f.lengths["sin"].(pflag.Value), "sin", "modulated: sine amplitudes a_1,a_2,... (a `LIST` of lengths)")
-	fs.Var(f.lengths["cos"].(pflag.Value), "cos", "modulated: cosine amplitudes b_1,b_2,... (a `LIST` of lengths)")
+	fs.Var(f.lengths["sin"].(pflag.Value), "sin", "modulated, decorated: sine amplitudes a_1,a_2,... (a `LIST` of lengths)")
+	fs.Var(f.lengths["cos"].(pflag.Value), "cos", "modulated, decorated: cosine amplitudes b_1,b_2,... (a `LIST` of lengths)")
 	fs.Var(f.lengths["amp"].(pflag.Value), "amp", "amplitude, a `LENGTH`: a_1 of modulated, a of two-angle, amp of loop and circle-map")
 	fs.Float64Var(&o.Theta2, "theta2", 0, "two-angle: second angle θ2 in turns")
 	fs.Float64Var(&o.Phase2, "phase2", 0, "two-angle: second phase φ2 in turns")
 	fs.Var(f.lengths["amp2"].(pflag.Value), "amp2", "two-angle: second amplitude a2, a `LENGTH`")
+	fs.Float64SliceVar(&o.Thetas, "thetas", nil, "multi-angle: one to three angles θ_1,θ_2,θ_3 in turns (a `LIST`)")
+	fs.Var(f.lengths["amps"].(pflag.Value), "amps", "multi-angle: amplitudes a_1,a_2,a_3, one per angle (a `LIST` of lengths)")
+	fs.Float64SliceVar(&o.Phases, "phases", nil, "multi-angle: phases φ_1,φ_2,φ_3 in turns (a `LIST`; missing ones are 0)")
 	fs.Float64SliceVar(&o.RadiusCos, "radius-cos", nil, "loop: radius coefficients c_1,c_2,... (a `LIST`) relative to R")
 	fs.Float64SliceVar(&o.RadiusSin, "radius-sin", nil, "loop: radius coefficients s_1,s_2,... (a `LIST`) relative to R")
 	fs.Float64Var(&o.Step, "step", 0, "loop: arc step as a fraction of the perimeter, in (0,1)")
@@ -59,7 +63,7 @@ func (f *generateFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.tiles, "tiles", "", "sturmian, substitution: tile `LENGTHS` like A=1,B=1.618 (default A=1,B=golden ratio)")
 	fs.Float64Var(&o.Intercept, "intercept", 0, "sturmian: intercept ρ in [0,1)")
 	fs.StringVar(&o.Rule, "rule", "", "substitution: fibonacci, thue-morse, period-doubling, or a rule like A=AB,B=A")
-	fs.StringVar(&o.Dist, "dist", "", "random: uniform or exponential (default uniform)")
+	fs.StringVar(&o.Dist, "dist", "", "random: uniform, exponential or gaussian (default uniform)")
 	fs.Float64Var(&o.Spread, "spread", 0, "random: relative spread in (0,1) (default 0.5)")
 	f.noise = flagval.NewNoise(0)
 	fs.Var(f.noise, "noise", "perturbation: standard deviation of Gaussian position noise, a `LEVEL`: a length or a percentage of --spacing (2%)")
@@ -134,9 +138,11 @@ a complete design; a FAMILY argument or flags given as well override it.`,
 		Example: `  phasonhull generate periodic --cell 1,1.5 --sites 100
   phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
   phasonhull generate modulated --theta 0.381966 --sin 0.1,0.03 --cos 0,0.02 --unit um --spacing 2.5
+  phasonhull generate decorated --cell 0.88,1.12 --theta 0.4142136 --sin 0.1
   phasonhull generate loop --step 0.381966 --amp 0.15 --radius-cos 0,0.3
   phasonhull generate circle-map --omega 0.3 --k 0.9 --amp 0.1
   phasonhull generate two-angle --theta 0.4142136 --amp 0.1 --theta2 0.7320508 --amp2 0.06
+  phasonhull generate multi-angle --thetas 0.4142136,0.2679492,0.618034 --amps 0.05,0.04,0.03 --sites 5000
   phasonhull generate sturmian --theta 0.381966 --tiles L=1.618,S=1
   phasonhull generate substitution --rule thue-morse --tiles A=1,B=1.4 --sites 257
   phasonhull generate substitution --rule A=AB,B=C,C=A --tiles A=1,B=0.8,C=0.6

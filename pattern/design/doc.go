@@ -23,6 +23,12 @@
 //   - modulated: x_n = n·L + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ)),
 //     one angle θ ("theta"), phase φ ("phase"), sine amplitudes a_k ("sin")
 //     and cosine amplitudes b_k ("cos"); "amp" is shorthand for a_1.
+//   - decorated: a periodic cell of p spacings ("cell") decorating a
+//     modulation of one angle, x_n = Σ_{m<n} cell[m mod p] + Σ_k (a_k sin
+//     2πk(nθ+φ) + b_k cos 2πk(nθ+φ)) ("theta", "phase", "sin", "cos"). Its
+//     hull is p circles (ClosedForm.Components); "cell": [0.88, 1.12] with
+//     "sin": [0.1] is the dimerised chain n − 0.06 + 0.06·(−1)^n +
+//     0.1 sin 2π(nθ+φ).
 //   - loop: sites a fixed arc length apart along the closed plane curve
 //     r(φ) = R(1 + Σ_k (c_k cos kφ + s_k sin kφ)) ("radius-cos",
 //     "radius-sin"); the arc step is the fraction "step" of the perimeter,
@@ -34,6 +40,10 @@
 //     ψ_0 = "phase"), 0 ≤ K ≤ 1.
 //   - two-angle: x_n = n·L + a sin 2π(nθ1+φ1) + a2 sin 2π(nθ2+φ2)
 //     ("theta", "phase", "amp", "theta2", "phase2", "amp2").
+//   - multi-angle: x_n = n·L + Σ_k a_k sin 2π(nθ_k+φ_k) over one to three
+//     angles ("thetas", "amps", one per angle, and "phases", missing ones
+//     0); with 1, θ_1, ..., θ_d rationally independent its hull is the
+//     d-torus. Two angles give the two-angle family's sites.
 //   - sturmian: two tiles ("tiles") ordered by the mechanical word of slope
 //     θ ("theta") and intercept ρ ("intercept"): tile n is the letter that
 //     sorts second when ⌊(n+1)θ+ρ⌋ − ⌊nθ+ρ⌋ = 1 and the first letter
@@ -41,7 +51,8 @@
 //   - substitution: the tile word of a substitution rule ("rule": fibonacci,
 //     thue-morse, period-doubling, or a rule like "A=AB,B=A"), iterated from
 //     the first letter of the rule.
-//   - random: independent spacings ("dist" uniform or exponential, "spread").
+//   - random: independent spacings ("dist" uniform, exponential or
+//     gaussian, "spread").
 //
 // # Perturbations
 //

@@ -249,12 +249,20 @@ func buildTwoAngle(s Spec) (base, error) {
 	return base{pos: pos}, nil
 }
 
+// gaussCut is where the gaussian spacing law is cut, in standard
+// deviations: a draw beyond it is drawn again.
+const gaussCut = 4
+
 func checkRandom(s Spec) error {
-	if s.Dist != "uniform" && s.Dist != "exponential" {
-		return fmt.Errorf("dist %q: unknown; choose uniform or exponential", s.Dist)
+	if s.Dist != "uniform" && s.Dist != "exponential" && s.Dist != "gaussian" {
+		return fmt.Errorf("dist %q: unknown; choose uniform, exponential or gaussian", s.Dist)
 	}
 	if !(s.Spread > 0 && s.Spread < 1) {
 		return fmt.Errorf("spread = %s: must lie in (0, 1) so that no spacing reaches 0", formatFloat(s.Spread))
+	}
+	if s.Dist == "gaussian" && !(s.Spread < 1.0/gaussCut) {
+		return fmt.Errorf("spread = %s: a gaussian spread must stay below %s so that no spacing reaches 0 (the law is cut at %d standard deviations)",
+			formatFloat(s.Spread), formatFloat(1.0/gaussCut), gaussCut)
 	}
 	return nil
 }
@@ -270,6 +278,12 @@ func buildRandom(s Spec) (base, error) {
 			d = s.Spacing * (1 - s.Spread + 2*s.Spread*rng.Float64())
 		case "exponential":
 			d = s.Spacing * (1 - s.Spread + s.Spread*rng.ExpFloat64())
+		case "gaussian":
+			z := rng.NormFloat64()
+			for math.Abs(z) > gaussCut {
+				z = rng.NormFloat64()
+			}
+			d = s.Spacing * (1 + s.Spread*z)
 		}
 		pos[n] = pos[n-1] + d
 	}

@@ -78,6 +78,63 @@ func TestTwoAngle(t *testing.T) {
 	}
 }
 
+// TestDecorated checks the positions against the formula, and the
+// dimerised chain against its closed form: a cell 1−δ, 1+δ puts site n at
+// n − δ/2 + (δ/2)(−1)^n (common practice).
+func TestDecorated(t *testing.T) {
+	s := NewSpec(Decorated)
+	s.Sites, s.Cell, s.Theta, s.Phase = 1001, []float64{0.88, 1.12}, math.Sqrt(2)-1, 0.3
+	s.Sin = []float64{0.1}
+	pos := mustGenerate(t, s)
+	for n, x := range pos {
+		fn := float64(n)
+		want := fn - 0.06 + 0.06*math.Pow(-1, fn) + 0.1*math.Sin(2*math.Pi*(fn*s.Theta+s.Phase))
+		if math.Abs(x-want) > 1e-10 {
+			t.Fatalf("dimerised site %d at %.15g, want %.15g", n, x, want)
+		}
+	}
+	// A cell of three with two harmonics: every spacing is the cell's
+	// spacing plus the modulation's difference.
+	s.Cell, s.Sin, s.Cos = []float64{0.9, 1.3, 0.8}, []float64{0.05, 0.02}, []float64{0, 0.01}
+	pos = mustGenerate(t, s)
+	for n := 0; n+1 < len(pos); n++ {
+		m := func(n int) float64 {
+			u := 2 * math.Pi * (float64(n)*s.Theta + s.Phase)
+			return 0.05*math.Sin(u) + 0.02*math.Sin(2*u) + 0.01*math.Cos(2*u)
+		}
+		want := s.Cell[n%3] + m(n+1) - m(n)
+		if d := pos[n+1] - pos[n]; math.Abs(d-want) > 1e-10 {
+			t.Fatalf("cell of 3: spacing %d = %.15g, want %.15g", n, d, want)
+		}
+	}
+}
+
+// TestMultiAngle checks the positions against the formula for three
+// angles, and that two angles give the two-angle family's sites bit for bit.
+func TestMultiAngle(t *testing.T) {
+	s := NewSpec(MultiAngle)
+	s.Sites, s.Spacing = 500, 1.5
+	s.Thetas, s.Amps, s.Phases = []float64{math.Sqrt2 - 1, 2 - math.Sqrt(3), (math.Sqrt(5) - 1) / 2}, []float64{0.1, 0.08, 0.06}, []float64{0.1, 0.7}
+	pos := mustGenerate(t, s)
+	for n, x := range pos {
+		fn := float64(n)
+		want := 1.5*fn + 0.1*math.Sin(2*math.Pi*(fn*s.Thetas[0]+0.1)) + 0.08*math.Sin(2*math.Pi*(fn*s.Thetas[1]+0.7)) + 0.06*math.Sin(2*math.Pi*fn*s.Thetas[2])
+		if math.Abs(x-want) > 1e-10 {
+			t.Fatalf("site %d at %.15g, want %.15g", n, x, want)
+		}
+	}
+	two := NewSpec(TwoAngle)
+	two.Theta, two.Phase, two.Amp, two.Theta2, two.Phase2, two.Amp2 = 0.4142, 0.1, 0.1, 0.7320508, 0.7, 0.05
+	multi := NewSpec(MultiAngle)
+	multi.Thetas, multi.Amps, multi.Phases = []float64{0.4142, 0.7320508}, []float64{0.1, 0.05}, []float64{0.1, 0.7}
+	a, b := mustGenerate(t, two), mustGenerate(t, multi)
+	for i := range a {
+		if math.Float64bits(a[i]) != math.Float64bits(b[i]) {
+			t.Fatalf("site %d: two-angle %v, multi-angle %v", i, a[i], b[i])
+		}
+	}
+}
+
 // TestGaussLegendre checks that the 20-point rule integrates x^38 over
 // [−1, 1] exactly (2/39) and that its weights sum to 2: an n-point rule is
 // exact to degree 2n − 1 (common practice).
@@ -242,6 +299,9 @@ func TestRandomSpacings(t *testing.T) {
 	}{
 		{"uniform", 0.3, 0.3 / math.Sqrt(3), 0.7, 1.3},
 		{"exponential", 0.4, 0.4, 0.6, 0},
+		// Cut at ±4 standard deviations: the sd falls short of the
+		// spread by 0.1% (common practice for a truncated normal).
+		{"gaussian", 0.2, 0.2, 1 - gaussCut*0.2, 1 + gaussCut*0.2},
 	} {
 		s := NewSpec("random")
 		s.Sites, s.Spacing, s.Dist, s.Spread = n, 2, c.dist, c.spread

@@ -13,9 +13,11 @@ type Family string
 const (
 	Periodic     Family = "periodic"
 	Modulated    Family = "modulated"
+	Decorated    Family = "decorated"
 	Loop         Family = "loop"
 	CircleMap    Family = "circle-map"
 	TwoAngle     Family = "two-angle"
+	MultiAngle   Family = "multi-angle"
 	Sturmian     Family = "sturmian"
 	Substitution Family = "substitution"
 	Random       Family = "random"
@@ -69,6 +71,16 @@ func table() []family {
 			phase:  "phase", field: phase,
 		},
 		{
+			name: Decorated, uses: uses("cell", "theta", "phase", "sin", "cos"),
+			formula: "x_n = Σ_{m<n} cell[m mod p] + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ)), p spacings in the cell",
+			help: "a repeated cell of p spacings (--cell) decorating a modulation:\n" +
+				"x_n = Σ_{m<n} cell[m mod p] + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ));\n" +
+				"its hull is p circles",
+			check: checkDecorated, build: buildDecorated,
+			closed: closedDecorated,
+			phase:  "phase", field: phase,
+		},
+		{
 			name: Loop, uses: uses("spacing", "phase", "amp", "radius-cos", "radius-sin", "step"),
 			formula: "x_n = n·L + amp·X_n/R, X_n the first coordinate of points an arc step·perimeter apart on r(φ) = R(1 + Σ_k (c_k cos kφ + s_k sin kφ))",
 			help: "sites an arc --step·perimeter apart on r(φ) = R(1 + Σ_k (c_k cos kφ\n" +
@@ -94,6 +106,16 @@ func table() []family {
 			phase:  "phase", field: phase,
 		},
 		{
+			name: MultiAngle, uses: uses("spacing", "thetas", "amps", "phases"),
+			formula: "x_n = n·L + Σ_k a_k sin 2π(nθ_k+φ_k), k = 1..d, d ≤ 3",
+			help: "x_n = n·L + Σ_k a_k sin 2π(nθ_k+φ_k) over one to three angles\n" +
+				"(--thetas, --amps, --phases); its hull is a d-torus",
+			defaults: defaultsMultiAngle,
+			check:    checkMultiAngle, build: buildMultiAngle,
+			closed: closedMultiAngle,
+			phase:  "phases", field: firstPhase,
+		},
+		{
 			name: Sturmian, uses: uses("tiles", "theta", "intercept"),
 			formula: "tile n is the second letter when ⌊(n+1)θ+ρ⌋ − ⌊nθ+ρ⌋ = 1, else the first",
 			help: "two tiles in the mechanical word of slope θ and intercept ρ; the\n" +
@@ -114,8 +136,9 @@ func table() []family {
 		{
 			name: Random, uses: uses("spacing", "dist", "spread"),
 			formula: "independent random spacings",
-			help: "independent spacings: uniform on [L(1−spread), L(1+spread)], or\n" +
-				"exponential L(1−spread) + L·spread·E (mean L, sd L·spread)",
+			help: "independent spacings: uniform on [L(1−spread), L(1+spread)],\n" +
+				"exponential L(1−spread) + L·spread·E (mean L, sd L·spread), or\n" +
+				"gaussian L(1 + spread·Z), Z normal cut at ±4 (spread < 0.25)",
 			defaults: defaultsRandom,
 			check:    checkRandom, build: buildRandom,
 		},
@@ -164,8 +187,9 @@ func (f Family) Help() string {
 }
 
 // PhaseParam names the parameter that moves the family's pattern along its
-// hull, one unit for one turn: "phase" (φ of modulated and two-angle, ψ_0
-// of circle-map, the starting arc fraction of loop) or "intercept"
+// hull, one unit for one turn: "phase" (φ of modulated, decorated and
+// two-angle, ψ_0 of circle-map, the starting arc fraction of loop),
+// "phases" (its first entry, φ_1 of multi-angle) or "intercept"
 // (sturmian). It is "" for a family without one.
 func (f Family) PhaseParam() string {
 	fam, _ := lookupFamily(f)
@@ -194,8 +218,13 @@ type ClosedForm struct {
 	// a lattice (a modulation whose amplitudes are all zero, say).
 	Period int
 	// Angles are the construction's rotation numbers in turns, exact by
-	// construction and not folded: one for a circle, two for a torus.
+	// construction and not folded: one for a circle, two for a torus,
+	// three for a 3-torus.
 	Angles []float64
+	// Components is the number of components of a hull with angles: p
+	// for a cell of p spacings decorating a modulation (p circles); 0
+	// stands for one.
+	Components int
 	// Tiling reports that the angles are those of a tile word (the slope
 	// of a Sturmian word, a letter frequency of a substitution): they
 	// name the word's rotation but not the shape of its hull.
@@ -212,7 +241,10 @@ type ClosedForm struct {
 //   - modulated: g·θ, g the greatest common divisor of the harmonic orders
 //     with a nonzero amplitude (a modulation in harmonics 2, 4, ... of θ
 //     turns with angle 2θ); period 1 when every amplitude is zero;
+//   - decorated: g·θ as for modulated, on as many components as the
+//     cell's smallest period p; period p when every amplitude is zero;
 //   - two-angle: θ and θ2, or the one whose amplitude is nonzero;
+//   - multi-angle: the angles θ_k whose amplitude is nonzero;
 //   - loop: the arc step; circle-map with K = 0: Ω, a rigid rotation (a
 //     circle map with K > 0 has a rotation number that depends on Ω and K
 //     and is not fixed); period 1 for either when amp is zero;

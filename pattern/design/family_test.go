@@ -23,7 +23,7 @@ func TestFamilyTable(t *testing.T) {
 			t.Errorf("%s: phase parameter %q does not match its field or is not a parameter of the family", f.name, f.phase)
 		}
 	}
-	if got := FamilyNames(); got != "periodic, modulated, loop, circle-map, two-angle, sturmian, substitution, random" {
+	if got := FamilyNames(); got != "periodic, modulated, decorated, loop, circle-map, two-angle, multi-angle, sturmian, substitution, random" {
 		t.Errorf("FamilyNames() = %q", got)
 	}
 	if Family("helix").Help() != "" || Family("helix").PhaseParam() != "" {
@@ -90,6 +90,27 @@ func TestClosedForm(t *testing.T) {
 	cm.Omega, cm.K, cm.Amp = 0.3, 0.5, 0.1
 	if c := cm.ClosedForm(); c.Angles != nil || !strings.Contains(c.Note, "K > 0") {
 		t.Errorf("circle map with K > 0: %+v, want no angle and a note", c)
+	}
+	// A cell of p spacings decorating a modulation: p circles turned by
+	// g·θ (see decorated.go); without amplitudes the cell's period.
+	dec := NewSpec(Decorated)
+	dec.Cell, dec.Theta, dec.Sin = []float64{1, 1.1, 0.9, 1, 1.1, 0.9}, 0.2, []float64{0, 0.05}
+	if c := dec.ClosedForm(); len(c.Angles) != 1 || math.Abs(c.Angles[0]-0.4) > 1e-15 || c.Components != 3 || c.Period != 0 {
+		t.Errorf("decorated, cell of period 3, harmonic 2: %+v, want the angle 0.4 on 3 components", c)
+	}
+	dec.Sin = nil
+	if c := dec.ClosedForm(); c.Period != 3 || c.Angles != nil {
+		t.Errorf("decorated without amplitudes: %+v, want period 3", c)
+	}
+	// Up to three angles; a zero amplitude drops its angle.
+	ma := NewSpec(MultiAngle)
+	ma.Thetas, ma.Amps = []float64{0.4142, 0.2679, 0.618}, []float64{0.1, 0, 0.05}
+	if c := ma.ClosedForm(); !slices.Equal(c.Angles, []float64{0.4142, 0.618}) || c.Components != 0 {
+		t.Errorf("multi-angle with a zero amplitude: %+v, want the angles 0.4142, 0.618", c)
+	}
+	ma.Amps = []float64{0, 0, 0}
+	if c := ma.ClosedForm(); c.Period != 1 {
+		t.Errorf("multi-angle without amplitudes: %+v, want period 1", c)
 	}
 	if c := NewSpec(Random).ClosedForm(); c.Period != 0 || c.Angles != nil || c.Note != "" {
 		t.Errorf("random: %+v, want nothing fixed", c)

@@ -11,6 +11,7 @@ import (
 func full() Spec {
 	return Spec{Family: Loop, Sites: 7, Spacing: 2, Unit: "um", Cell: []float64{1, 2}, Theta: 0.3, Phase: 0.1,
 		Sin: []float64{0.1, 0.2}, Cos: []float64{0.3}, Amp: 0.4, Theta2: 0.6, Phase2: 0.2, Amp2: 0.05,
+		Thetas: []float64{0.4, 0.27}, Amps: []float64{0.1, 0.2}, Phases: []float64{0.3},
 		RadiusCos: []float64{0.1}, RadiusSin: []float64{0.2}, Step: 0.38, Omega: 0.3, K: 0.9,
 		Tiles: map[string]float64{"A": 1, "B": 2}, Intercept: 0.5, Rule: "fibonacci", Dist: "exponential", Spread: 0.3,
 		Noise: 0.01, Missing: 0.02, Extra: 0.03, Drift: 0.004, Seed: 9}

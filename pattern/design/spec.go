@@ -34,22 +34,24 @@ type Spec struct {
 	// Sites is the number of sites of the design before perturbation.
 	Sites int `json:"sites"`
 	// Spacing is the mean spacing L (default 1) of the periodic-lattice
-	// families: modulated, loop, circle-map, two-angle and random.
+	// families: modulated, loop, circle-map, two-angle, multi-angle and
+	// random.
 	Spacing float64 `json:"spacing,omitempty"`
 	// Unit is the length unit of the positions; "" leaves it unknown.
 	Unit string `json:"unit,omitempty"`
 
-	// Cell is the repeated cell of spacings of the periodic family.
+	// Cell is the repeated cell of spacings of the periodic and decorated
+	// families.
 	Cell []float64 `json:"cell,omitempty"`
 
-	// Theta is the angle θ, in turns, of the modulated, two-angle and
-	// sturmian families; it must lie in (0, 1).
+	// Theta is the angle θ, in turns, of the modulated, decorated,
+	// two-angle and sturmian families; it must lie in (0, 1).
 	Theta float64 `json:"theta,omitempty"`
-	// Phase is the starting phase in turns: φ of modulated and two-angle,
-	// ψ_0 of circle-map, the starting arc fraction of loop.
+	// Phase is the starting phase in turns: φ of modulated, decorated and
+	// two-angle, ψ_0 of circle-map, the starting arc fraction of loop.
 	Phase float64 `json:"phase,omitempty"`
 	// Sin and Cos are the amplitudes a_k and b_k of the harmonics
-	// k = 1, 2, ... of the modulated family.
+	// k = 1, 2, ... of the modulated and decorated families.
 	Sin []float64 `json:"sin,omitempty"`
 	Cos []float64 `json:"cos,omitempty"`
 	// Amp is an amplitude in the unit: a_1 of modulated (shorthand for
@@ -60,6 +62,13 @@ type Spec struct {
 	Theta2 float64 `json:"theta2,omitempty"`
 	Phase2 float64 `json:"phase2,omitempty"`
 	Amp2   float64 `json:"amp2,omitempty"`
+
+	// Thetas, Amps and Phases are the angles θ_k (in turns, in (0, 1)),
+	// amplitudes a_k and phases φ_k (in turns; missing ones are 0) of the
+	// one to three terms of the multi-angle family.
+	Thetas []float64 `json:"thetas,omitempty"`
+	Amps   []float64 `json:"amps,omitempty"`
+	Phases []float64 `json:"phases,omitempty"`
 
 	// RadiusCos and RadiusSin are the Fourier coefficients c_k and s_k,
 	// k = 1, 2, ..., of the loop family's radius, relative to R.
@@ -89,7 +98,9 @@ type Spec struct {
 	// default) on [L(1−spread), L(1+spread)], or "exponential", a shifted
 	// exponential L(1−spread) + L·spread·E with E of mean 1, so that the
 	// mean is L, the standard deviation L·spread and no spacing is below
-	// L(1−spread).
+	// L(1−spread), or "gaussian", L(1 + spread·Z) with Z standard normal
+	// cut at ±4 (drawn again beyond), so that the mean is L, the standard
+	// deviation L·spread to within 0.1%, and spread must stay below 1/4.
 	Dist string `json:"dist,omitempty"`
 	// Spread is the random family's relative spread, in (0, 1); 0 stands
 	// for the default 0.5.
@@ -231,6 +242,9 @@ func familyParams() []param {
 		num("theta2", func(s *Spec) float64 { return s.Theta2 }),
 		num("phase2", func(s *Spec) float64 { return s.Phase2 }),
 		num("amp2", func(s *Spec) float64 { return s.Amp2 }),
+		list("thetas", func(s *Spec) []float64 { return s.Thetas }),
+		list("amps", func(s *Spec) []float64 { return s.Amps }),
+		list("phases", func(s *Spec) []float64 { return s.Phases }),
 		list("radius-cos", func(s *Spec) []float64 { return s.RadiusCos }),
 		list("radius-sin", func(s *Spec) []float64 { return s.RadiusSin }),
 		num("step", func(s *Spec) float64 { return s.Step }),
@@ -250,7 +264,7 @@ func (s *Spec) floatFields() map[string][]float64 {
 	return map[string][]float64{
 		"spacing": {s.Spacing}, "cell": s.Cell, "theta": {s.Theta}, "phase": {s.Phase},
 		"sin": s.Sin, "cos": s.Cos, "amp": {s.Amp}, "theta2": {s.Theta2}, "phase2": {s.Phase2},
-		"amp2": {s.Amp2}, "radius-cos": s.RadiusCos, "radius-sin": s.RadiusSin, "step": {s.Step},
+		"amp2": {s.Amp2}, "thetas": s.Thetas, "amps": s.Amps, "phases": s.Phases, "radius-cos": s.RadiusCos, "radius-sin": s.RadiusSin, "step": {s.Step},
 		"omega": {s.Omega}, "k": {s.K}, "intercept": {s.Intercept}, "spread": {s.Spread},
 		"noise": {s.Noise}, "missing": {s.Missing}, "extra": {s.Extra}, "drift": {s.Drift},
 	}
@@ -275,6 +289,9 @@ func (s Spec) WithDefaults() Spec {
 	s.Cos = cloneFloats(s.Cos)
 	s.RadiusCos = cloneFloats(s.RadiusCos)
 	s.RadiusSin = cloneFloats(s.RadiusSin)
+	s.Thetas = cloneFloats(s.Thetas)
+	s.Amps = cloneFloats(s.Amps)
+	s.Phases = cloneFloats(s.Phases)
 	if s.Tiles != nil {
 		t := make(map[string]float64, len(s.Tiles))
 		for k, v := range s.Tiles {

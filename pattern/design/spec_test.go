@@ -38,8 +38,12 @@ func allFamilies() []Spec {
 			s.Step, s.Amp, s.RadiusCos = 0.381966, 0.2, []float64{0.1, 0.2}
 		case CircleMap:
 			s.Omega, s.K, s.Amp = 0.3, 0.7, 0.1
+		case Decorated:
+			s.Cell, s.Theta, s.Sin, s.Phase = []float64{0.88, 1.12}, 0.2763, []float64{0.1}, 0.3
 		case TwoAngle:
 			s.Theta, s.Theta2, s.Amp, s.Amp2 = 0.4142, 0.7320508, 0.1, 0.05
+		case MultiAngle:
+			s.Thetas, s.Amps, s.Phases = []float64{0.4142, 0.2679, 0.618}, []float64{0.05, 0.04, 0.03}, []float64{0.1, 0.2}
 		case Sturmian:
 			s.Theta, s.Intercept = 0.381966, 0.2
 		case Substitution:
@@ -209,6 +213,19 @@ func TestValidateRefusals(t *testing.T) {
 		{fam("circle-map", func(s *Spec) { s.Omega = 1 }), "omega = 1"},
 		{fam("two-angle", func(s *Spec) { s.Theta, s.Theta2 = 0.3, 0.7 }), "theta2 = 0.7: the same angle as theta = 0.3"},
 		{fam("two-angle", func(s *Spec) { s.Theta, s.Theta2, s.Amp, s.Amp2 = 0.3, 0.41, 0.5, 0.5 }), "amp = 0.5 and amp2 = 0.5 too large"},
+		{fam("decorated", func(s *Spec) { s.Theta, s.Sin = 0.3, []float64{0.1} }), "cell: missing"},
+		{fam("decorated", func(s *Spec) { s.Cell, s.Sin = []float64{1, 1.2}, []float64{0.1} }), "theta = 0: must lie strictly between 0 and 1"},
+		{fam("decorated", func(s *Spec) { s.Cell, s.Theta, s.Amp = []float64{1, 1.2}, 0.3, 0.1 }), "amp = 0.1 has no effect on the decorated family"},
+		// 2·sin(π·0.3)·0.3 ≈ 0.485 against the smallest cell spacing 0.4.
+		{fam("decorated", func(s *Spec) { s.Cell, s.Theta, s.Sin = []float64{0.4, 1.6}, 0.3, []float64{0.3} }), "against the smallest cell spacing 0.4"},
+		{fam("multi-angle", func(s *Spec) {}), "thetas: 0 angles"},
+		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps = []float64{0.1, 0.2, 0.3, 0.4}, []float64{0, 0, 0, 0} }), "thetas: 4 angles"},
+		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps = []float64{0.1, 0.2}, []float64{0.1} }), "amps: 1 amplitudes for 2 angles"},
+		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps, s.Phases = []float64{0.1}, []float64{0.1}, []float64{0, 0} }), "phases: 2 phases for 1 angles"},
+		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps = []float64{0.3, 1}, []float64{0.1, 0.1} }), "thetas[1] = 1: must lie strictly between"},
+		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps = []float64{0.3, 0.7}, []float64{0.1, 0.1} }), "thetas[1] = 0.7: the same angle as thetas[0] = 0.3"},
+		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps = []float64{0.3, 0.41}, []float64{0.5, 0.5} }), "amps = 0.5,0.5 too large"},
+		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps, s.Theta = []float64{0.3}, []float64{0.1}, 0.3 }), "theta = 0.3 has no effect on the multi-angle family (it takes spacing, thetas, amps, phases)"},
 		{fam("sturmian", func(s *Spec) { s.Theta = 0.3; s.Tiles = map[string]float64{"A": 1, "B": -2} }), `tiles: length of "B" = -2: tile lengths must be positive`},
 		{fam("sturmian", func(s *Spec) { s.Theta = 0.3; s.Tiles = map[string]float64{"A": 1} }), "exactly two tile letters, got 1"},
 		{fam("sturmian", func(s *Spec) { s.Theta = 0.3; s.Tiles = map[string]float64{"AB": 1, "C": 2} }), `letter "AB"`},
@@ -223,7 +240,8 @@ func TestValidateRefusals(t *testing.T) {
 		{fam("substitution", func(s *Spec) { s.Rule = "a=ab,b=a" }), "tiles: missing; the rule's letters ab need lengths"},
 		{fam("substitution", func(s *Spec) { s.Rule = "fibonacci"; s.Tiles = map[string]float64{"A": 1, "B": 2, "C": 3} }), `letter "C" does not occur`},
 		{fam("substitution", func(s *Spec) { s.Rule = "fibonacci"; s.Tiles = map[string]float64{"A": 1, "B": 1e-12} }), "too small for distinct sites"},
-		{fam("random", func(s *Spec) { s.Dist = "gaussian" }), `dist "gaussian": unknown`},
+		{fam("random", func(s *Spec) { s.Dist = "cauchy" }), `dist "cauchy": unknown`},
+		{fam("random", func(s *Spec) { s.Dist, s.Spread = "gaussian", 0.3 }), "a gaussian spread must stay below 0.25"},
 		{fam("random", func(s *Spec) { s.Spread = 1 }), "spread = 1"},
 		{fam("random", func(s *Spec) { s.Theta = 0.3 }), "theta = 0.3 has no effect on the random family (it takes spacing, dist, spread)"},
 	} {

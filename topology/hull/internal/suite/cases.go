@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strconv"
 
 	"phasonhull/pattern"
@@ -21,8 +22,11 @@ type Case struct {
 	Name  string      `json:"name"`
 	Spec  design.Spec `json:"spec"`
 	Class hull.Class  `json:"true_class"`
-	// Period of a point or finite hull.
-	Period int `json:"true_period,omitempty"`
+	// Period of a point or finite hull; Components the number of
+	// components of a hull with angles (p circles, p tori; 0 for one).
+	// Both follow from p and d through setHull.
+	Period     int `json:"true_period,omitempty"`
+	Components int `json:"true_components,omitempty"`
 	// Angles are the true angles, folded into [0, ½] and sorted; nil when
 	// the hull has none. AngleRef bounds their own error (0: exact by
 	// construction) and AngleSource says where they come from.
@@ -38,6 +42,60 @@ type Case struct {
 	// SizeSweep and NoiseSweep mark the cases of the breakdown sweeps.
 	SizeSweep  bool `json:"size_sweep,omitempty"`
 	NoiseSweep bool `json:"noise_sweep,omitempty"`
+	// MinSites is the smallest size at which the class can be told from
+	// its nearest rival at the case's noise (decidingSites in theory.go);
+	// 0 when it can at every size. Below it, unresolved is a correct
+	// answer, and naming a class other than the true one a confident
+	// wrong answer all the same.
+	MinSites int `json:"deciding_sites,omitempty"`
+}
+
+// Undecidable reports whether the case is smaller than its deciding size.
+func (c Case) Undecidable() bool { return c.Spec.Sites < c.MinSites }
+
+// torus3 is the class of a 3-torus hull.
+const torus3 hull.Class = "torus3"
+
+// hullOf is the class of the hull p components × a d-torus, the hull of a
+// chain with a continuous modulation of d independent angles decorated by
+// a cell of p spacings (its Betti numbers are p·C(d, k): the Künneth
+// formula; common practice): point or p points (finite) for d = 0, then
+// circle, torus and 3-torus.
+func hullOf(p, d int) hull.Class {
+	switch {
+	case d == 0 && p == 1:
+		return hull.Point
+	case d == 0:
+		return hull.Finite
+	case d == 1:
+		return hull.Circle
+	case d == 2:
+		return hull.Torus
+	}
+	return torus3
+}
+
+// setHull sets the true class, period and components of a case from p and
+// d (see hullOf).
+func (c *Case) setHull(p, d int) {
+	c.Class, c.Period, c.Components = hullOf(p, d), 0, 0
+	if d == 0 {
+		c.Period = p
+	} else if p > 1 {
+		c.Components = p
+	}
+}
+
+// cellPeriodOf is the smallest p dividing len(cell) for which the cell
+// repeats itself every p entries.
+func cellPeriodOf(cell []float64) int {
+	n := len(cell)
+	for p := 1; p < n; p++ {
+		if n%p == 0 && slices.Equal(cell[p:], cell[:n-p]) {
+			return p
+		}
+	}
+	return max(n, 1)
 }
 
 // --- the grid -------------------------------------------------------------
@@ -55,11 +113,11 @@ func prototype(class hull.Class, sites int, noise float64) Case {
 	switch class {
 	case hull.Point:
 		c.Spec = design.Spec{Family: "periodic", Cell: []float64{1}}
-		c.Period = 1
+		c.setHull(cellPeriodOf(c.Spec.Cell), 0)
 	case hull.Finite:
 		// A cell of three spacings, mean 1.
 		c.Spec = design.Spec{Family: "periodic", Cell: []float64{1 / 1.2, 1.5 / 1.2, 1.1 / 1.2}}
-		c.Period = 3
+		c.setHull(cellPeriodOf(c.Spec.Cell), 0)
 	case hull.Circle:
 		c = modulated(sqrt2m1, []float64{0.1}, nil, 1, noise)
 	case hull.Torus:
@@ -78,23 +136,69 @@ func prototype(class hull.Class, sites int, noise float64) Case {
 // hull is a circle turned by gθ, g the gcd of the harmonic orders present
 // (common practice), and the angle is exact by construction.
 func modulated(theta float64, sin, cos []float64, g int, noise float64) Case {
-	return Case{
-		Class: hull.Circle, Noise: noise,
+	c := Case{
+		Noise:       noise,
 		Spec:        design.Spec{Family: "modulated", Theta: theta, Sin: sin, Cos: cos, Phase: 0.13},
 		Angles:      []float64{topology.Fold(float64(g) * theta)},
 		AngleSource: fmt.Sprintf("%d·θ of the construction", g),
 	}
+	c.setHull(1, 1)
+	return c
 }
 
 // twoAngle has a two-torus hull with the module Z + Zθ1 + Zθ2 (common
 // practice).
 func twoAngle(t1, a1, t2, a2, noise float64) Case {
-	return Case{
-		Class: hull.Torus, Noise: noise,
+	c := Case{
+		Noise:       noise,
 		Spec:        design.Spec{Family: "two-angle", Theta: t1, Amp: a1, Theta2: t2, Amp2: a2, Phase: 0.13, Phase2: 0.71},
 		Angles:      topology.CanonicalBasis([]float64{t1, t2}),
 		AngleSource: "θ1, θ2 of the construction",
 	}
+	c.setHull(1, 2)
+	return c
+}
+
+// decorated is a cell of spacings decorating the modulation a·sin 2π(nθ+φ):
+// its hull is p circles, p the cell's smallest period (see the decorated
+// family), turned by θ; the module (1/p)Z + Zθ holds θ + k/p as well, and
+// the comparison of angles allows for it.
+func decorated(cell []float64, theta, a, noise float64) Case {
+	c := Case{
+		Noise:       noise,
+		Spec:        design.Spec{Family: "decorated", Cell: cell, Theta: theta, Sin: []float64{a}, Phase: 0.13},
+		Angles:      []float64{topology.Fold(theta)},
+		AngleSource: "θ of the construction, modulo 1/p",
+	}
+	d := 0
+	if a != 0 {
+		d = 1
+	}
+	c.setHull(cellPeriodOf(cell), d)
+	if d == 0 {
+		c.Angles, c.AngleSource = nil, ""
+	}
+	return c
+}
+
+// multiAngle is x_n = n + Σ_k a_k sin 2π(nθ_k+φ_k): a d-torus for the d
+// angles with a nonzero amplitude, taken independent over the rationals
+// with 1 (Kronecker's theorem; common practice).
+func multiAngle(thetas, amps []float64, noise float64) Case {
+	var angles []float64
+	for k, t := range thetas {
+		if amps[k] != 0 {
+			angles = append(angles, t)
+		}
+	}
+	c := Case{
+		Noise:       noise,
+		Spec:        design.Spec{Family: "multi-angle", Thetas: thetas, Amps: amps, Phases: []float64{0.13, 0.71, 0.37}[:len(thetas)]},
+		Angles:      topology.CanonicalBasis(angles),
+		AngleSource: "θ_k of the construction",
+	}
+	c.setHull(1, len(angles))
+	return c
 }
 
 // sturmian is the Sturmian tiling of slope θ with tiles 1 and φ scaled to
@@ -123,6 +227,7 @@ func Grid(cfg Config) ([]Case, error) {
 		if name != "" {
 			c.Name = name
 		}
+		c.MinSites = decidingSites(c)
 		cases = append(cases, c)
 	}
 	sizeAxis, noiseAxis, nSweep := sizes, noises, noiseSweepSites
@@ -132,7 +237,7 @@ func Grid(cfg Config) ([]Case, error) {
 
 	// The breakdown sweeps: each class's prototype over the sizes, noise
 	// free and at sweepNoise, and over the noises at one size.
-	for _, class := range trueClasses {
+	for _, class := range sweepClasses {
 		ns := sizeAxis
 		if class == hull.Torus {
 			ns = torusSizes
@@ -175,14 +280,31 @@ func Grid(cfg Config) ([]Case, error) {
 		c = prototype(hull.Circle, 500, 0.01)
 		c.Centroids = true
 		add(c, "circle/centroids/N500/σ1%")
+		// A slice of the issue-13 families: a dimerised circle, a small
+		// torus, a 3-torus, two short chains, the strong modulation.
+		c = decorated(scaleToMean([]float64{0.88, 1.12}), sqrt2m1, 0.1, 0.01)
+		c.Spec.Sites, c.Spec.Noise = 2000, 0.01
+		add(c, "circle×2/dimer/N2000/σ1%")
+		c = twoAngle(sqrt2m1, 0.1, 2-math.Sqrt(3), 0.1, 0.01)
+		c.Spec.Sites, c.Spec.Noise = 300, 0.01
+		add(c, "torus/small/N300/σ1%")
+		c = multiAngle(threeAngles, []float64{0.1, 0.08, 0.06}, 0)
+		c.Spec.Sites = 5000
+		add(c, "torus3/N5000/σ0%")
+		for _, class := range []hull.Class{hull.Point, disordered} {
+			c := shortChain(class, 16, 0.01)
+			add(c, c.Name)
+		}
+		c = strongModulation(0.01, true)
+		add(c, c.Name)
 		return cases, nil
 	}
 
 	// Finite hulls: cells of 2 to 5 spacings and rational modulations
 	// θ = p/q, whose chains repeat every q sites (common practice).
 	for _, cell := range [][]float64{{1, 1.4}, {1, 1.3, 0.8, 1.1}, {1, 1.2, 1.4, 0.9, 1.1}} {
-		c := Case{Class: hull.Finite, Period: len(cell), Noise: 0.01,
-			Spec: design.Spec{Family: "periodic", Cell: scaleToMean(cell), Sites: 500, Noise: 0.01}}
+		c := Case{Noise: 0.01, Spec: design.Spec{Family: "periodic", Cell: scaleToMean(cell), Sites: 500, Noise: 0.01}}
+		c.setHull(cellPeriodOf(cell), 0)
 		add(c, fmt.Sprintf("finite/cell%d/N500/σ1%%", len(cell)))
 	}
 	for _, pq := range [][2]int{{1, 2}, {1, 3}, {2, 5}, {3, 7}, {3, 8}, {5, 12}, {7, 11}, {1, 12}} {
@@ -191,7 +313,8 @@ func Grid(cfg Config) ([]Case, error) {
 				continue
 			}
 			c := modulated(float64(pq[0])/float64(pq[1]), []float64{0.1}, nil, 1, noise)
-			c.Class, c.Period, c.Angles, c.AngleSource = hull.Finite, pq[1], nil, ""
+			c.setHull(pq[1], 0)
+			c.Angles, c.AngleSource = nil, ""
 			c.Spec.Sites, c.Spec.Noise = 500, noise
 			add(c, fmt.Sprintf("finite/theta%d_%d/N500/%s", pq[0], pq[1], noiseLabel(noise)))
 		}
@@ -248,12 +371,12 @@ func Grid(cfg Config) ([]Case, error) {
 	}
 
 	// Every prototype with 1% of its sites missing, and through centroids.
-	for _, class := range trueClasses {
+	for _, class := range sweepClasses {
 		c := prototype(class, 2000, 0.01)
 		c.Spec.Missing = 0.01
 		add(c, fmt.Sprintf("%s/missing1%%/N2000/σ1%%", class))
 	}
-	for _, class := range trueClasses {
+	for _, class := range sweepClasses {
 		c := prototype(class, 2000, 0.01)
 		c.Centroids = true
 		add(c, fmt.Sprintf("%s/centroids/N2000/σ1%%", class))
@@ -270,7 +393,88 @@ func Grid(cfg Config) ([]Case, error) {
 	c := sturmian(sqrt2m1, 0)
 	c.Spec.Sites = 2000
 	add(c, "cantor/sturmian-sqrt2/N2000/σ0%")
+
+	// Decorated hulls: cells of p = 2, 3, 4 spacings decorating one
+	// angle, 2000 sites, noise-free and at 1%; the dimerised chain
+	// x_n = n + 0.12·(−1)^n-like of the issue among them.
+	for _, cell := range [][]float64{{0.88, 1.12}, {0.85, 1.1, 1.05}, {0.9, 1.1, 0.95, 1.05}} {
+		for _, noise := range []float64{0, 0.01} {
+			c := decorated(scaleToMean(cell), sqrt2m1, 0.1, noise)
+			c.Spec.Sites, c.Spec.Noise = 2000, noise
+			add(c, fmt.Sprintf("%s/cell%d/N2000/%s", label(c.Class, c.Period, c.Components), len(cell), noiseLabel(noise)))
+		}
+	}
+
+	// Tori on a few hundred sites, the angles of the issue (√2−1, 2−√3).
+	for _, n := range []int{200, 300, 500, 800} {
+		for _, noise := range []float64{0, 0.005, 0.01} {
+			c := twoAngle(sqrt2m1, 0.1, 2-math.Sqrt(3), 0.1, noise)
+			c.Spec.Sites, c.Spec.Noise = n, noise
+			add(c, fmt.Sprintf("torus/small/N%d/%s", n, noiseLabel(noise)))
+		}
+	}
+
+	// 3-tori of 5000 sites.
+	for _, noise := range []float64{0, 0.005} {
+		c := multiAngle(threeAngles, []float64{0.1, 0.08, 0.06}, noise)
+		c.Spec.Sites, c.Spec.Noise = 5000, noise
+		add(c, fmt.Sprintf("torus3/N5000/%s", noiseLabel(noise)))
+	}
+
+	// Short chains of every class a fabricated sample may have.
+	for _, class := range []hull.Class{hull.Point, hull.Finite, hull.Circle, disordered} {
+		for _, n := range shortSizes {
+			for _, noise := range []float64{0, 0.01, 0.03} {
+				c := shortChain(class, n, noise)
+				add(c, c.Name)
+			}
+		}
+	}
+
+	// Strong modulation with harmonics, as positions and through a 2-D
+	// scan; long independent Gaussian spacings.
+	for _, noise := range []float64{0, 0.01} {
+		for _, scan := range []bool{false, true} {
+			c := strongModulation(noise, scan)
+			add(c, c.Name)
+		}
+	}
+	g := Case{Spec: design.Spec{Family: "random", Dist: "gaussian", Spread: 0.075, Sites: 3000}}
+	g.Class = disordered
+	add(g, "disordered/gaussian7.5%/N3000/σ0%")
 	return cases, nil
+}
+
+// threeAngles are the angles of the 3-tori: √2−1, 2−√3 and 1/φ, with 1
+// independent over the rationals (distinct quadratic irrationals from
+// distinct fields; common practice).
+var threeAngles = []float64{math.Sqrt2 - 1, 2 - math.Sqrt(3), (math.Sqrt(5) - 1) / 2}
+
+// shortSizes are the sizes of the short chains.
+var shortSizes = []int{16, 32, 64}
+
+// shortChain is the prototype of a class (independent spacings: uniform,
+// ±12%) on a short chain.
+func shortChain(class hull.Class, n int, noise float64) Case {
+	c := prototype(class, n, noise)
+	if class == disordered {
+		c.Spec.Spread = 0.12
+	}
+	c.Name = fmt.Sprintf("short/%s/N%d/%s", class, n, noiseLabel(noise))
+	return c
+}
+
+// strongModulation is a circle of amplitude 0.3 of the spacing with 2nd
+// and 3rd harmonics (0.1, 0.05), 700 sites, optionally through a 2-D scan.
+func strongModulation(noise float64, scan bool) Case {
+	c := modulated(sqrt2m1, []float64{0.3, 0.1, 0.05}, nil, 1, noise)
+	c.Spec.Sites, c.Spec.Noise, c.Centroids = 700, noise, scan
+	route := ""
+	if scan {
+		route = "/centroids"
+	}
+	c.Name = fmt.Sprintf("circle/strong-harmonics%s/N700/%s", route, noiseLabel(noise))
+	return c
 }
 
 // scaleToMean scales a cell of spacings to mean 1.

@@ -1,9 +1,14 @@
 // Command suite measures the accuracy and precision of the hull analysis on
 // a seeded grid of generated chains whose hulls are known in closed form.
 //
-// It prints a confusion matrix (true class × reported class), one row per
-// case (class, confidence, angle error, reported uncertainty, their ratio,
-// wall time), the barcode figures of every misclassified case, the
+// It prints a confusion matrix (true hull × reported hull; a hull of p > 1
+// components is labelled with its class and ×p, "circle×2" for two
+// circles), the number of confident wrong answers (a named class, period
+// or number of components that is wrong, or angles more than 5 stated
+// uncertainties from the truth) with the false-call rate at each size,
+// one row per case (class, the size that decides it, confidence, angle
+// error, reported uncertainty, their ratio, wall time), the barcode
+// figures of every misclassified case, the
 // breakdown points of each class (the smallest size and the largest
 // position noise at which it is still recognised), and three precision
 // checks with PASS or FAIL against their goals: noise-free circle angles to
@@ -14,8 +19,12 @@
 //
 //	go run ./topology/hull/internal/suite [-quick] [-seed N] [-json]
 //
-// The grid of cases and their known hulls is in cases.go, the Cramér–Rao
-// bounds the angle precision is held to in theory.go, the runs and the
+// The grid of cases and their known hulls is in cases.go: the class of
+// each follows from its parameters, p components and d angles (hullOf). A
+// case smaller than the size that decides its class at its noise
+// (decidingSites in theory.go) counts as correct when unresolved. The
+// Cramér–Rao bounds the angle precision is held to and the deciding sizes
+// are in theory.go, the runs and the
 // checks in runner.go, the text and JSON reports in writer.go.
 //
 // The suite is a measurement, not a test: it exits 0 whatever the verdicts
@@ -67,8 +76,12 @@ const (
 )
 
 var (
-	trueClasses     = []hull.Class{hull.Point, hull.Finite, hull.Circle, hull.Torus, cantor, disordered}
-	reportedClasses = []hull.Class{hull.Point, hull.Finite, hull.Circle, hull.Torus, cantor, disordered, hull.Unresolved, failed}
+	// sweepClasses have breakdown sweeps (a prototype over sizes and
+	// noises); trueClasses are every class a case may have, in the order
+	// of the confusion matrix, and reportedClasses its columns.
+	sweepClasses    = []hull.Class{hull.Point, hull.Finite, hull.Circle, hull.Torus, cantor, disordered}
+	trueClasses     = []hull.Class{hull.Point, hull.Finite, hull.Circle, hull.Torus, torus3, cantor, disordered}
+	reportedClasses = []hull.Class{hull.Point, hull.Finite, hull.Circle, hull.Torus, torus3, cantor, disordered, hull.Unresolved, failed}
 )
 
 // Goals of the precision checks.

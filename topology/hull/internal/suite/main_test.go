@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -203,15 +204,150 @@ func TestCircleMapReference(t *testing.T) {
 func TestAngleDistance(t *testing.T) {
 	a := []float64{sqrt2m1, sqrt3m1}
 	b := topology.CanonicalBasis([]float64{sqrt2m1, sqrt2m1 + sqrt3m1})
-	if d := angleDistance(a, b); d != 0 {
+	if d := angleDistance(a, b, 1); d != 0 {
 		t.Errorf("same module in two bases: distance %v, want 0", d)
 	}
 	const delta = 1e-6
 	b[0] += delta
-	if d := angleDistance(a, b); d < delta/3 || d > 1.01*delta {
+	if d := angleDistance(a, b, 1); d < delta/3 || d > 1.01*delta {
 		t.Errorf("one angle moved by %g: distance %v", delta, d)
 	}
-	if d := angleDistance([]float64{0.3}, []float64{0.7}); d > 1e-15 {
+	if d := angleDistance([]float64{0.3}, []float64{0.7}, 1); d > 1e-15 {
 		t.Errorf("0.3 and 0.7 fold to the same angle: distance %v", d)
+	}
+}
+
+// On p components the module is (1/p)Z + Zθ: θ + k/p and −θ are the same
+// answer, another angle is not.
+func TestAngleDistanceComponents(t *testing.T) {
+	theta := sqrt2m1
+	for _, b := range []float64{theta + 0.5, 1 - theta, 0.5 - theta} {
+		if d := angleDistance([]float64{theta}, []float64{b}, 2); d > 1e-12 {
+			t.Errorf("p = 2: %v against θ = %v: distance %v, want 0", b, theta, d)
+		}
+	}
+	if d := angleDistance([]float64{theta}, []float64{theta + 0.5}, 1); d < 0.1 {
+		t.Errorf("p = 1: θ + ½ at distance %v from θ", d)
+	}
+	const delta = 1e-6
+	if d := angleDistance([]float64{theta}, []float64{theta + 1.0/3 + delta}, 3); d < delta/3 || d > 1.01*delta {
+		t.Errorf("p = 3: θ + ⅓ + δ at distance %v, want about δ = %g", d, delta)
+	}
+	// Three angles, another basis of the same module.
+	a := threeAngles
+	b := topology.CanonicalBasis([]float64{a[0] + a[1], a[1], a[2] - a[0]})
+	if d := angleDistance(a, b, 1); d != 0 {
+		t.Errorf("3-torus, same module in two bases: distance %v", d)
+	}
+}
+
+// The class of p components × a d-torus (Künneth: Betti numbers
+// p·C(d, k); common practice), and the grid's new families computed from
+// their parameters.
+func TestHullOf(t *testing.T) {
+	for _, c := range []struct {
+		p, d   int
+		class  hull.Class
+		period int
+		comps  int
+	}{
+		{1, 0, hull.Point, 1, 0}, {3, 0, hull.Finite, 3, 0}, {1, 1, hull.Circle, 0, 0},
+		{2, 1, hull.Circle, 0, 2}, {1, 2, hull.Torus, 0, 0}, {4, 2, hull.Torus, 0, 4}, {1, 3, torus3, 0, 0},
+	} {
+		var k Case
+		k.setHull(c.p, c.d)
+		if k.Class != c.class || k.Period != c.period || k.Components != c.comps {
+			t.Errorf("p = %d, d = %d: %s period %d components %d, want %s %d %d", c.p, c.d, k.Class, k.Period, k.Components, c.class, c.period, c.comps)
+		}
+	}
+	full, err := Grid(Config{Seed: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	count := map[string]int{}
+	for _, c := range full {
+		count[label(c.Class, 0, c.Components)]++
+		if c.Spec.Family == "decorated" && c.Components != cellPeriodOf(c.Spec.Cell) {
+			t.Errorf("%s: %d components for a cell of period %d", c.Name, c.Components, cellPeriodOf(c.Spec.Cell))
+		}
+	}
+	for _, l := range []string{"circle×2", "circle×3", "circle×4", "torus3"} {
+		if count[l] == 0 {
+			t.Errorf("no case of %s in the full grid", l)
+		}
+	}
+}
+
+// The deciding sizes: a lattice with position noise against independent
+// spacings needs ((2.326+1.282)/0.5)² ≈ 52.1 spacings, so 54 sites; a
+// noise-free lattice or a noise-free harmonic decides at any size; a cell
+// needs three periods.
+func TestDecidingSites(t *testing.T) {
+	if n := autocorrSites(); n != 54 {
+		t.Errorf("autocorrSites = %d, want 54", n)
+	}
+	for _, c := range []struct {
+		c    Case
+		want int
+	}{
+		{shortChain(hull.Point, 16, 0), 0},
+		{shortChain(hull.Point, 16, 0.01), 54},
+		{shortChain(disordered, 16, 0), 54},
+		{shortChain(hull.Circle, 16, 0), 0},
+		{shortChain(hull.Finite, 16, 0), 10},
+	} {
+		if got := decidingSites(c.c); got != c.want {
+			t.Errorf("%s: deciding size %d, want %d", c.c.Name, got, c.want)
+		}
+	}
+	// A line of amplitude 0.1 under 3% noise decides where
+	// n·a²/(4σ²) = 2 ln(n/0.02), between 10 and 11 sites by hand:
+	// 10·0.01/0.0036 = 27.8 < 2 ln 500 = 12.4 is already true, so the
+	// line decides from 8 on; at σ = 10% it needs n·0.25 ≥ 2 ln(50n).
+	if !lineDetected(8, 0.1, 0.03) || lineDetected(40, 0.1, 0.1) || !lineDetected(80, 0.1, 0.1) {
+		t.Error("lineDetected disagrees with the hand computation")
+	}
+}
+
+// Confident wrong answers: a wrong class, a wrong number of components, an
+// angle beyond 5 uncertainties; unresolved never is one, and below the
+// deciding size it is correct.
+func TestConfidentWrong(t *testing.T) {
+	circle2 := decorated(scaleToMean([]float64{0.88, 1.12}), sqrt2m1, 0.1, 0.01)
+	circle2.Name, circle2.Spec.Sites = "c2", 2000
+	short := shortChain(hull.Point, 16, 0.01)
+	short.MinSites = decidingSites(short)
+	outs := []Outcome{
+		{Case: circle2, Reported: hull.Circle, Components: 2, Angles: []float64{0.5 - sqrt2m1 + 1e-4}}, // right, angle 1e-4 off
+		{Case: circle2, Reported: hull.Circle, Angles: []float64{sqrt2m1}},                             // one circle: wrong
+		{Case: short, Reported: hull.Unresolved},
+		{Case: short, Reported: disordered},
+	}
+	for i, unc := range [][]float64{{1e-4}, {1e-4}, nil, nil} {
+		outs[i].assess(unc)
+	}
+	for i, want := range []struct{ correct, wrong bool }{{true, false}, {false, true}, {true, false}, {false, true}} {
+		if outs[i].Correct != want.correct || outs[i].ConfidentWrong != want.wrong {
+			t.Errorf("outcome %d (%s, %s): correct %v, confident wrong %v (%s), want %v, %v", i, outs[i].Case.Name, outs[i].Reported,
+				outs[i].Correct, outs[i].ConfidentWrong, outs[i].Wrong, want.correct, want.wrong)
+		}
+	}
+	// The same angle with a stated uncertainty 10 times smaller is
+	// confidently wrong.
+	o := Outcome{Case: circle2, Reported: hull.Circle, Components: 2, Angles: []float64{sqrt2m1 + 1e-4}}
+	if o.assess([]float64{1e-5}); !o.ConfidentWrong || !strings.Contains(o.Wrong, "stated uncertainties") {
+		t.Errorf("an angle 10 uncertainties off: confident wrong %v (%s)", o.ConfidentWrong, o.Wrong)
+	}
+	cf := confusion(outs)
+	if !slices.Equal(cf.Rows, []string{"point", "finite", "circle", "circle×2", "torus", "torus3", "cantor", "disordered"}) {
+		t.Errorf("rows %v", cf.Rows)
+	}
+	i, j := slices.Index(cf.Rows, "circle×2"), slices.Index(cf.Cols, "circle×2")
+	if j < 0 || cf.Counts[i][j] != 1 || cf.Counts[i][slices.Index(cf.Cols, "circle")] != 1 || cf.Wrong[i] != 1 || cf.Correct[i] != 1 {
+		t.Errorf("circle×2 row: cols %v, counts %v, correct %v, wrong %v", cf.Cols, cf.Counts[i], cf.Correct, cf.Wrong)
+	}
+	n, by := falseCalls(outs)
+	if n != 2 || len(by) != 2 || by[0].Sites != 16 || by[0].Rate != 0.5 || by[1].Rate != 0.5 {
+		t.Errorf("false calls %d, by size %+v", n, by)
 	}
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"cmp"
+	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -14,17 +15,25 @@ import (
 
 // Outcome is what the analysis made of one case.
 type Outcome struct {
-	Case       Case       `json:"case"`
-	Sites      int        `json:"sites"`
-	Reported   hull.Class `json:"reported_class"`
-	Period     int        `json:"reported_period,omitempty"`
-	Betti      []int      `json:"betti"`
-	Confidence float64    `json:"confidence"`
+	Case     Case       `json:"case"`
+	Sites    int        `json:"sites"`
+	Reported hull.Class `json:"reported_class"`
+	Period   int        `json:"reported_period,omitempty"`
+	// Components is the number of components the analysis reports for a
+	// hull with angles (hull.components of its JSON form; 0 for one).
+	Components int     `json:"reported_components,omitempty"`
+	Betti      []int   `json:"betti"`
+	Confidence float64 `json:"confidence"`
 	// Correct: the true class (and period) was reported. FalseHull: a
 	// negative case (cantor, disordered) was given a point, finite, circle
 	// or torus hull.
 	Correct   bool `json:"correct"`
 	FalseHull bool `json:"false_hull,omitempty"`
+	// ConfidentWrong: a class was named and it is wrong (class, period or
+	// components), or its angles miss the truth by more than
+	// wrongAngleFactor stated uncertainties; Wrong says which.
+	ConfidentWrong bool   `json:"confident_wrong"`
+	Wrong          string `json:"wrong,omitempty"`
 	// AngleError is |reported − true| (for two angles the smallest
 	// tolerance at which the two bases generate the same module);
 	// Uncertainty the reported one (root sum of squares for two angles);
@@ -59,25 +68,52 @@ type Barcode struct {
 
 // Report is everything the suite measured.
 type Report struct {
-	Seed      uint64      `json:"seed"`
-	Quick     bool        `json:"quick"`
-	Confusion Confusion   `json:"confusion"`
-	Outcomes  []Outcome   `json:"cases"`
-	Breakdown []Breakdown `json:"breakdown"`
-	Exact     ExactCheck  `json:"exact_angles"`
-	CRB       []CRBCheck  `json:"cramer_rao"`
-	Calib     Calibration `json:"uncertainty_calibration"`
-	Timing    TimingCheck `json:"timing"`
-	Seconds   float64     `json:"total_seconds"`
+	Seed      uint64    `json:"seed"`
+	Quick     bool      `json:"quick"`
+	Confusion Confusion `json:"confusion"`
+	// ConfidentWrong counts the confident wrong answers; FalseCalls gives
+	// their rate at each size.
+	ConfidentWrong int         `json:"confident_wrong_answers"`
+	FalseCalls     []FalseCall `json:"false_calls_by_size"`
+	Outcomes       []Outcome   `json:"cases"`
+	Breakdown      []Breakdown `json:"breakdown"`
+	Exact          ExactCheck  `json:"exact_angles"`
+	CRB            []CRBCheck  `json:"cramer_rao"`
+	Calib          Calibration `json:"uncertainty_calibration"`
+	Timing         TimingCheck `json:"timing"`
+	Seconds        float64     `json:"total_seconds"`
 }
 
-// Confusion counts cases by true class (rows) and reported class
-// (columns).
+// Confusion counts cases by true hull (rows) and reported hull
+// (columns). A hull of p > 1 components with angles is labelled with its
+// class and ×p ("circle×2": two circles); a finite hull is "finite"
+// whatever its period.
 type Confusion struct {
-	Rows   []hull.Class `json:"true"`
-	Cols   []hull.Class `json:"reported"`
-	Counts [][]int      `json:"counts"`
+	Rows   []string `json:"true"`
+	Cols   []string `json:"reported"`
+	Counts [][]int  `json:"counts"`
+	// Correct and Wrong count, per row, the correct answers and the
+	// confident wrong ones.
+	Correct []int `json:"correct"`
+	Wrong   []int `json:"confident_wrong"`
 }
+
+// FalseCall is the rate of confident wrong answers among the cases of one
+// size (sites before perturbation).
+type FalseCall struct {
+	Sites int     `json:"sites"`
+	Cases int     `json:"cases"`
+	Wrong int     `json:"confident_wrong"`
+	Rate  float64 `json:"rate"`
+}
+
+// wrongAngleFactor: an angle misses the truth confidently when its error
+// exceeds this many stated uncertainties (beyond the reference's own
+// precision and rounding, angleSlack).
+const (
+	wrongAngleFactor = 5
+	angleSlack       = 1e-12
+)
 
 // Run builds the grid, analyses every case in order and runs the precision
 // checks.
@@ -96,6 +132,7 @@ func Run(cfg Config) (*Report, error) {
 		rep.Outcomes = append(rep.Outcomes, o)
 	}
 	rep.Confusion = confusion(rep.Outcomes)
+	rep.ConfidentWrong, rep.FalseCalls = falseCalls(rep.Outcomes)
 	rep.Breakdown = breakdowns(rep.Outcomes)
 	rep.Exact = exactCheck(rep.Outcomes)
 	rep.Calib = calibration(rep.Outcomes)
@@ -142,27 +179,44 @@ func RunCase(c Case, seed uint64) (Outcome, error) {
 	}
 	o.Reported, o.Period, o.Betti, o.Confidence = r.Hull.Class, r.Hull.Period, r.Hull.Betti, r.Hull.Confidence
 	o.Reason, o.Angles = r.Hull.Reason, r.Angles
+	if o.Components, err = reportedComponents(r.Hull); err != nil {
+		return Outcome{}, fmt.Errorf("case %s: %w", c.Name, err)
+	}
 	o.Barcode = barcodeOf(r)
 	if r.Disorder != nil {
 		v := r.Disorder.Relative
 		o.Residual = &v
 	}
-	switch c.Class {
-	case hull.Point, hull.Finite:
-		o.Correct = o.Reported == c.Class && o.Period == c.Period
-	default:
-		o.Correct = o.Reported == c.Class
+	o.assess(r.AngleUncertainty)
+	return o, nil
+}
+
+// assess compares what was reported (class, period, components, angles
+// with their uncertainties) with the truth of the case: it sets Correct,
+// FalseHull, the angle error and its ratio, and ConfidentWrong with what
+// was wrong.
+func (o *Outcome) assess(angleUnc []float64) {
+	c := o.Case
+	right := o.Reported == c.Class && max(o.Components, 1) == max(c.Components, 1)
+	if c.Class == hull.Point || c.Class == hull.Finite {
+		right = right && o.Period == c.Period
 	}
+	o.Correct = right || c.Undecidable() && o.Reported == hull.Unresolved
 	if c.Class == cantor || c.Class == disordered {
 		switch o.Reported {
-		case hull.Point, hull.Finite, hull.Circle, hull.Torus:
+		case hull.Point, hull.Finite, hull.Circle, hull.Torus, torus3:
 			o.FalseHull = true
 		}
 	}
-	if len(c.Angles) > 0 && len(r.Angles) == len(c.Angles) {
-		e := angleDistance(c.Angles, r.Angles)
+	if named := o.Reported != hull.Unresolved && o.Reported != failed; named && !right {
+		o.ConfidentWrong = true
+		o.Wrong = fmt.Sprintf("named %s, the hull is %s", label(o.Reported, o.Period, o.Components), label(c.Class, c.Period, c.Components))
+	}
+	switch {
+	case len(c.Angles) > 0 && len(o.Angles) == len(c.Angles):
+		e := angleDistance(c.Angles, o.Angles, max(c.Components, 1))
 		var v float64
-		for _, u := range r.AngleUncertainty {
+		for _, u := range angleUnc {
 			v += u * u
 		}
 		u := math.Sqrt(v)
@@ -171,8 +225,47 @@ func RunCase(c Case, seed uint64) (Outcome, error) {
 			q := e / u
 			o.Ratio = &q
 		}
+		if right && e > wrongAngleFactor*u+c.AngleRef+angleSlack {
+			o.ConfidentWrong = true
+			o.Wrong = fmt.Sprintf("angles %s miss the true %s by %.2g, %.3g stated uncertainties", fmtList(o.Angles), fmtList(c.Angles), e, e/u)
+		}
+	case right && len(c.Angles) > 0 && c.Class != cantor:
+		o.ConfidentWrong = true
+		o.Wrong = fmt.Sprintf("%d angles reported for a hull of %d", len(o.Angles), len(c.Angles))
 	}
-	return o, nil
+}
+
+// reportedComponents reads the number of components of the reported hull
+// from its JSON form ("components"; absent or 0 stands for one), the form
+// the analysis documents it in.
+func reportedComponents(h hull.Hull) (int, error) {
+	js, err := json.Marshal(h)
+	if err != nil {
+		return 0, fmt.Errorf("the hull does not marshal: %w", err)
+	}
+	var shape struct {
+		Components int `json:"components"`
+	}
+	if err := json.Unmarshal(js, &shape); err != nil {
+		return 0, fmt.Errorf("the hull's JSON form does not read back: %w", err)
+	}
+	if shape.Components == 1 {
+		return 0, nil
+	}
+	return shape.Components, nil
+}
+
+// label names a hull for the confusion matrix and the case rows: the class,
+// with ×p for p > 1 components of a hull with angles, and the period of a
+// finite one where it is given.
+func label(c hull.Class, period, components int) string {
+	switch {
+	case c == hull.Finite && period > 0:
+		return fmt.Sprintf("finite/%d", period)
+	case components > 1:
+		return fmt.Sprintf("%s×%d", c, components)
+	}
+	return string(c)
 }
 
 func barcodeOf(r *hull.Result) Barcode {
@@ -196,14 +289,27 @@ func barcodeOf(r *hull.Result) Barcode {
 	return b
 }
 
-// angleDistance is |a − b| for one angle each (both folded); for more it
-// is the smallest tolerance at which topology.SameModule accepts the two
-// bases with coefficients up to hull.DefaultMaxCoeff, by bisection
-// (acceptance only grows with the tolerance). Any basis of the right module
-// is a correct answer, so bases are never compared entry by entry.
-func angleDistance(a, b []float64) float64 {
-	if len(a) == 1 {
+// angleDistance is |a − b| for one angle each (both folded) on a hull of
+// one component; otherwise it is the smallest tolerance at which
+// topology.SameModule accepts the two bases with coefficients up to
+// hull.DefaultMaxCoeff, by bisection (acceptance only grows with the
+// tolerance). Any basis of the right module is a correct answer, so bases
+// are never compared entry by entry. On p components the module is
+// (1/p)Z + Zθ_1 + ...: both bases are scaled by p, which makes it
+// Z + Z·pθ_1 + ..., and the distance scaled back.
+func angleDistance(a, b []float64, p int) float64 {
+	if len(a) == 1 && p == 1 {
 		return math.Abs(topology.Fold(a[0]) - topology.Fold(b[0]))
+	}
+	if p > 1 {
+		scale := func(v []float64) []float64 {
+			out := make([]float64, len(v))
+			for i, x := range v {
+				out[i] = float64(p) * x
+			}
+			return out
+		}
+		return angleDistance(scale(a), scale(b), 1) / float64(p)
 	}
 	if topology.SameModule(a, b, hull.DefaultMaxCoeff, 0) {
 		return 0
@@ -422,19 +528,93 @@ func timingCheck(seed uint64, runs int) (TimingCheck, error) {
 // --- summaries ----------------------------------------------------------------
 
 func confusion(out []Outcome) Confusion {
-	cf := Confusion{Rows: trueClasses, Cols: reportedClasses}
-	cf.Counts = make([][]int, len(trueClasses))
-	for i := range cf.Counts {
-		cf.Counts[i] = make([]int, len(reportedClasses))
+	type key struct {
+		class      hull.Class
+		components int
 	}
-	for _, o := range out {
-		i, j := slices.Index(trueClasses, o.Case.Class), slices.Index(reportedClasses, o.Reported)
-		if j < 0 {
-			j = slices.Index(reportedClasses, failed)
+	order := func(classes []hull.Class, keys map[key]bool) []key {
+		var ks []key
+		for _, c := range classes {
+			ks = append(ks, key{c, 0})
 		}
-		cf.Counts[i][j]++
+		for k := range keys {
+			if k.components > 1 {
+				ks = append(ks, k)
+			}
+		}
+		slices.SortStableFunc(ks, func(x, y key) int {
+			return cmp.Or(cmp.Compare(slices.Index(classes, x.class), slices.Index(classes, y.class)), cmp.Compare(x.components, y.components))
+		})
+		return ks
+	}
+	rowKey := func(o Outcome) key {
+		if o.Case.Class == hull.Finite {
+			return key{hull.Finite, 0}
+		}
+		return key{o.Case.Class, o.Case.Components}
+	}
+	colKey := func(o Outcome) key {
+		r := o.Reported
+		if !slices.Contains(reportedClasses, r) {
+			r = failed
+		}
+		if r == hull.Finite {
+			return key{r, 0}
+		}
+		return key{r, o.Components}
+	}
+	rowSet, colSet := map[key]bool{}, map[key]bool{}
+	for _, o := range out {
+		rowSet[rowKey(o)], colSet[colKey(o)] = true, true
+	}
+	rows, cols := order(trueClasses, rowSet), order(reportedClasses, colSet)
+	var cf Confusion
+	for _, k := range rows {
+		cf.Rows = append(cf.Rows, label(k.class, 0, k.components))
+	}
+	for _, k := range cols {
+		cf.Cols = append(cf.Cols, label(k.class, 0, k.components))
+	}
+	cf.Counts = make([][]int, len(rows))
+	for i := range cf.Counts {
+		cf.Counts[i] = make([]int, len(cols))
+	}
+	cf.Correct, cf.Wrong = make([]int, len(rows)), make([]int, len(rows))
+	for _, o := range out {
+		i := slices.Index(rows, rowKey(o))
+		cf.Counts[i][slices.Index(cols, colKey(o))]++
+		if o.Correct {
+			cf.Correct[i]++
+		}
+		if o.ConfidentWrong {
+			cf.Wrong[i]++
+		}
 	}
 	return cf
+}
+
+// falseCalls counts the confident wrong answers, in all and by size.
+func falseCalls(out []Outcome) (int, []FalseCall) {
+	bySize := map[int]*FalseCall{}
+	total := 0
+	for _, o := range out {
+		n := o.Case.Spec.Sites
+		if bySize[n] == nil {
+			bySize[n] = &FalseCall{Sites: n}
+		}
+		bySize[n].Cases++
+		if o.ConfidentWrong {
+			bySize[n].Wrong++
+			total++
+		}
+	}
+	var fc []FalseCall
+	for _, f := range bySize {
+		f.Rate = float64(f.Wrong) / float64(f.Cases)
+		fc = append(fc, *f)
+	}
+	slices.SortFunc(fc, func(x, y FalseCall) int { return cmp.Compare(x.Sites, y.Sites) })
+	return total, fc
 }
 
 // Breakdown is where a class stops being recognised in the sweeps.
@@ -468,7 +648,7 @@ type NoiseSweep struct {
 
 func breakdowns(out []Outcome) []Breakdown {
 	var bs []Breakdown
-	for _, class := range trueClasses {
+	for _, class := range sweepClasses {
 		crits := []string{"correct"}
 		if class == cantor || class == disordered {
 			crits = append(crits, "no false hull")

@@ -41,13 +41,6 @@ func fmtList(v []float64) string {
 	return "[" + strings.Join(s, " ") + "]"
 }
 
-func classLabel(c hull.Class, period int) string {
-	if c == hull.Finite {
-		return fmt.Sprintf("finite/%d", period)
-	}
-	return string(c)
-}
-
 // writeText writes the report as tables.
 func writeText(w io.Writer, rep *Report) error {
 	var b strings.Builder
@@ -57,42 +50,59 @@ func writeText(w io.Writer, rep *Report) error {
 	}
 	fmt.Fprintf(&b, "hull analysis suite (%s): %d cases, seed %d, %.0f s\n\n", mode, len(rep.Outcomes), rep.Seed, rep.Seconds)
 
-	b.WriteString("Confusion matrix (rows: true class, columns: reported class)\n")
+	b.WriteString("Confusion matrix (rows: true hull, columns: reported hull; ×p: p components)\n")
+	cf := rep.Confusion
 	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprint(tw, "true\\reported\t")
-	for _, c := range rep.Confusion.Cols {
+	for _, c := range cf.Cols {
 		fmt.Fprintf(tw, "%s\t", c)
 	}
-	fmt.Fprintln(tw, "correct\t")
-	for i, r := range rep.Confusion.Rows {
+	fmt.Fprintln(tw, "correct\tconfident wrong\t")
+	for i, r := range cf.Rows {
 		fmt.Fprintf(tw, "%s\t", r)
-		for _, n := range rep.Confusion.Counts[i] {
+		all := 0
+		for _, n := range cf.Counts[i] {
 			fmt.Fprintf(tw, "%d\t", n)
+			all += n
 		}
-		ok, all := 0, 0
-		for _, o := range rep.Outcomes {
-			if o.Case.Class == r {
-				all++
-				if o.Correct {
-					ok++
-				}
-			}
-		}
-		fmt.Fprintf(tw, "%d/%d\t\n", ok, all)
+		fmt.Fprintf(tw, "%d/%d\t%d\t\n", cf.Correct[i], all, cf.Wrong[i])
 	}
 	tw.Flush()
-	b.WriteString("(a finite hull with the wrong period counts under finite but not as correct)\n\n")
+	b.WriteString("(a finite hull with the wrong period counts under finite but not as correct; a case smaller than the size\n that decides its class counts as correct when unresolved)\n\n")
+	fmt.Fprintf(&b, "confident wrong answers: %d\n", rep.ConfidentWrong)
+	b.WriteString("(a named class, period or number of components that is wrong, or angles more than 5 stated uncertainties from the truth)\n")
+	b.WriteString("False-call rate by size (cases with a confident wrong answer)\n")
+	for _, f := range rep.FalseCalls {
+		fmt.Fprintf(&b, "  %6d sites: %d/%d = %.1f%%\n", f.Sites, f.Wrong, f.Cases, 100*f.Rate)
+	}
+	any := false
+	for _, o := range rep.Outcomes {
+		if o.ConfidentWrong {
+			if !any {
+				b.WriteString("Confident wrong answers\n")
+			}
+			any = true
+			fmt.Fprintf(&b, "  %s: %s (confidence %.2f)\n", o.Case.Name, o.Wrong, o.Confidence)
+		}
+	}
+	b.WriteString("\n")
 
 	b.WriteString("Cases (noise in mean spacings; angle error and uncertainty in turns)\n")
 	tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "case\tsites\tnoise\ttrue\treported\tok\tconf\tangle err\tuncert.\terr/unc\tresidual\ttime")
+	fmt.Fprintln(tw, "case\tsites\tnoise\ttrue\tdecides at\treported\tok\tconf\tangle err\tuncert.\terr/unc\tresidual\ttime")
 	for _, o := range rep.Outcomes {
 		ok := "yes"
 		switch {
-		case !o.Correct && o.FalseHull:
+		case o.ConfidentWrong && o.FalseHull:
 			ok = "NO (false hull)"
+		case o.ConfidentWrong:
+			ok = "NO (confident)"
 		case !o.Correct:
 			ok = "NO"
+		}
+		decides := "-"
+		if o.Case.MinSites > 0 {
+			decides = strconv.Itoa(o.Case.MinSites)
 		}
 		ratio := "-"
 		if o.Ratio != nil {
@@ -102,12 +112,12 @@ func writeText(w io.Writer, rep *Report) error {
 		if o.Residual != nil {
 			resid = fmt.Sprintf("%.2f%%", 100**o.Residual)
 		}
-		fmt.Fprintf(tw, "%s\t%d\t%.1f%%\t%s\t%s\t%s\t%.2f\t%s\t%s\t%s\t%s\t%.2fs\n", o.Case.Name, o.Sites, 100*o.Case.Noise,
-			classLabel(o.Case.Class, o.Case.Period), classLabel(o.Reported, o.Period), ok, o.Confidence,
+		fmt.Fprintf(tw, "%s\t%d\t%.1f%%\t%s\t%s\t%s\t%s\t%.2f\t%s\t%s\t%s\t%s\t%.2fs\n", o.Case.Name, o.Sites, 100*o.Case.Noise,
+			label(o.Case.Class, o.Case.Period, o.Case.Components), decides, label(o.Reported, o.Period, o.Components), ok, o.Confidence,
 			fmtE(o.AngleError), fmtE(o.Uncertainty), ratio, resid, o.Seconds)
 	}
 	tw.Flush()
-	b.WriteString("(noise-free rows: error and uncertainty near 1e-16 are rounding, and their ratio means little;\n residual: the scatter about the fitted hull, in mean spacings)\n\n")
+	b.WriteString("(noise-free rows: error and uncertainty near 1e-16 are rounding, and their ratio means little;\n residual: the scatter about the fitted hull, in mean spacings; decides at: the smallest size at which\n the class can be told from its nearest rival at the case's noise, - when any size can)\n\n")
 
 	b.WriteString("Misclassified cases: barcode figures (whitened units)\n")
 	any, expected := false, 0
@@ -126,7 +136,7 @@ func writeText(w io.Writer, rep *Report) error {
 		}
 		bc := o.Barcode
 		fmt.Fprintf(&b, "  %s: %s, Betti %v, subsamples %v; τ %.3g (cover %.3g, sampling gap %.3g, noise scale %.3g); H1 %s, H2 %s; window %d, %d components, %d landmarks\n      %s\n",
-			o.Case.Name, classLabel(o.Reported, o.Period), o.Betti, bc.Subsamples, bc.Threshold, bc.CoverRadius, bc.SamplingGap, bc.NoiseScale,
+			o.Case.Name, label(o.Reported, o.Period, o.Components), o.Betti, bc.Subsamples, bc.Threshold, bc.CoverRadius, bc.SamplingGap, bc.NoiseScale,
 			fmtList(bc.H1), fmtList(bc.H2), bc.Window, bc.Components, bc.Landmarks, o.Reason)
 	}
 	if !any {
