@@ -303,7 +303,8 @@ func (m *model) project(z []float64, f float64, ps *sums) (sinusoid, float64, fl
 // the frequency step from the normal equations of the full Jacobian
 // (the Schur complement of the linear block). A large step that raises
 // the residual is halved. It stops when a step moves the phase across the
-// chain by less than 10⁻¹³ radian, and fails when the frequency leaves
+// chain by less than 10⁻¹³ radian or is within a few units in the last
+// place of f, and fails when the frequency leaves
 // f0 ± 1/N (then f0 was not in a line's main lobe). It returns the fit
 // and its residual sum of squares minus Σz².
 func (m *model) gaussNewton(z []float64, f0 float64) (sinusoid, float64, float64, float64, bool) {
@@ -328,7 +329,7 @@ func (m *model) gaussNewton(z []float64, f0 float64) (sinusoid, float64, float64
 		// are inside the quadratic basin of the minimum, and taken).
 		if rss > bestRSS && math.Abs(f-prevF)*nf > 0.01 {
 			// The step overshot: go half-way back.
-			if math.Abs(f-prevF)*nf*tp < 1e-13 {
+			if math.Abs(f-prevF)*nf*tp < 1e-13 || math.Abs(f-prevF) <= 4*ulp(f) {
 				break
 			}
 			f = prevF + 0.5*(f-prevF)
@@ -360,7 +361,7 @@ func (m *model) gaussNewton(z []float64, f0 float64) (sinusoid, float64, float64
 		df := de / schur
 		prevF = f
 		f += df
-		if math.Abs(df)*nf*tp < 1e-13 {
+		if math.Abs(df)*nf*tp < 1e-13 || math.Abs(df) <= 4*ulp(f) {
 			break
 		}
 	}
@@ -369,6 +370,9 @@ func (m *model) gaussNewton(z []float64, f0 float64) (sinusoid, float64, float64
 	}
 	return best, bc0, bc1, bestRSS, true
 }
+
+// ulp returns the spacing of float64 values at f.
+func ulp(f float64) float64 { return math.Nextafter(f, math.Inf(1)) - f }
 
 // solveSmall solves the symmetric positive definite k×k system g·x = b
 // and returns x and g⁻¹ (row-major).
@@ -490,10 +494,11 @@ func (m *model) result(fl *noiseFloor) []Line {
 	nf := float64(m.n)
 	out := make([]Line, len(m.lines))
 	defer func() {
-		// A frequency is a float64: it is not known better than its
-		// rounding, half a unit in the last place.
+		// A frequency is a float64 in (0, ½]: it, and the integer
+		// combinations the relation search forms of it, are rounded to
+		// about ε = 2⁻⁵² absolute, so it is not known better.
 		for i := range out {
-			out[i].FreqErr = math.Max(out[i].FreqErr, out[i].Freq*0x1p-53)
+			out[i].FreqErr = math.Max(out[i].FreqErr, 0x1p-52)
 		}
 	}()
 	for i, l := range m.lines {

@@ -12,12 +12,17 @@ import (
 	"phasonhull/topology"
 )
 
+// maxCell is the largest cell, in sites, whose lines at k/p every placed
+// line can be tested for: the cells the decorated chains of practice have.
+const maxCell = 4
+
 // relate fills Period, Rank, Basis, BasisErr and Coeffs of r from its
 // lines and returns a note for the reason ("" when there is nothing to
 // add).
 //
 // The relations are searched by topology.FrequencyModule (LLL reduction,
-// one number at a time, most precise first), with the error bound
+// one number at a time: the lines that are rational on their own first,
+// then the most precise), with the error bound
 // eps = z·max σ_f over the lines searched, z the normal quantile of
 // 1 − α/(2L): every one of L lines is then inside its bound with
 // probability at least 1 − α, the false-alarm probability of the line
@@ -44,13 +49,31 @@ func relate(r *Reading, alpha float64) string {
 		use[i] = i
 	}
 	slices.SortStableFunc(use, func(a, b int) int { return cmp.Compare(r.Lines[a].FreqErr, r.Lines[b].FreqErr) })
-	// Keep the most precise lines while the search at their precision
-	// can still resolve coefficient 2 (a second harmonic, a cell of two)
-	// among 1 and up to three other numbers: a line coarser than that
+	// Rational lines first: a line at c/p, tested alone against 1, needs
+	// coefficient p, which the search resolves among two numbers far
+	// more easily than among the rank + 1 it would meet later.
+	rational := make([]bool, L)
+	for i, l := range r.Lines {
+		eps := z * l.FreqErr
+		_, rational[i] = topology.FindRelation([]float64{1, l.Freq}, eps, topology.CoefficientBound(2, eps))
+	}
+	slices.SortStableFunc(use, func(a, b int) int {
+		if rational[a] != rational[b] {
+			if rational[a] {
+				return -1
+			}
+			return 1
+		}
+		return 0
+	})
+	// Keep lines while the search at their precision can still resolve
+	// coefficient 2 (a second harmonic, a cell of two) among 1 and up to
+	// three other numbers, and coefficient maxCell for the line alone
+	// against 1 (a cell of up to maxCell sites): a line coarser than that
 	// would raise the rank by a relation it cannot see.
 	for k := 1; k <= len(use); k++ {
 		eps := z * r.Lines[use[k-1]].FreqErr
-		if topology.CoefficientBound(min(k+1, 4), eps) < 2 {
+		if topology.CoefficientBound(min(k+1, 4), eps) < 2 || topology.CoefficientBound(2, eps) < maxCell {
 			use = use[:k-1]
 			break
 		}

@@ -50,6 +50,7 @@ type spectrum struct {
 	wsum   float64 // Σ w
 	buf    []float64
 	coef   []complex128
+	cos1   []float64 // cos 2πf at each grid bin
 	// Significance: a line is a peak with power/floor above thrGen, or
 	// above thrEdge within a main lobe of ½ (where the transform of
 	// real data is real and the power a χ²₁ variable).
@@ -111,6 +112,10 @@ func newSpectrum(n int, alpha float64) *spectrum {
 	}
 	sp.thrEdge = hi
 	sp.clip = math.Log(m) + 2
+	sp.cos1 = make([]float64, nfft/2+1)
+	for k := range sp.cos1 {
+		sp.cos1[k] = math.Cos(2 * math.Pi * sp.freq(k))
+	}
 	return sp
 }
 
@@ -194,6 +199,11 @@ func (fl *noiseFloor) at(f float64) float64 {
 	return math.Max(math.Max(s, fl.min), fl.rounding)
 }
 
+// atBin returns the floor at grid bin k of sp.
+func (fl *noiseFloor) atBin(sp *spectrum, k int) float64 {
+	return math.Max(math.Max(fl.c[0]+fl.c[1]*sp.cos1[k], fl.min), fl.rounding)
+}
+
 // noise returns the square root of the floor's mean over (0, ½]: the
 // standard deviation of the noise.
 func (fl *noiseFloor) noise() float64 { return math.Sqrt(math.Max(fl.c[0], 0)) }
@@ -237,21 +247,17 @@ func (sp *spectrum) fitFloor(pow []float64, lines []float64) *noiseFloor {
 		var ata [floorTerms * floorTerms]float64
 		var atb [floorTerms]float64
 		var cnt int
-		var row [floorTerms]float64
 		for k, p := range pow {
 			if !use[k] {
 				continue
 			}
 			cnt++
-			f := sp.freq(k)
 			w := 1.0
 			if pass > 0 {
-				v := fl.at(f)
+				v := fl.atBin(sp, k)
 				w = 1 / (v * v)
 			}
-			for j := range row {
-				row[j] = math.Cos(2 * math.Pi * float64(j) * f)
-			}
+			row := [floorTerms]float64{1, sp.cos1[k]}
 			for i := range row {
 				atb[i] += w * row[i] * p
 				for j := range row {
@@ -272,7 +278,7 @@ func (sp *spectrum) fitFloor(pow []float64, lines []float64) *noiseFloor {
 			break
 		}
 		for k, p := range pow {
-			if use[k] && p > sp.clip*fl.at(sp.freq(k)) {
+			if use[k] && p > sp.clip*fl.atBin(sp, k) {
 				for j := max(k-lobeBins, 0); j <= min(k+lobeBins, len(pow)-1); j++ {
 					use[j] = false
 				}
@@ -305,7 +311,7 @@ func (sp *spectrum) candidates(pow []float64, fl *noiseFloor, lines []float64, m
 		if sp.freq(k) > edge {
 			thr = sp.thrEdge
 		}
-		if pow[k] > thr*fl.at(sp.freq(k)) {
+		if pow[k] > thr*fl.atBin(sp, k) {
 			peaks = append(peaks, peak{k, pow[k]})
 		}
 	}

@@ -229,8 +229,14 @@ func reason(r *Reading, limited bool, note string) string {
 	default:
 		fmt.Fprintf(&b, "%d lines", len(r.Lines))
 	}
+	placed := false
+	for _, c := range r.Coeffs {
+		placed = placed || c != nil
+	}
 	if len(r.Lines) > 0 {
 		fmt.Fprintf(&b, " above the noise (%.3g of the mean spacing)", r.Noise)
+	}
+	if placed {
 		switch {
 		case r.Rank == 0:
 			fmt.Fprintf(&b, ", all at multiples of 1/%d", r.Period)
