@@ -10,6 +10,7 @@ import (
 	"phasonhull/embed"
 	"phasonhull/pattern"
 	"phasonhull/topology"
+	"phasonhull/topology/tones"
 )
 
 // Defaults of Options.
@@ -200,6 +201,7 @@ type analysis struct {
 	// for chains without a hull model may still decide, else it stands.
 	undecided *verdict
 	module    *topology.Module // the group of factor frequencies of an aperiodic tiling
+	tones     *tones.Reading   // the algebraic reading of the spacings; nil until read
 }
 
 func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error) {

@@ -14,6 +14,9 @@ type verdict struct {
 	// components is p of a hull of p components × a d-torus (0: one, or
 	// the period for point and finite).
 	components int
+	// word marks a verdict read through the tile word: the checks of the
+	// readings of continuous modulations leave it alone.
+	word bool
 	// betti nil means the class's own (see ClassInfo); the barcode rules
 	// give the numbers they read.
 	betti      []int
@@ -67,6 +70,9 @@ var checks = []check{
 	// A class with angles: the angles measured on it must reproduce the
 	// positions (the model check), else neither angles nor class.
 	(*analysis).anglesCheck,
+	// A hull of p components × a d-torus: the spectral lines of the
+	// spacings must show the same p and d (the algebraic reading).
+	(*analysis).algebraCheck,
 }
 
 // decide walks the decision list, runs the checks on the first verdict

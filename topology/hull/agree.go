@@ -1,0 +1,225 @@
+package hull
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+
+	"phasonhull/topology"
+
+	"phasonhull/topology/tones"
+)
+
+// pd returns p and d of a verdict's hull of p components × a d-torus, and
+// false for the classes without that form or read through the tile word.
+func (v *verdict) pd() (p, d int, ok bool) {
+	ci := info(v.class)
+	if ci.TorusDimension < 0 || v.word {
+		return 0, 0, false
+	}
+	p = v.components
+	if p == 0 {
+		p = max(v.period, 1)
+	}
+	return p, ci.TorusDimension, true
+}
+
+// algebraCheck compares the verdict with the algebraic reading of the
+// spacings (package tones): the strong spectral lines, the rational part
+// 1/p and the rank d of the module they generate. A class of p components
+// × a d-torus stands only when the two readings agree: the lines give the
+// same p and d, or every line lies in the module (1/p)Z + Zθ1 + … + Zθd of
+// the verdict's measured angles (within three standard errors, with
+// coefficients up to maxLineCoeff) and the lines use every angle (see
+// inModule). Otherwise the chain is unresolved and the reason says what
+// each reading found. It runs after the angles are measured and checked.
+func (a *analysis) algebraCheck(ctx context.Context, v *verdict) (*verdict, error) {
+	p, d, ok := v.pd()
+	if !ok {
+		return v, nil
+	}
+	u := a.filledSpacings()
+	if len(u) < tones.MinSpacings {
+		return v, nil // too short for lines; the short-chain check decides
+	}
+	r, err := tones.Read(ctx, u, tones.Options{Seed: a.opt.Seed})
+	if err != nil {
+		return nil, fmt.Errorf("algebraic reading: %w", err)
+	}
+	a.tones = r
+	if r.Period == p && r.Rank == d {
+		return v, nil
+	}
+	if len(a.res.Angles) == d && inModule(r.Lines, p, a.res.Angles, a.res.AngleUncertainty, len(u)) {
+		return v, nil
+	}
+	a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
+	a.res.Trace.Coordinates = nil
+	a.res.Disorder, a.res.SiteResiduals = nil, nil
+	return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
+		reason: fmt.Sprintf("the two readings disagree: the %s reads %s, the spectral lines of the spacings read %s (%s); more sites or less noise would decide", v.source(), torusHullPD(p, d), torusHullPD(r.Period, r.Rank), r.Reason)}, nil
+}
+
+// Placing a line in the verdict's module: coefficients up to
+// maxLineCoeff are tried, smallest Σ|m_i| first, but a match at order k
+// counts only while the chance that a frequency drawn at random in
+// (0, ½] falls within the tolerance of one of the candidates of order ≤ k
+// stays below lineChance (a look-elsewhere bound: candidates × 2·tol / ½).
+// The tolerance is three combined standard errors plus a hundredth of the
+// Rayleigh resolution 1/L, which covers the bias that lines too weak to
+// fit leave on the others.
+const (
+	maxLineCoeff = 30
+	lineChance   = 0.01
+)
+
+// inModule tells whether every line lies in (1/p)Z + Σ Zθ_i, up to sign and
+// mod 1, within the tolerance (see maxLineCoeff); and whether the
+// coefficient vectors m of the lines span all d angles (the lines show
+// every angle the verdict names, rank d). L is the length of the chain in
+// sites.
+func inModule(lines []tones.Line, p int, theta, thetaErr []float64, L int) bool {
+	d := len(theta)
+	var used [][]int
+	for _, l := range lines {
+		found := false
+		candidates := 0
+		forEachVector(d, maxLineCoeff, func(m []int) bool {
+			var g, ge float64
+			for i, c := range m {
+				g += float64(c) * theta[i]
+				ge += math.Abs(float64(c)) * thetaErr[i]
+			}
+			tol := 3*(l.FreqErr+ge) + 0.01/float64(L)
+			candidates += p
+			if float64(candidates)*4*tol > lineChance {
+				return false
+			}
+			for j := range p {
+				if math.Abs(topology.Fold(g+float64(j)/float64(p))-l.Freq) <= tol {
+					found = true
+					used = append(used, slices.Clone(m))
+					return false
+				}
+			}
+			return true
+		})
+		if !found {
+			return false
+		}
+	}
+	return intRank(used, d) == d
+}
+
+// forEachVector calls fn with every integer vector of length d and entries
+// in [−M, M], smallest Σ|m_i| first, until fn returns false.
+func forEachVector(d, M int, fn func(m []int) bool) {
+	m := make([]int, d)
+	for total := 0; total <= d*M; total++ {
+		var walk func(i, left int) bool
+		walk = func(i, left int) bool {
+			if i == d {
+				return left != 0 || fn(m)
+			}
+			for v := -min(left, M); v <= min(left, M); v++ {
+				m[i] = v
+				if !walk(i+1, left-abs(v)) {
+					return false
+				}
+			}
+			return true
+		}
+		if !walk(0, total) {
+			return
+		}
+	}
+}
+
+// intRank returns the rank of integer vectors of length d (Gaussian
+// elimination over the rationals, in floating point on small integers).
+func intRank(rows [][]int, d int) int {
+	a := make([][]float64, len(rows))
+	for i, r := range rows {
+		a[i] = make([]float64, d)
+		for j, v := range r {
+			a[i][j] = float64(v)
+		}
+	}
+	rank := 0
+	for col := 0; col < d && rank < len(a); col++ {
+		piv := -1
+		for i := rank; i < len(a); i++ {
+			if math.Abs(a[i][col]) > 1e-9 {
+				piv = i
+				break
+			}
+		}
+		if piv < 0 {
+			continue
+		}
+		a[rank], a[piv] = a[piv], a[rank]
+		for i := range a {
+			if i != rank && a[i][col] != 0 {
+				f := a[i][col] / a[rank][col]
+				for j := range d {
+					a[i][j] -= f * a[rank][j]
+				}
+			}
+		}
+		rank++
+	}
+	return rank
+}
+
+// source names the reading behind a verdict.
+func (v *verdict) source() string {
+	if v.betti != nil {
+		return fmt.Sprintf("barcodes (Betti %v)", v.betti)
+	}
+	return "spacing test"
+}
+
+// torusHullPD names p components × a d-torus in words.
+func torusHullPD(p, d int) string {
+	switch {
+	case d == 0 && p == 1:
+		return "a point (one site per period)"
+	case d == 0:
+		return fmt.Sprintf("%d points (period %d)", p, p)
+	}
+	return torusHull(p, d)
+}
+
+// filledSpacings returns the dimensionless spacings by site index, a
+// spacing across k missing sites split into k + 1 equal ones and spurious
+// sites left out, so that spacing i belongs to site index i.
+func (a *analysis) filledSpacings() []float64 {
+	var out []float64
+	prev := -1
+	for j, pos := range a.p.Positions {
+		if a.spurious[j] {
+			continue
+		}
+		if prev >= 0 {
+			steps := a.index[j] - a.index[prev]
+			gap := (pos - a.p.Positions[prev]) / a.res.MeanSpacing
+			for range max(steps, 1) {
+				out = append(out, gap/float64(max(steps, 1)))
+			}
+		}
+		prev = j
+	}
+	return out
+}
+
+// partial tells whether a reading left a line out of the module (a line
+// without integer coordinates): its period and rank are then lower bounds.
+func partial(r *tones.Reading) bool {
+	for i := range r.Lines {
+		if i >= len(r.Coeffs) || r.Coeffs[i] == nil {
+			return true
+		}
+	}
+	return false
+}
