@@ -7,7 +7,7 @@ import (
 	"slices"
 
 	"phasonhull/topology"
-
+	"phasonhull/topology/shortchain"
 	"phasonhull/topology/tones"
 )
 
@@ -189,6 +189,95 @@ func torusHullPD(p, d int) string {
 		return fmt.Sprintf("%d points (period %d)", p, p)
 	}
 	return torusHull(p, d)
+}
+
+// shortSites is the size below which a chain is read by the calibrated
+// short-chain decision (package shortchain) as well: the barcodes and the
+// noise measured from the same few spacings are not calibrated there.
+const shortSites = 200
+
+// shortCheck: a chain below shortSites sites must also be read so by the
+// calibrated short-chain decision (package shortchain), whose false-call
+// rate was measured by simulation; a class it does not establish is not
+// called, and when it cannot decide, the reason gives the smallest size
+// that would.
+func (a *analysis) shortCheck(ctx context.Context, v *verdict) (*verdict, error) {
+	if a.p.Len() >= shortSites || v.word || v.class == Cantor {
+		return v, nil
+	}
+	if a.p.Len() < shortchain.Smallest {
+		a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
+		return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
+			reason: fmt.Sprintf("%d sites are too few for any calibrated decision: at least %d sites would decide", a.p.Len(), shortchain.Smallest)}, nil
+	}
+	dec, err := shortchain.Decide(ctx, a.p.Positions, shortchain.Options{})
+	if err != nil {
+		return nil, fmt.Errorf("short-chain decision: %w", err)
+	}
+	said := fmt.Sprintf("the short-chain test (calibrated false-call rate %.2g%%) reads %s: %s", 100*dec.FalseCallRate, shortKind(dec), dec.Reason)
+	if dec.Kind == shortchain.Undecided {
+		need := "more sites"
+		if dec.MinSites > 0 {
+			need = fmt.Sprintf("at least %d sites at the measured noise", dec.MinSites)
+		}
+		if v.class == Unresolved {
+			v.reason += fmt.Sprintf("; the short-chain test cannot decide either: %s would", need)
+			return v, nil
+		}
+		a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
+		return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
+			reason: fmt.Sprintf("%d sites are too few to establish %s: the short-chain test cannot decide (%s); %s would decide", a.p.Len(), v.class, dec.Reason, need)}, nil
+	}
+	if v.class == Unresolved {
+		v.reason += "; " + said
+		return v, nil
+	}
+	if agrees(v, dec, a.res) {
+		v.reason += "; " + said
+		v.confidence = math.Min(v.confidence, 1-dec.FalseCallRate)
+		return v, nil
+	}
+	a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
+	return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
+		reason: fmt.Sprintf("the readings disagree on %d sites: the analysis reads %s, but %s; more sites would decide", a.p.Len(), v.class, said)}, nil
+}
+
+// shortKind names a short-chain decision.
+func shortKind(d shortchain.Decision) string {
+	switch d.Kind {
+	case shortchain.Cell:
+		return fmt.Sprintf("a periodic cell of %d sites", d.Period)
+	case shortchain.Harmonic:
+		return fmt.Sprintf("a harmonic modulation of angle %.4g ± %.2g", d.Angle, d.AngleErr)
+	case shortchain.Lattice:
+		return "a lattice with position noise"
+	case shortchain.Independent:
+		return "independent spacings"
+	}
+	return string(d.Kind)
+}
+
+// agrees tells whether the short-chain decision names the verdict's hull:
+// a lattice a point, a cell of p sites a finite hull of period p,
+// independent spacings a disordered chain, and a harmonic modulation a
+// circle whose measured angle lies within three combined uncertainties of
+// the decision's.
+func agrees(v *verdict, d shortchain.Decision, res *Result) bool {
+	switch d.Kind {
+	case shortchain.Lattice:
+		return v.class == Point
+	case shortchain.Cell:
+		return v.class == Finite && v.period == d.Period
+	case shortchain.Independent:
+		return v.class == Disordered
+	case shortchain.Harmonic:
+		if v.class != Circle || max(v.components, 1) != 1 || len(res.Angles) != 1 {
+			return false
+		}
+		diff := math.Abs(res.Angles[0] - topology.Fold(d.Angle))
+		return diff <= 3*math.Hypot(res.AngleUncertainty[0], d.AngleErr)
+	}
+	return false
 }
 
 // filledSpacings returns the dimensionless spacings by site index, a

@@ -73,6 +73,9 @@ var checks = []check{
 	// A hull of p components × a d-torus: the spectral lines of the
 	// spacings must show the same p and d (the algebraic reading).
 	(*analysis).algebraCheck,
+	// A chain of fewer than shortSites sites: the calibrated short-chain
+	// decision must name the same hull.
+	(*analysis).shortCheck,
 }
 
 // decide walks the decision list, runs the checks on the first verdict
