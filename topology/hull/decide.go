@@ -131,12 +131,33 @@ func (a *analysis) anglesCheck(ctx context.Context, v *verdict) (*verdict, error
 		return nil, err
 	}
 	if why == "" {
+		why = a.rationalAngle()
+	}
+	if why == "" {
 		return v, nil
 	}
 	a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
 	a.res.Trace.Coordinates = nil
 	return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
 		reason: fmt.Sprintf("the barcodes show %s %v, but %s", torusHull(v.components, ci.angles), v.betti, why)}, nil
+}
+
+// rationalAngle says why a measured angle does not establish a hull with
+// angles when it equals a fraction k/q, q ≤ MaxPeriod, within three of its
+// standard uncertainties: a modulation by k/q is periodic with period q
+// (a finite hull), and at this precision the two cannot be told apart.
+// Empty when no angle is that close to a fraction.
+func (a *analysis) rationalAngle() string {
+	for i, t := range a.res.Angles {
+		tol := 3 * a.res.AngleUncertainty[i]
+		for q := 1; q <= a.opt.MaxPeriod; q++ {
+			k := math.Round(t * float64(q))
+			if d := math.Abs(t - k/float64(q)); d <= tol {
+				return fmt.Sprintf("the angle %.6g ± %.2g equals %d/%d within its uncertainty: a periodic chain of period %d and a circle cannot be told apart at this precision; less noise or more sites would decide", t, a.res.AngleUncertainty[i], int(k), q, q)
+			}
+		}
+	}
+	return ""
 }
 
 // torusHull names p components × a d-torus.
