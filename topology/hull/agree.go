@@ -54,6 +54,15 @@ func (a *analysis) algebraCheck(ctx context.Context, v *verdict) (*verdict, erro
 	if len(a.res.Angles) == d && inModule(r.Lines, p, a.res.Angles, a.res.AngleUncertainty, len(u)) {
 		return v, nil
 	}
+	// A line too imprecise to place in the module leaves the reading
+	// partial: its period divides the true one and its rank is at most
+	// the true one (package tones). A partial reading that allows the
+	// verdict's p and d does not contradict it: the verdict stands, with
+	// a warning that the lines do not establish it.
+	if partial(r) && p%r.Period == 0 && r.Rank <= d {
+		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the spectral lines of the spacings allow %s but do not establish it (%s)", torusHullPD(p, d), r.Reason))
+		return v, nil
+	}
 	a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
 	a.res.Trace.Coordinates = nil
 	a.res.Disorder, a.res.SiteResiduals = nil, nil
@@ -210,7 +219,13 @@ func (a *analysis) shortCheck(ctx context.Context, v *verdict) (*verdict, error)
 		return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
 			reason: fmt.Sprintf("%d sites are too few for any calibrated decision: at least %d sites would decide", a.p.Len(), shortchain.Smallest)}, nil
 	}
-	dec, err := shortchain.Decide(ctx, a.p.Positions, shortchain.Options{})
+	run := a.cleanRun()
+	if len(run) < shortchain.Smallest {
+		a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
+		return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
+			reason: fmt.Sprintf("the longest run of consecutive sites without a missing, spurious or outlying site has %d sites, too few for a calibrated decision on a chain of %d sites: at least %d clean consecutive sites would decide", len(run), a.p.Len(), shortchain.Smallest)}, nil
+	}
+	dec, err := shortchain.Decide(ctx, run, shortchain.Options{})
 	if err != nil {
 		return nil, fmt.Errorf("short-chain decision: %w", err)
 	}
@@ -240,6 +255,34 @@ func (a *analysis) shortCheck(ctx context.Context, v *verdict) (*verdict, error)
 	a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
 	return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
 		reason: fmt.Sprintf("the readings disagree on %d sites: the analysis reads %s, but %s; more sites would decide", a.p.Len(), v.class, said)}, nil
+}
+
+// cleanRun returns the positions of the longest run of consecutive sites
+// (site indices one apart) with no spurious site and no site the angle fit
+// left out as an outlier: the short-chain decision assumes a chain whose
+// sites differ from its model by position noise only.
+func (a *analysis) cleanRun() []float64 {
+	bad := map[int]bool{}
+	for _, n := range a.outliers {
+		bad[n] = true
+	}
+	var best, cur []float64
+	prev := -2
+	for j, x := range a.p.Positions {
+		if a.spurious[j] || bad[a.index[j]] {
+			cur, prev = nil, -2
+			continue
+		}
+		if a.index[j] != prev+1 {
+			cur = nil
+		}
+		cur = append(cur, x)
+		prev = a.index[j]
+		if len(cur) > len(best) {
+			best = cur
+		}
+	}
+	return best
 }
 
 // shortKind names a short-chain decision.

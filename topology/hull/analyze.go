@@ -195,6 +195,7 @@ type analysis struct {
 	res *Result
 
 	spurious     []bool    // spurious[j]: site j looks spurious
+	outliers     []int     // site indices the angle fit left out as outliers
 	index        []int     // index[j]: site index of site j, skipping missing sites
 	clean        []bool    // clean[i]: spacing i joins two kept sites one step apart
 	siteWarnings []string  // what siteSteps found, reported unless the tiling route decides

@@ -343,6 +343,8 @@ func (a *analysis) dropOutliers(fit topology.FrequencyFit, h int, n []int, x []f
 	for i, r := range fit.Residuals {
 		if math.Abs(r) <= outlierFactor*sigma || sigma == 0 {
 			keepN, keepX, keep = append(keepN, n[i]), append(keepX, x[i]), append(keep, i)
+		} else {
+			a.outliers = append(a.outliers, n[i])
 		}
 	}
 	dropped := len(x) - len(keepX)
