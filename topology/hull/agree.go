@@ -51,7 +51,7 @@ func (a *analysis) algebraCheck(ctx context.Context, v *verdict) (*verdict, erro
 	if r.Period == p && r.Rank == d {
 		return v, nil
 	}
-	if len(a.res.Angles) == d && inModule(r.Lines, p, a.res.Angles, a.res.AngleUncertainty, len(u)) {
+	if len(a.res.Angles) == d && inModule(resolvedLines(r.Lines), p, a.res.Angles, a.res.AngleUncertainty, len(u)) {
 		return v, nil
 	}
 	// A line too imprecise to place in the module leaves the reading
@@ -341,6 +341,23 @@ func (a *analysis) filledSpacings() []float64 {
 			}
 		}
 		prev = j
+	}
+	return out
+}
+
+// minLineAmp is the smallest line amplitude, in mean spacings, the
+// comparison of the readings takes into account: a millionth of the mean
+// spacing, which no measurement resolves (embed.AbsoluteCut is the same
+// bound on a variance); weaker lines of exact data are rounding.
+const minLineAmp = 1e-6
+
+// resolvedLines returns the lines of amplitude at least minLineAmp.
+func resolvedLines(lines []tones.Line) []tones.Line {
+	var out []tones.Line
+	for _, l := range lines {
+		if l.Amp >= minLineAmp {
+			out = append(out, l)
+		}
 	}
 	return out
 }
