@@ -34,13 +34,21 @@ with the effective step angle of the shift on it and the gap labels it allows.
 
 Classes:
 ` + classList() + `
+A hull with a continuous modulation is p components × a d-torus (point 1 × 0,
+finite p × 0, circle p × 1, torus p × 2, torus3 p × 3); the JSON form gives p
+as hull.components and d as hull.torus_dimension (a circle decorated by a
+cell of two sites: class circle, components 2).
+
 The angle is the rotation number of the shift on the recovered hull, in turns,
 folded into [0, 1/2]; it is measured from circular coordinates and refined by
-a least-squares fit of the positions, with a one-sigma uncertainty. Gap labels
-are the values n + m·θ (+ m2·θ2) in (0, 1) with |m| ≤ --max-coeff, or k/p for
-a finite hull: by the gap-labelling theorem, the integrated density of states
-in any spectral gap of a pattern-equivariant operator on this chain takes one
-of these values. They say where gaps may open, not that they do.
+a least-squares fit of the positions, with a one-sigma uncertainty. Angles
+(and their class) are reported only when the positions refitted on them
+leave residuals consistent with the measured noise. Gap labels are the values
+n + k/p + m·θ (+ m2·θ2 …) in (0, 1) with |k|, |m| ≤ --max-coeff (k only when
+p > 1), or k/p for a finite hull: by the gap-labelling theorem, the
+integrated density of states in any spectral gap of a pattern-equivariant
+operator on this chain takes one of these values. They say where gaps may
+open, not that they do.
 
 --json prints one object (schema phasonhull.analysis/1, documented in the
 README).`,

@@ -10,6 +10,7 @@ import (
 	"phasonhull/embed"
 	"phasonhull/pattern"
 	"phasonhull/topology"
+	"phasonhull/topology/tones"
 )
 
 // Defaults of Options.
@@ -120,13 +121,20 @@ func Analyze(p *pattern.Pattern, opt Options) (*Result, error) {
 //     direction above the noise (point); Vietoris–Rips barcodes of the
 //     landmarks of the delay cloud, read by the significance rule on
 //     Subsamples landmark sets, naming the class whose Betti numbers they
-//     show ((1,1,0) a circle, (1,2,1) a torus); a shaken lattice (point);
+//     show (p components × a d-torus: p·C(d, k), so (1,1,0) a circle,
+//     (2,2,0) two circles, (1,2,1) a torus); a shaken lattice (point);
 //     independent spacings filling the window (disordered); otherwise
 //     unresolved, with what would decide. Classes lists every class.
-//  4. For a circle or torus, circular coordinates from the most persistent
-//     H1 cocycles give the rotation number(s) of the shift, refined by a
-//     least-squares fit of the site positions (see measureAngles); every
-//     hull with a model gets the scatter of the sites about it.
+//  4. The verdict is checked before it stands (see checks): the angles of
+//     a circle or torus, from circular coordinates refined by a
+//     least-squares fit of the site positions (see measureAngles), must
+//     reproduce the positions within the measured noise; the spectral
+//     lines of the spacings (package tones) must show the same p and d;
+//     a chain of fewer than 200 sites must be read the same by the
+//     calibrated short-chain decision (package shortchain). A verdict
+//     that fails a check becomes unresolved, saying what each reading
+//     found. Every hull with a model gets the scatter of the sites about
+//     it.
 //  5. The gap labels follow from the class and the angles.
 func AnalyzeContext(ctx context.Context, p *pattern.Pattern, opt Options) (*Result, error) {
 	opt, err := opt.withDefaults()
@@ -167,9 +175,8 @@ func (a *analysis) model(ctx context.Context) error {
 	ci := info(a.res.Hull.Class)
 	switch {
 	case ci.angles > 0:
-		if err := a.measureAngles(ctx, ci.angles); err != nil {
-			return err
-		}
+		// The angles were measured and checked when the class was
+		// decided (anglesCheck).
 		if a.res.Disorder != nil && a.res.Tiles == nil {
 			if mi, dim, ok := a.disorderFigures(); ok {
 				a.res.Disorder.MutualInformation, a.res.Disorder.IntrinsicDimension = mi, dim
@@ -188,6 +195,7 @@ type analysis struct {
 	res *Result
 
 	spurious     []bool    // spurious[j]: site j looks spurious
+	outliers     []int     // site indices the angle fit left out as outliers
 	index        []int     // index[j]: site index of site j, skipping missing sites
 	clean        []bool    // clean[i]: spacing i joins two kept sites one step apart
 	siteWarnings []string  // what siteSteps found, reported unless the tiling route decides
@@ -201,6 +209,7 @@ type analysis struct {
 	// for chains without a hull model may still decide, else it stands.
 	undecided *verdict
 	module    *topology.Module // the group of factor frequencies of an aperiodic tiling
+	tones     *tones.Reading   // the algebraic reading of the spacings; nil until read
 }
 
 func newAnalysis(p *pattern.Pattern, opt Options, res *Result) (*analysis, error) {

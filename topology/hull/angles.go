@@ -7,12 +7,18 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
 
 	"phasonhull/topology"
 )
 
-// measureAngles measures the effective step angle(s) of a circle or torus
-// hull.
+// measureAngles measures the effective step angle(s) of a hull of p
+// components × a k-torus (circle, torus), and checks them (see
+// checkModel): it returns a reason for refusing them, empty when they
+// reproduce the positions.
 //
 // Rough value: the most persistent H1 cocycle(s) of the landmark barcode
 // give circular coordinates (de Silva, Morozov & Vejdemo-Johansson 2011),
@@ -20,35 +26,85 @@ import (
 // mean lifted increment of the coordinate from one vector to the next,
 // weighted as Das & Yorke (2018) prescribe when the chain has no gaps.
 // This is the rotation number on the hull, not any generating parameter:
-// it is what a deformed loop or a nonlinear circle map still has.
+// it is what a deformed loop or a nonlinear circle map still has. With p
+// components each gets its own coordinates (componentCoordinates) and the
+// p-th power of the shift, which maps each component to itself, turns it
+// by p·θ: θ is known up to a multiple of 1/p, and the fit below tells
+// which.
 //
-// Refinement: the site positions are fitted by least squares with a
-// harmonic series in the rotation number(s) plus a linear trend (variable
-// projection; topology.RefineFrequencies), the number of harmonics chosen
-// by the Bayesian information criterion. In white position noise this is
-// the maximum-likelihood estimate; its standard error is the reported
-// uncertainty. Where the fit cannot be made, the rough value stands, with
-// its own uncertainty.
-//
-// k is the number of angles: 1 for a circle, 2 for a torus.
-func (a *analysis) measureAngles(ctx context.Context, k int) error {
-	coords, err := a.reading.coordinates(a.cloud, k)
-	if err != nil {
-		return err
-	}
-	a.res.Trace.Coordinates = append(a.res.Trace.Coordinates, coords...)
-	rough := make([]float64, k)
-	roughErr := make([]float64, k)
-	for i, c := range coords {
-		rough[i], roughErr[i], err = a.roughAngle(c)
+// Refinement: the site positions (less the periodic cell of p sites) are
+// fitted by least squares with a harmonic series in the rotation
+// number(s) plus a linear trend (variable projection;
+// topology.RefineFrequencies), the number of harmonics chosen by the
+// Bayesian information criterion. In white position noise this is the
+// maximum-likelihood estimate; its standard error is the reported
+// uncertainty.
+func (a *analysis) measureAngles(ctx context.Context, k, p int) (string, error) {
+	var rough []float64
+	if p <= 1 {
+		coords, err := a.reading.coordinates(a.cloud, k)
 		if err != nil {
-			return err
+			return "", err
+		}
+		a.res.Trace.Coordinates = append(a.res.Trace.Coordinates, coords...)
+		rough = make([]float64, k)
+		for i, c := range coords {
+			if rough[i], _, err = a.roughAngle(c, a.em.Rows, 1); err != nil {
+				return "", err
+			}
+		}
+	} else {
+		var err error
+		if rough, err = a.componentAngles(ctx, k, p); err != nil {
+			return "", err
 		}
 	}
 	if err := ctx.Err(); err != nil {
-		return err
+		return "", err
 	}
 	n, x := a.fitSites()
+	if p > 1 {
+		r, ok := cellResiduals(n, x, p)
+		if !ok {
+			return fmt.Sprintf("%d sites are too few to fit a cell of %d sites and the angle(s)", len(x), p), nil
+		}
+		x = r
+	}
+	// With p components the rough angles are known up to multiples of 1/p:
+	// every candidate is fitted and the best fit stands.
+	var fit topology.FrequencyFit
+	h, err := 0, errors.New("no candidate angle")
+	bestRMS := math.Inf(1)
+	for _, cand := range shifts(rough, p) {
+		f, hh, e := a.refine(n, x, cand)
+		if e == nil && f.RMS < bestRMS {
+			fit, h, err, bestRMS = f, hh, nil, f.RMS
+		}
+		if err != nil && e != nil {
+			err = e
+		}
+	}
+	if err != nil {
+		return "the least-squares fit of the positions on the angle(s) failed (" + err.Error() + "): the angles are not established", nil
+	}
+	fit, n, x = a.dropOutliers(fit, h, n, x)
+	freq, se := fit.Freq, fit.StdErr
+	if k == 2 {
+		freq, se = dominantBasis(n, x, freq, se)
+	}
+	if why := a.checkModel(n, x, freq, p, h); why != "" {
+		return why, nil
+	}
+	a.setAngles(freq, se)
+	a.setResiduals(fit.Residuals, fmt.Sprintf("lattice plus %d harmonic(s) of the angle(s)", h))
+	a.res.AngleMethod = fmt.Sprintf("rotation number of the circular coordinate, refined by a least-squares fit of the positions with %d harmonic(s)", h)
+	return "", nil
+}
+
+// refine fits positions x at indices n from rough angles: on the first
+// poolSize sites with the number of harmonics the criterion chooses, then,
+// for a longer chain, once on every site.
+func (a *analysis) refine(n []int, x []float64, rough []float64) (topology.FrequencyFit, int, error) {
 	fit, h, err := bestFit(n[:min(len(n), poolSize)], x[:min(len(x), poolSize)], rough)
 	if err == nil && len(x) > poolSize {
 		// A long chain: the harmonics and a first frequency come from its
@@ -60,29 +116,24 @@ func (a *analysis) measureAngles(ctx context.Context, k int) error {
 		}
 		fit, err = topology.RefineFrequencies(n, x, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2})
 	}
-	if err == nil {
-		fit, n, x = a.dropOutliers(fit, h, n, x)
-	}
-	if err != nil {
-		// The rough angles stand.
-		a.res.Warnings = append(a.res.Warnings, "the least-squares refinement of the angle failed ("+err.Error()+"); the angle is the circular-coordinate estimate")
-		a.setAngles(rough, roughErr)
-		a.res.AngleMethod = "rotation number of the circular coordinate"
-		return nil
-	}
-	freq, se := fit.Freq, fit.StdErr
-	if k == 2 {
-		freq, se = dominantBasis(n, x, freq, se)
-	}
-	a.setAngles(freq, se)
-	a.setResiduals(fit.Residuals, fmt.Sprintf("lattice plus %d harmonic(s) of the angle(s)", h))
-	a.res.AngleMethod = fmt.Sprintf("rotation number of the circular coordinate, refined by a least-squares fit of the positions with %d harmonic(s)", h)
-	for i := range rough {
-		if d := math.Abs(topology.Fold(fit.Freq[i]) - topology.Fold(rough[i])); d > 3*roughErr[i]+3*fit.StdErr[i] {
-			a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the refined angle %.6g differs from the circular-coordinate estimate %.6g by more than their uncertainties: check the class", topology.Fold(fit.Freq[i]), topology.Fold(rough[i])))
+	return fit, h, err
+}
+
+// shifts returns the candidate angles f + j/p (every j_i in 0..p−1).
+func shifts(f []float64, p int) [][]float64 {
+	out := [][]float64{slices.Clone(f)}
+	for i := range f {
+		var next [][]float64
+		for _, c := range out {
+			for j := 1; j < p; j++ {
+				d := slices.Clone(c)
+				d[i] += float64(j) / float64(p)
+				next = append(next, d)
+			}
 		}
+		out = append(out, next...)
 	}
-	return nil
+	return out
 }
 
 // setAngles folds the angles, puts them in canonical order and stores
@@ -105,15 +156,18 @@ func (a *analysis) setAngles(f, e []float64) {
 // coordinate of the delay vectors, and an uncertainty for it. The shift
 // moves a site's vector to the next site's, so the runs of consecutive
 // vectors carry the rotation.
-func (a *analysis) roughAngle(coords []float64) (float64, float64, error) {
+//
+// With step > 1, coords and rows are those of the vectors of one component,
+// and the runs are of vectors step sites apart; rows[i] is the first
+// spacing of the vector of coords[i].
+func (a *analysis) roughAngle(coords []float64, rows []int, step int) (float64, float64, error) {
 	// Runs of consecutive delay vectors (vectors across missing or
 	// spurious sites were left out of the cloud).
-	rows := a.em.Rows
 	var sum float64
 	var steps int
 	start := 0
 	for i := 1; i <= len(coords); i++ {
-		if i < len(coords) && rows[i] == rows[i-1]+1 {
+		if i < len(coords) && rows[i] == rows[i-1]+step {
 			continue
 		}
 		if run := coords[start:i]; len(run) >= 3 {
@@ -274,7 +328,8 @@ const (
 // dropOutliers refits without the sites that lie far from the fitted model
 // (displaced sites, a spurious site the spacing rules missed), when they
 // are few. The residuals of the sites left out stay those of the first fit,
-// so they still show in the per-site residuals.
+// so they still show in the per-site residuals; the indices and positions
+// returned are those of the sites the fit kept.
 func (a *analysis) dropOutliers(fit topology.FrequencyFit, h int, n []int, x []float64) (topology.FrequencyFit, []int, []float64) {
 	abs := make([]float64, len(fit.Residuals))
 	for i, r := range fit.Residuals {
@@ -288,6 +343,8 @@ func (a *analysis) dropOutliers(fit topology.FrequencyFit, h int, n []int, x []f
 	for i, r := range fit.Residuals {
 		if math.Abs(r) <= outlierFactor*sigma || sigma == 0 {
 			keepN, keepX, keep = append(keepN, n[i]), append(keepX, x[i]), append(keep, i)
+		} else {
+			a.outliers = append(a.outliers, n[i])
 		}
 	}
 	dropped := len(x) - len(keepX)
@@ -310,5 +367,180 @@ func (a *analysis) dropOutliers(fit topology.FrequencyFit, h int, n []int, x []f
 	}
 	refit.Residuals = res
 	a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("%d site(s) lie more than %d robust standard deviations from the fitted hull model and were left out of the angle fit", dropped, outlierFactor))
-	return refit, n, x
+	return refit, keepN, keepX
+}
+
+// componentAngles returns rough angles of a hull of p components ×
+// a k-torus: on each component its own circular coordinates, turned by
+// the p-th power of the shift through p·θ; the component with the longest
+// runs gives p·θ, and θ = (p·θ)/p up to a multiple of 1/p.
+func (a *analysis) componentAngles(ctx context.Context, k, p int) ([]float64, error) {
+	comps, err := a.reading.componentCoordinates(ctx, a.cloud, k, a.opt)
+	if err != nil {
+		return nil, err
+	}
+	if len(comps) != p {
+		return nil, fmt.Errorf("measuring angles: the cloud splits into %d components, the barcodes showed %d", len(comps), p)
+	}
+	best, bestLen := []float64(nil), 0
+	for _, c := range comps {
+		rows := make([]int, len(c.points))
+		for i, j := range c.points {
+			rows[i] = a.em.Rows[j]
+		}
+		rough := make([]float64, k)
+		ok := true
+		for i, co := range c.coords {
+			r, _, err := a.roughAngle(co, rows, p)
+			if err != nil {
+				ok = false
+				break
+			}
+			rough[i] = r / float64(p)
+		}
+		if ok && len(c.points) > bestLen {
+			best, bestLen = rough, len(c.points)
+		}
+	}
+	if best == nil {
+		return nil, errors.New("measuring angles: no component has a run of three delay vectors p sites apart")
+	}
+	return best, nil
+}
+
+// The model check. The angles stated with a class must reproduce the
+// positions: the positions are refitted by linear least squares on the
+// stated basis f — a trend, the periodic cell of p sites, and the tones
+// m·f + j/p, 1 ≤ |m|₁ ≤ h, 0 ≤ j < p — and the residual sum of squares
+// RSS, in units of the measured position noise variance σ², must stay
+// below modelSlack times the 0.999 quantile of χ² with N − P degrees of
+// freedom. σ² is the measured noise variance of one spacing over two
+// (independent position noise; common practice), floored at
+// (minModelNoise mean spacings)²; the slack of 2 covers the uncertainty of
+// the measured noise variance. A wrong basis leaves the modulation itself
+// in the residuals, many times the noise.
+const (
+	modelSlack    = 2
+	modelQuantile = 0.999
+	minModelNoise = 1e-6
+)
+
+// checkModel applies the model check; it returns why the angles fail it,
+// empty when they pass.
+func (a *analysis) checkModel(n []int, x []float64, f []float64, p, h int) string {
+	rss, params, ok := harmonicRSS(n, x, f, p, h)
+	if !ok {
+		return fmt.Sprintf("the harmonic model of %d harmonic(s) on the angles %v has more parameters than %d sites can fit: the angles are not established", h, folded(f), len(x))
+	}
+	m := a.res.MeanSpacing
+	sigma2 := math.Max(a.res.Embedding.NoiseVariance/2, minModelNoise*minModelNoise) * m * m
+	dof := float64(len(x) - params)
+	bound := modelSlack * distuv.ChiSquared{K: dof}.Quantile(modelQuantile)
+	if chi2 := rss / sigma2; !(chi2 <= bound) {
+		return fmt.Sprintf("the positions refitted on the angles %v leave residuals of %.3g mean spacings RMS, %.3g times the measured noise %.3g (χ² %.4g over %g degrees of freedom, bound %.4g): the angles do not reproduce the chain", folded(f), math.Sqrt(rss/float64(len(x)))/m, math.Sqrt(chi2/dof), math.Sqrt(sigma2)/m, chi2, dof, bound)
+	}
+	return ""
+}
+
+func folded(f []float64) []string {
+	out := make([]string, len(f))
+	for i, v := range f {
+		out[i] = strconv.FormatFloat(topology.Fold(v), 'g', 6, 64)
+	}
+	return out
+}
+
+// harmonicRSS fits x_n = c0 + c1·n + cell_{n mod p} + Σ tones by linear
+// least squares at the frequencies f (see the model check) and returns the
+// residual sum of squares and the number of parameters; false when the
+// chain is too short for the model.
+func harmonicRSS(n []int, x []float64, f []float64, p, h int) (float64, int, bool) {
+	L := float64(n[len(n)-1] - n[0] + 1)
+	var freqs []float64
+	taken := func(g float64) bool {
+		if g < 0.5/L || g > 0.5-0.5/L {
+			return true
+		}
+		for _, o := range freqs {
+			if math.Abs(o-g) < 1/L {
+				return true
+			}
+		}
+		return false
+	}
+	m := make([]int, len(f))
+	var walk func(i, left int)
+	walk = func(i, left int) {
+		if i == len(f) {
+			first := 0
+			for _, v := range m {
+				if v != 0 {
+					first = v
+					break
+				}
+			}
+			if first <= 0 { // one of ±m, and not m = 0
+				return
+			}
+			for j := range p {
+				if g := topology.Fold(dotInts(m, f) + float64(j)/float64(p)); !taken(g) {
+					freqs = append(freqs, g)
+				}
+			}
+			return
+		}
+		for v := -left; v <= left; v++ {
+			m[i] = v
+			walk(i+1, left-abs(v))
+		}
+	}
+	walk(0, h)
+	cols := 2 + (p - 1) + 2*len(freqs)
+	if len(x) <= cols+1 {
+		return 0, 0, false
+	}
+	mid := 0.5 * float64(n[0]+n[len(n)-1])
+	A := mat.NewDense(len(x), cols, nil)
+	for i, v := range n {
+		t := float64(v) - mid
+		A.Set(i, 0, 1)
+		A.Set(i, 1, t)
+		if j := ((v % p) + p) % p; j > 0 {
+			A.Set(i, 1+j, 1)
+		}
+		for k, g := range freqs {
+			s, c := math.Sincos(2 * math.Pi * math.Mod(g*t, 1))
+			A.Set(i, 1+p+2*k, s)
+			A.Set(i, 2+p+2*k, c)
+		}
+	}
+	var qr mat.QR
+	qr.Factorize(A)
+	var beta mat.Dense
+	if err := qr.SolveTo(&beta, false, mat.NewDense(len(x), 1, slices.Clone(x))); err != nil {
+		return 0, 0, false
+	}
+	var fitted mat.Dense
+	fitted.Mul(A, &beta)
+	var rss float64
+	for i := range x {
+		r := x[i] - fitted.At(i, 0)
+		rss += r * r
+	}
+	return rss, cols, true
+}
+
+func dotInts(m []int, f []float64) float64 {
+	var s float64
+	for i, v := range m {
+		s += float64(v) * f[i]
+	}
+	return s
+}
+
+func abs(v int) int {
+	if v < 0 {
+		return -v
+	}
+	return v
 }

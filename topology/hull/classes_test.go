@@ -21,9 +21,11 @@ func TestClassTable(t *testing.T) {
 			t.Errorf("%s: summary of %d bytes does not fit a help line", c.Class, len(c.Summary))
 		}
 		if c.angles > 0 {
-			named, ok := namedByBetti([3]int(c.betti(1)))
-			if !ok || named.Class != c.Class {
-				t.Errorf("%s: Betti numbers %v name %q", c.Class, c.betti(1), named.Class)
+			for p := 1; p <= maxComponents; p++ {
+				named, q, ok := namedByBetti([3]int(c.betti(p)))
+				if !ok || named.Class != c.Class || q != p {
+					t.Errorf("%s: Betti numbers %v name %q with %d components, want %d", c.Class, c.betti(p), named.Class, q, p)
+				}
 			}
 			if c.reason == "" || c.labels == nil {
 				t.Errorf("%s: a class with angles needs a reason and labels", c.Class)
@@ -37,6 +39,42 @@ func TestClassTable(t *testing.T) {
 	}
 	if len(seen) != len(classes) {
 		t.Errorf("the table has %d classes, the documented values %d", len(seen), len(classes))
+	}
+}
+
+// The Betti numbers of p disjoint d-tori are p·C(d, k) (Künneth formula
+// for the torus T^d = (S^1)^d, additivity over disjoint unions; common
+// practice): checked against the ranks computed independently by
+// multiplying Poincaré polynomials (1 + t)^d.
+func TestTorusBetti(t *testing.T) {
+	for d := 0; d <= 3; d++ {
+		poly := []int{1} // (1 + t)^d, built by repeated multiplication
+		for range d {
+			next := make([]int, len(poly)+1)
+			for i, c := range poly {
+				next[i] += c
+				next[i+1] += c
+			}
+			poly = next
+		}
+		for p := 1; p <= 4; p++ {
+			got := torusBetti(d)(p)
+			for k := range 3 {
+				want := 0
+				if k < len(poly) {
+					want = p * poly[k]
+				}
+				if got[k] != want {
+					t.Errorf("%d × T^%d: b%d = %d, want %d", p, d, k, got[k], want)
+				}
+			}
+		}
+		if ci := info(classOf(1, d)); ci.TorusDimension != d {
+			t.Errorf("classOf(1, %d) = %s of torus dimension %d", d, ci.Class, ci.TorusDimension)
+		}
+	}
+	if got := torusBetti(1)(2); got[0] != 2 || got[1] != 2 || got[2] != 0 {
+		t.Errorf("two circles: Betti %v, want (2, 2, 0)", got)
 	}
 }
 
@@ -56,7 +94,7 @@ func TestReadmeListsClasses(t *testing.T) {
 	if row == nil {
 		t.Fatal("README: no row documenting hull.class")
 	}
-	got := regexp.MustCompile("`([a-z]+)`").FindAllStringSubmatch(row[1], -1)
+	got := regexp.MustCompile("`([a-z][a-z0-9]*)`").FindAllStringSubmatch(row[1], -1)
 	var names []string
 	for _, g := range got {
 		names = append(names, g[1])

@@ -2,6 +2,7 @@ package hull
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -35,6 +36,10 @@ type cloud struct {
 	// floor: a cloud in four or more may be a torus, whose loops and
 	// 2-cycle need a denser cover than a circle's loop.
 	components int
+	// noise is the root-mean-square displacement of a point by the
+	// measured noise, in the cloud's units: the noise scale of the
+	// significance rule.
+	noise float64
 }
 
 // The significance rule for bars. A bar of the landmark barcode is
@@ -43,10 +48,12 @@ type cloud struct {
 //	τ = max(2·max(δ, ε), 3·s)
 //
 // with δ the cover radius of the landmarks in the cloud, ε half the largest
-// finite H0 death (half the largest gap of the sampled trace), and s the
-// noise scale read off the short bars: the largest persistence among the
-// bars of dimension ≥ 1 that no class of hull explains (all H1 bars but
-// the two longest, all H2 bars but the longest).
+// H0 death inside a component (half the largest gap of the sampled trace),
+// and s the noise scale of the cloud: the root-mean-square displacement of
+// a point by the measured noise, propagated to the cloud's units
+// (cloud.noise). The noise scale is measured off the data's noise, not off
+// the bars being counted, so three or four equally long loops do not raise
+// the threshold that is to count them.
 //
 // The sampling term follows the stability theorem for Vietoris–Rips
 // barcodes (Chazal, de Silva & Oudot, Geom. Dedicata 173, 2014: the
@@ -57,13 +64,21 @@ type cloud struct {
 // 4·max(δ, ε) long, and bars that short stem from sampling. It is used at
 // half that worst case, since the worst case needs every landmark
 // displaced the same way. The noise term asks a significant bar to be three
-// times longer than anything that noise produced in the same barcode. The
-// rule is checked on every class of generated hull from noise-free to 5%
-// position noise (see the tests and the benchmark suite); its factors are
-// named below.
+// times longer than the noise displacement of a point, the persistence of
+// the loops noise closes (by the same theorem, a cloud moved by s has bars
+// within 2s of the noise-free one's).
+//
+// The components are read off the H0 deaths first: the hull has p
+// components when the p−1 longest finite H0 bars die at scales above τ and
+// at least componentGap times later than every other H0 bar (the gaps
+// between components against the gaps inside them); ε is then taken from
+// the H0 bars inside the components. The rule is checked on every class of
+// generated hull from noise-free to 5% position noise (see the tests and
+// the benchmark suite); its factors are named below.
 const (
 	samplingFactor = 2
 	noiseFactor    = 3
+	componentGap   = 3
 	// torusLandmarks is the least number of landmarks H2 is computed on.
 	torusLandmarks = 300
 )
@@ -83,6 +98,9 @@ type reading struct {
 	// behind it.
 	diagram   *rips.Diagram
 	landmarks [][]float64
+	// eps and merge are the main barcode's sampling gap and the scale at
+	// which its components merge (+Inf for one).
+	eps, merge float64
 }
 
 // readBarcodes computes the barcodes of c on opt.Subsamples landmark sets
@@ -159,6 +177,97 @@ func (r *reading) coordinates(c *cloud, k int) ([][]float64, error) {
 	return out, nil
 }
 
+// componentCoords are the circular coordinates of the points of one
+// component of a cloud: coords[i][j] is the i-th coordinate of point
+// points[j] (an index into the cloud's points, ascending).
+type componentCoords struct {
+	points []int
+	coords [][]float64
+}
+
+// componentCoordinates splits the cloud into the components its main
+// barcode showed and gives each the circular coordinates of its k most
+// persistent loops, from the barcode of its own landmarks. The landmarks
+// are split by the Rips graph at the geometric mean of the largest gap
+// inside a component and the scale at which the components merge; every
+// point joins the component of its nearest landmark.
+func (r *reading) componentCoordinates(ctx context.Context, c *cloud, k int, opt Options) ([]componentCoords, error) {
+	lm := r.landmarks
+	scale := math.Sqrt(2 * r.eps * r.merge)
+	if math.IsInf(r.merge, 1) || !(scale > 0) {
+		return nil, errors.New("circular coordinates: the barcode shows one component")
+	}
+	parent := make([]int, len(lm))
+	for i := range parent {
+		parent[i] = i
+	}
+	var find func(int) int
+	find = func(i int) int {
+		for parent[i] != i {
+			parent[i] = parent[parent[i]]
+			i = parent[i]
+		}
+		return i
+	}
+	for i := range lm {
+		for j := i + 1; j < len(lm); j++ {
+			if dist(lm[i], lm[j]) <= scale {
+				parent[find(i)] = find(j)
+			}
+		}
+	}
+	label := map[int]int{}
+	comp := make([]int, len(lm))
+	for i := range lm {
+		root := find(i)
+		if _, ok := label[root]; !ok {
+			label[root] = len(label)
+		}
+		comp[i] = label[root]
+	}
+	out := make([]componentCoords, len(label))
+	for j, x := range c.points {
+		best, bd := 0, math.Inf(1)
+		for i, y := range lm {
+			if d := dist(x, y); d < bd {
+				best, bd = i, d
+			}
+		}
+		out[comp[best]].points = append(out[comp[best]].points, j)
+	}
+	for ci := range out {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		var sub [][]float64
+		for i, y := range lm {
+			if comp[i] == ci {
+				sub = append(sub, y)
+			}
+		}
+		dg, err := rips.VietorisRipsContext(ctx, sub, rips.Options{MaxDim: 1, Prime: cocyclePrime, Cocycles: true, MemoryBudget: opt.MemoryBudget, Workers: opt.Workers})
+		if err != nil {
+			return nil, err
+		}
+		sr := &reading{diagram: dg, landmarks: sub}
+		cc, err := sr.coordinates(&cloud{points: pick(c.points, out[ci].points)}, k)
+		if err != nil {
+			return nil, fmt.Errorf("component %d: %w", ci+1, err)
+		}
+		out[ci].coords = cc
+	}
+	return out, nil
+}
+
+func dist(a, b []float64) float64 {
+	var s float64
+	for i := range a {
+		d := a[i] - b[i]
+		s += d * d
+	}
+	return math.Sqrt(s)
+}
+
 // topCocycles returns the cocycles of the k most persistent H1 bars.
 func topCocycles(dg *rips.Diagram, k int) ([]rips.Cocycle, error) {
 	var h1 []int
@@ -204,12 +313,12 @@ func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Op
 	if err != nil {
 		return bettiReading{}, err
 	}
-	tau, eps, noise := threshold(dg.Bars, cover)
-	b := count(dg.Bars, tau)
+	tau, eps, merge := threshold(dg.Bars, cover, c.noise)
+	b := count(dg.Bars, tau, merge)
 	// Two loops that stand out above noise and sampling gap but not yet
 	// above the cover radius ask for a denser cover too: a torus's loops
 	// are longer than a sparse cover lets them show.
-	loose := count(dg.Bars, math.Max(samplingFactor*eps, noiseFactor*noise))
+	loose := count(dg.Bars, math.Max(samplingFactor*eps, noiseFactor*c.noise), merge)
 	if b[1] >= 2 || loose[1] >= 2 {
 		// A 2-cycle needs a denser cover than a loop: H2 is computed on at
 		// least torusLandmarks landmarks.
@@ -221,39 +330,59 @@ func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Op
 			lm, cover = pick(c.points, idx), cv
 		}
 		opt.MaxDim = 2
+		// Cycles born after the components merge do not count, so a
+		// cloud of several components is computed up to that scale only:
+		// its components then stay apart as essential H0 bars.
+		split := merge
+		if !math.IsInf(split, 1) {
+			opt.Threshold = split
+		}
 		if dg, err = rips.VietorisRipsContext(ctx, lm, opt); err != nil {
 			return bettiReading{}, err
 		}
-		tau, eps, noise = threshold(dg.Bars, cover)
-		b = count(dg.Bars, tau)
+		tau, eps, merge = threshold(dg.Bars, cover, c.noise)
+		merge = min(merge, split)
+		b = count(dg.Bars, tau, merge)
 	}
 	br := bettiReading{betti: b, band: band(dg.Bars, tau)}
 	if main {
-		r.diagram, r.landmarks = dg, lm
+		r.diagram, r.landmarks, r.eps, r.merge = dg, lm, eps, merge
 		p := &r.persistence
-		p.Threshold, p.CoverRadius, p.SamplingGap, p.NoiseScale = tau, cover, eps, noise
+		p.Threshold, p.CoverRadius, p.SamplingGap, p.NoiseScale = tau, cover, eps, c.noise
 		p.Bars = reportBars(dg.Bars, tau)
 	}
 	return br, nil
 }
 
 // threshold returns τ of the significance rule for a barcode, with its
-// sampling gap ε and noise scale s.
-func threshold(bars []rips.Bar, cover float64) (tau, eps, noise float64) {
-	var p1, p2 []float64
+// sampling gap ε and the scale at which the components found merge (+Inf
+// for one component), given the cover radius and the noise scale.
+func threshold(bars []rips.Bar, cover, noise float64) (tau, eps, merge float64) {
+	var deaths []float64
 	for _, b := range bars {
-		switch {
-		case b.Dim == 0 && !b.Essential():
-			eps = math.Max(eps, b.Death/2)
-		case b.Dim == 1 && !b.Essential():
-			p1 = append(p1, b.Persistence())
-		case b.Dim == 2 && !b.Essential():
-			p2 = append(p2, b.Persistence())
+		if b.Dim == 0 && !b.Essential() {
+			deaths = append(deaths, b.Death)
 		}
 	}
-	// The classes explain at most two loops and one 2-cycle.
-	noise = math.Max(kthLargest(p1, 3), kthLargest(p2, 2))
-	return math.Max(samplingFactor*math.Max(cover, eps), noiseFactor*noise), eps, noise
+	slices.Sort(deaths)
+	slices.Reverse(deaths)
+	floor := math.Max(samplingFactor*cover, noiseFactor*noise)
+	// The gaps between components: the longest H0 bars standing above the
+	// floor and componentGap times above every bar after them.
+	split := 0
+	for k := 1; k < min(len(deaths), maxComponents); k++ {
+		if deaths[k-1] > floor && deaths[k-1] > componentGap*deaths[k] {
+			split = k
+		}
+	}
+	if split < len(deaths) {
+		eps = deaths[split] / 2
+	}
+	merge = math.Inf(1)
+	if split > 0 {
+		merge = deaths[split-1]
+	}
+	return math.Max(samplingFactor*math.Max(cover, eps), noiseFactor*noise), eps, merge
 }
 
 // kthLargest returns the k-th largest value of v (1-based), 0 when v has
@@ -268,11 +397,19 @@ func kthLargest(v []float64, k int) float64 {
 }
 
 // count returns the Betti numbers b0..b2: the bars longer than tau (every
-// essential bar counts).
-func count(bars []rips.Bar, tau float64) [3]int {
+// essential bar counts). With components that merge at scale merge, b0
+// counts the H0 bars dying at or after it, and a bar of dimension ≥ 1
+// counts only when born before it: the homology of each component shows
+// while the components are apart, and cycles born as they join belong to
+// the space between them, not to the hull.
+func count(bars []rips.Bar, tau, merge float64) [3]int {
 	var b [3]int
 	for _, x := range bars {
-		if x.Dim <= 2 && x.Persistence() > tau {
+		switch {
+		case x.Dim == 0 && (x.Essential() || x.Death >= merge):
+			b[0]++
+		case x.Dim == 0:
+		case x.Dim <= 2 && x.Persistence() > tau && x.Birth < merge:
 			b[x.Dim]++
 		}
 	}

@@ -3,6 +3,7 @@ package hull
 import (
 	"context"
 	"fmt"
+	"math"
 )
 
 // verdict is a rule's proposal of a class, with what Result.Hull reports
@@ -10,6 +11,12 @@ import (
 type verdict struct {
 	class  Class
 	period int
+	// components is p of a hull of p components × a d-torus (0: one, or
+	// the period for point and finite).
+	components int
+	// word marks a verdict read through the tile word: the checks of the
+	// readings of continuous modulations leave it alone.
+	word bool
 	// betti nil means the class's own (see ClassInfo); the barcode rules
 	// give the numbers they read.
 	betti      []int
@@ -52,8 +59,28 @@ var rules = []rule{
 	(*analysis).unresolvedRule,
 }
 
-// decide walks the decision list and sets the class from the first
-// verdict: the one place where Result.Hull is set.
+// check examines the verdict of the decision list and confirms it (it
+// returns v) or overrules it with an unresolved verdict saying what each
+// reading found. Like a rule it never sets the class itself.
+type check func(a *analysis, ctx context.Context, v *verdict) (*verdict, error)
+
+// checks run, in order, on the first verdict of the decision list: a
+// class stands only when every check confirms it.
+var checks = []check{
+	// A class with angles: the angles measured on it must reproduce the
+	// positions (the model check), else neither angles nor class.
+	(*analysis).anglesCheck,
+	// A hull of p components × a d-torus: the spectral lines of the
+	// spacings must show the same p and d (the algebraic reading).
+	(*analysis).algebraCheck,
+	// A chain of fewer than shortSites sites: the calibrated short-chain
+	// decision must name the same hull.
+	(*analysis).shortCheck,
+}
+
+// decide walks the decision list, runs the checks on the first verdict
+// and sets the class from what stands: the one place where Result.Hull is
+// set.
 func (a *analysis) decide(ctx context.Context) error {
 	for _, r := range rules {
 		if err := ctx.Err(); err != nil {
@@ -66,14 +93,79 @@ func (a *analysis) decide(ctx context.Context) error {
 		if v == nil {
 			continue
 		}
+		for _, c := range checks {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			if v, err = c(a, ctx, v); err != nil {
+				return err
+			}
+		}
+		ci := info(v.class)
+		p, d := v.components, ci.TorusDimension
+		if p == 0 {
+			p = max(v.period, 1)
+		}
+		if d < 0 {
+			p, d = 0, 0
+		}
 		betti := v.betti
 		if betti == nil {
-			betti = info(v.class).betti(v.period)
+			betti = ci.betti(p)
 		}
-		a.res.Hull = Hull{Class: v.class, Betti: betti, Period: v.period, Confidence: v.confidence, ScaleBand: v.band, Reason: v.reason}
+		a.res.Hull = Hull{Class: v.class, Betti: betti, Period: v.period, Components: p, TorusDimension: d, Confidence: v.confidence, ScaleBand: v.band, Reason: v.reason}
 		return nil
 	}
 	panic("hull: the decision list ended without a verdict")
+}
+
+// anglesCheck measures the angles of a class with angles (see
+// measureAngles) and keeps the class only when they pass the model check.
+func (a *analysis) anglesCheck(ctx context.Context, v *verdict) (*verdict, error) {
+	ci := info(v.class)
+	if ci.angles == 0 || a.reading == nil {
+		return v, nil
+	}
+	why, err := a.measureAngles(ctx, ci.angles, max(v.components, 1))
+	if err != nil {
+		return nil, err
+	}
+	if why == "" {
+		why = a.rationalAngle()
+	}
+	if why == "" {
+		return v, nil
+	}
+	a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
+	a.res.Trace.Coordinates = nil
+	return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
+		reason: fmt.Sprintf("the barcodes show %s %v, but %s", torusHull(v.components, ci.angles), v.betti, why)}, nil
+}
+
+// rationalAngle says why a measured angle does not establish a hull with
+// angles when it equals a fraction k/q, q ≤ MaxPeriod, within three of its
+// standard uncertainties: a modulation by k/q is periodic with period q
+// (a finite hull), and at this precision the two cannot be told apart.
+// Empty when no angle is that close to a fraction.
+func (a *analysis) rationalAngle() string {
+	for i, t := range a.res.Angles {
+		tol := 3 * a.res.AngleUncertainty[i]
+		for q := 1; q <= a.opt.MaxPeriod; q++ {
+			k := math.Round(t * float64(q))
+			if d := math.Abs(t - k/float64(q)); d <= tol {
+				return fmt.Sprintf("the angle %.6g ± %.2g equals %d/%d within its uncertainty: a periodic chain of period %d and a circle cannot be told apart at this precision; less noise or more sites would decide", t, a.res.AngleUncertainty[i], int(k), q, q)
+			}
+		}
+	}
+	return ""
+}
+
+// torusHull names p components × a d-torus.
+func torusHull(p, d int) string {
+	if p <= 1 {
+		return torusName(d)
+	}
+	return fmt.Sprintf("%d copies of %s", p, torusName(d))
 }
 
 // periodRule: an exact period of the spacings, checked against the
@@ -129,7 +221,7 @@ func (a *analysis) barcodeRule(ctx context.Context) (*verdict, error) {
 	if a.undecided != nil {
 		return nil, nil
 	}
-	c := &cloud{points: a.pool, landmarkIdx: a.em.Landmarks, landmarks: a.em.LandmarkCloud, cover: a.em.CoverRadius, components: a.em.Whitened.Kept}
+	c := &cloud{points: a.pool, landmarkIdx: a.em.Landmarks, landmarks: a.em.LandmarkCloud, cover: a.em.CoverRadius, components: a.em.Whitened.Kept, noise: a.cloudNoise()}
 	r, err := readBarcodes(ctx, c, a.opt)
 	if err != nil {
 		return nil, err
@@ -139,9 +231,12 @@ func (a *analysis) barcodeRule(ctx context.Context) (*verdict, error) {
 	a.res.Embedding.Landmarks, a.res.Embedding.CoverRadius = len(c.landmarkIdx), c.cover
 	a.res.Persistence = r.persistence
 	var v *verdict
-	if ci, ok := namedByBetti(r.betti); ok {
-		v = &verdict{class: ci.Class, betti: r.betti[:], confidence: r.confidence, band: r.band, reason: ci.reason}
-		if ci.angles == 1 {
+	if ci, p, ok := namedByBetti(r.betti); ok {
+		v = &verdict{class: ci.Class, components: p, betti: r.betti[:], confidence: r.confidence, band: r.band, reason: ci.reason}
+		if p > 1 {
+			v.reason = fmt.Sprintf("%d components, each with %s: the shift visits the components in turn and turns %d copies of %s", p, torusCycles(ci.angles), p, torusName(ci.angles))
+		}
+		if ci.angles == 1 && p == 1 {
 			if second := kthLargest(h1Persistences(r.diagram.Bars), 2); second > r.persistence.Threshold/2 {
 				a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("a second loop (persistence %.3g) stands above half the significance threshold %.3g: the hull may be a torus seen through noise; more sites or less noise would decide", second, r.persistence.Threshold))
 			}
@@ -202,4 +297,42 @@ func (a *analysis) independent() *verdict {
 	a.spacingSpread()
 	return &verdict{class: Disordered, confidence: 1,
 		reason: "the spacings vary independently of one another (no autocorrelation at any lag): the positions wander from any lattice like a random walk, so there is no hull at all; the spread of the spacings is the disorder"}
+}
+
+// torusCycles says what the barcodes show on one component of a d-torus.
+func torusCycles(d int) string {
+	switch d {
+	case 1:
+		return "one persistent loop"
+	case 2:
+		return "two persistent loops and one persistent 2-cycle"
+	}
+	return "three persistent loops and three persistent 2-cycles"
+}
+
+// torusName names the d-torus.
+func torusName(d int) string {
+	switch d {
+	case 1:
+		return "a circle"
+	case 2:
+		return "a two-torus"
+	}
+	return "a three-torus"
+}
+
+// cloudNoise propagates the measured noise variance of one dimensionless
+// spacing to the whitened cloud: each kept component is a unit direction
+// in the window, along which the noise has about that variance, scaled by
+// one over the square root of the component's eigenvalue; the root of the
+// sum over the kept components is the displacement of a point.
+func (a *analysis) cloudNoise() float64 {
+	w := a.em.Whitened
+	var s float64
+	for k := range w.Kept {
+		if w.Spectrum[k] > 0 {
+			s += a.em.NoiseVariance / w.Spectrum[k]
+		}
+	}
+	return math.Sqrt(s)
 }

@@ -13,7 +13,7 @@ const fuzzSites = 64
 
 // classes are the documented values of Hull.Class.
 var classes = map[Class]bool{
-	Point: true, Finite: true, Circle: true, Torus: true,
+	Point: true, Finite: true, Circle: true, Torus: true, Torus3: true,
 	Cantor: true, Disordered: true, Unresolved: true,
 }
 

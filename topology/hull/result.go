@@ -28,6 +28,8 @@ const (
 	Circle Class = "circle"
 	// Torus: two incommensurate angles (a two-dimensional torus).
 	Torus Class = "torus"
+	// Torus3: three incommensurate angles (a three-dimensional torus).
+	Torus3 Class = "torus3"
 	// Cantor: a tiling of a few tile lengths with an aperiodic word of
 	// low complexity (Sturmian, substitution): its hull is a Cantor set.
 	Cantor Class = "cantor"
@@ -87,10 +89,16 @@ type Result struct {
 // Hull is the classification.
 type Hull struct {
 	Class Class `json:"class"`
-	// Betti are the Betti numbers b0, b1, b2 read off the barcodes.
+	// Betti are the Betti numbers b0, b1, b2 read off the barcodes (for
+	// p × a d-torus, p·C(d, k)).
 	Betti []int `json:"betti"`
 	// Period is the number of sites per period (finite and point only).
 	Period int `json:"period,omitempty"`
+	// Components p and TorusDimension d: the hull is p disjoint copies of
+	// the d-torus (point 1 × 0, finite p × 0, circle p × 1, torus p × 2,
+	// torus3 p × 3); both 0 for cantor, disordered and unresolved.
+	Components     int `json:"components"`
+	TorusDimension int `json:"torus_dimension"`
 	// Confidence is the fraction of landmark subsamples whose Betti
 	// numbers agree with the ones reported (1 for classes decided by the
 	// exact periodicity test).

@@ -37,6 +37,9 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	fmt.Fprintf(&b, "pattern     %s: %d sites, mean spacing %.6g %s\n", r.Source, r.Sites, r.MeanSpacing, unit)
 	h := r.Hull
 	fmt.Fprintf(&b, "hull        %s", h.Class)
+	if h.Components > 1 && h.TorusDimension > 0 {
+		fmt.Fprintf(&b, " × %d components", h.Components)
+	}
 	if h.Period > 0 {
 		fmt.Fprintf(&b, ", period %d", h.Period)
 	}
@@ -159,6 +162,10 @@ func (r *Result) writeLabels(b *strings.Builder, all bool) {
 	switch {
 	case h.Class == Finite:
 		fmt.Fprintf(b, "gap labels  Z + Z/%d: IDS = k/%d, k = 1..%d\n", h.Period, h.Period, h.Period-1)
+	case len(r.Angles) > 0 && h.Components > 1:
+		fmt.Fprintf(b, "gap labels  (1/%d)Z + %s: IDS = n + k/%d + m·θ in (0, 1), |k|, |m| ≤ %d (%d labels)\n", h.Components, angleTerms(len(r.Angles)), h.Components, g.MaxCoeff, len(g.Labels))
+	case len(r.Angles) == 3:
+		fmt.Fprintf(b, "gap labels  Z + Zθ1 + Zθ2 + Zθ3: IDS = n + m·θ in (0, 1), |m| ≤ %d (%d labels)\n", g.MaxCoeff, len(g.Labels))
 	case len(r.Angles) == 1:
 		fmt.Fprintf(b, "gap labels  Z + Zθ: IDS = n + m·θ in (0, 1), |m| ≤ %d (%d labels, lowest order first)\n", g.MaxCoeff, len(g.Labels))
 	case len(r.Angles) == 2:
@@ -251,4 +258,16 @@ func floats(v []float64) string {
 		s[i] = strconv.FormatFloat(x, 'g', 10, 64)
 	}
 	return strings.Join(s, ", ")
+}
+
+// angleTerms writes Zθ (one angle) or Zθ1 + … + Zθd.
+func angleTerms(d int) string {
+	if d == 1 {
+		return "Zθ"
+	}
+	t := make([]string, d)
+	for i := range t {
+		t[i] = fmt.Sprintf("Zθ%d", i+1)
+	}
+	return strings.Join(t, " + ")
 }

@@ -89,7 +89,7 @@ func (a *analysis) tilingRule(context.Context) (*verdict, error) {
 	var v *verdict
 	switch ws.Class {
 	case tiling.Periodic:
-		v = &verdict{class: Finite, period: ws.Period, confidence: 1,
+		v = &verdict{class: Finite, period: ws.Period, confidence: 1, word: true,
 			reason: fmt.Sprintf("a tiling of %d tile lengths whose word repeats with period %d", len(t.Lengths), ws.Period)}
 	case tiling.Sturmian:
 		v = &verdict{class: Cantor, confidence: 1,

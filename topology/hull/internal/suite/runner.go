@@ -236,8 +236,9 @@ func (o *Outcome) assess(angleUnc []float64) {
 }
 
 // reportedComponents reads the number of components of the reported hull
-// from its JSON form ("components"; absent or 0 stands for one), the form
-// the analysis documents it in.
+// with angles from its JSON form ("components"; absent or 0 stands for
+// one), the form the analysis documents it in. A hull without angles
+// (torus_dimension 0: point, finite) carries its p as the period.
 func reportedComponents(h hull.Hull) (int, error) {
 	js, err := json.Marshal(h)
 	if err != nil {
@@ -245,11 +246,12 @@ func reportedComponents(h hull.Hull) (int, error) {
 	}
 	var shape struct {
 		Components int `json:"components"`
+		Dimension  int `json:"torus_dimension"`
 	}
 	if err := json.Unmarshal(js, &shape); err != nil {
 		return 0, fmt.Errorf("the hull's JSON form does not read back: %w", err)
 	}
-	if shape.Components == 1 {
+	if shape.Components == 1 || shape.Dimension == 0 {
 		return 0, nil
 	}
 	return shape.Components, nil
