@@ -7,6 +7,7 @@ import (
 	"slices"
 
 	"phasonhull/topology"
+	"phasonhull/topology/notation"
 	"phasonhull/topology/shortchain"
 	"phasonhull/topology/tones"
 )
@@ -184,7 +185,7 @@ func intRank(rows [][]int, d int) int {
 // source names the reading behind a verdict.
 func (v *verdict) source() string {
 	if v.betti != nil {
-		return fmt.Sprintf("barcodes (Betti %v)", v.betti)
+		return fmt.Sprintf("barcodes (Betti %s)", notation.Tuple(v.betti))
 	}
 	return "spacing test"
 }

@@ -8,6 +8,7 @@ import (
 	"math"
 	"slices"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -430,24 +431,24 @@ const (
 func (a *analysis) checkModel(n []int, x []float64, f []float64, p, h int) string {
 	rss, params, ok := harmonicRSS(n, x, f, p, h)
 	if !ok {
-		return fmt.Sprintf("the harmonic model of %d harmonic(s) on the angles %v has more parameters than %d sites can fit: the angles are not established", h, folded(f), len(x))
+		return fmt.Sprintf("the harmonic model of %d harmonic(s) on the angles %s has more parameters than %d sites can fit: the angles are not established", h, folded(f), len(x))
 	}
 	m := a.res.MeanSpacing
 	sigma2 := math.Max(a.res.Embedding.NoiseVariance/2, minModelNoise*minModelNoise) * m * m
 	dof := float64(len(x) - params)
 	bound := modelSlack * distuv.ChiSquared{K: dof}.Quantile(modelQuantile)
 	if chi2 := rss / sigma2; !(chi2 <= bound) {
-		return fmt.Sprintf("the positions refitted on the angles %v leave residuals of %.3g mean spacings RMS, %.3g times the measured noise %.3g (χ² %.4g over %g degrees of freedom, bound %.4g): the angles do not reproduce the chain", folded(f), math.Sqrt(rss/float64(len(x)))/m, math.Sqrt(chi2/dof), math.Sqrt(sigma2)/m, chi2, dof, bound)
+		return fmt.Sprintf("the positions refitted on the angles %s leave residuals of %.3g mean spacings RMS, %.3g times the measured noise %.3g (χ² %.4g over %g degrees of freedom, bound %.4g): the angles do not reproduce the chain", folded(f), math.Sqrt(rss/float64(len(x)))/m, math.Sqrt(chi2/dof), math.Sqrt(sigma2)/m, chi2, dof, bound)
 	}
 	return ""
 }
 
-func folded(f []float64) []string {
+func folded(f []float64) string {
 	out := make([]string, len(f))
 	for i, v := range f {
 		out[i] = strconv.FormatFloat(topology.Fold(v), 'g', 6, 64)
 	}
-	return out
+	return "(" + strings.Join(out, ", ") + ")"
 }
 
 // harmonicRSS fits x_n = c0 + c1·n + cell_{n mod p} + Σ tones by linear

@@ -9,6 +9,7 @@ import (
 
 	"phasonhull/embed"
 	"phasonhull/topology"
+	"phasonhull/topology/notation"
 	"phasonhull/topology/rips"
 )
 
@@ -462,7 +463,7 @@ func unresolvedReason(b [3]int) string {
 	case b[1] == 0:
 		return "no loop stands out above the noise and sampling scale: the chain is periodic with jitter above the noise tolerance, disordered, or too short; more sites or less noise would decide"
 	default:
-		return fmt.Sprintf("Betti numbers %v match no class of low-dimensional hull; more sites or less noise would decide", b)
+		return fmt.Sprintf("Betti numbers %s match no class of low-dimensional hull; more sites or less noise would decide", notation.Tuple(b[:]))
 	}
 }
 

@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"phasonhull/topology/notation"
+	"strings"
 )
 
 // verdict is a rule's proposal of a class, with what Result.Hull reports
@@ -139,7 +141,7 @@ func (a *analysis) anglesCheck(ctx context.Context, v *verdict) (*verdict, error
 	a.res.Angles, a.res.AngleUncertainty, a.res.AngleMethod = []float64{}, []float64{}, ""
 	a.res.Trace.Coordinates = nil
 	return &verdict{class: Unresolved, betti: v.betti, confidence: v.confidence, band: v.band,
-		reason: fmt.Sprintf("the barcodes show %s %v, but %s", torusHull(v.components, ci.angles), v.betti, why)}, nil
+		reason: fmt.Sprintf("the barcodes show %s %s, but %s", torusHull(v.components, ci.angles), notation.Tuple(v.betti), why)}, nil
 }
 
 // rationalAngle says why a measured angle does not establish a hull with
@@ -243,7 +245,7 @@ func (a *analysis) barcodeRule(ctx context.Context) (*verdict, error) {
 		}
 	}
 	if r.confidence < 1 {
-		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the Betti numbers changed across landmark subsamples (%v): the class is uncertain; more sites or less noise would settle it", r.persistence.Subsamples))
+		a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the Betti numbers changed across landmark subsamples (%s): the class is uncertain; more sites or less noise would settle it", tuples(r.persistence.Subsamples)))
 	}
 	if v == nil {
 		a.undecided = &verdict{class: Unresolved, betti: r.betti[:], confidence: r.confidence, band: r.band, reason: unresolvedReason(r.betti)}
@@ -335,4 +337,13 @@ func (a *analysis) cloudNoise() float64 {
 		}
 	}
 	return math.Sqrt(s)
+}
+
+// tuples writes lists of Betti numbers as "(1, 1, 0), (1, 2, 1)".
+func tuples(v [][]int) string {
+	out := make([]string, len(v))
+	for i, b := range v {
+		out[i] = notation.Tuple(b)
+	}
+	return strings.Join(out, ", ")
 }
