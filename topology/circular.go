@@ -76,7 +76,7 @@ func CircularCoordinates(landmarks [][]float64, c rips.Cocycle, r float64) (*Cir
 	adj := make([][]int, nl)
 	for i := range nl {
 		for j := i + 1; j < nl; j++ {
-			if dist(landmarks[i], landmarks[j]) <= r {
+			if Dist(landmarks[i], landmarks[j]) <= r {
 				adj[i] = append(adj[i], j)
 				adj[j] = append(adj[j], i)
 			}
@@ -95,7 +95,7 @@ func CircularCoordinates(landmarks [][]float64, c rips.Cocycle, r float64) (*Cir
 		if _, dup := alpha[key]; dup {
 			return nil, fmt.Errorf("circular coordinates: cocycle edge {%d, %d} listed twice", e.I, e.J)
 		}
-		if e.Value != 0 && dist(landmarks[e.I], landmarks[e.J]) <= r {
+		if e.Value != 0 && Dist(landmarks[e.I], landmarks[e.J]) <= r {
 			alpha[key] = e.Value
 		}
 	}
@@ -191,7 +191,7 @@ func (m *CircleMap) Extend(points [][]float64) ([]float64, error) {
 		a, b := -1, -1
 		da, db := math.Inf(1), math.Inf(1)
 		for l, y := range m.landmarks {
-			switch d := dist(x, y); {
+			switch d := Dist(x, y); {
 			case d < da:
 				b, db = a, da
 				a, da = l, d
@@ -203,7 +203,7 @@ func (m *CircleMap) Extend(points [][]float64) ([]float64, error) {
 			return nil, fmt.Errorf("extending circular coordinates: point %d is not finite", p)
 		}
 		s := m.u[b] - m.u[a]
-		if dist(m.landmarks[a], m.landmarks[b]) <= m.scale {
+		if Dist(m.landmarks[a], m.landmarks[b]) <= m.scale {
 			if a < b { // ᾱ_ab = u_b − u_a + α_ab, and α_ba = −α_ab
 				s += float64(m.alpha[[2]int{a, b}])
 			} else {
@@ -308,15 +308,6 @@ func components(adj [][]int) int {
 	return count
 }
 
-func dist(a, b []float64) float64 {
-	var s float64
-	for i := range a {
-		d := a[i] - b[i]
-		s += d * d
-	}
-	return math.Sqrt(s)
-}
-
 func sort3(a, b, c int) (int, int, int) {
 	if a > b {
 		a, b = b, a
@@ -337,4 +328,14 @@ func mod1(x float64) float64 {
 		return 0
 	}
 	return y
+}
+
+// Dist is the Euclidean distance between two points of the same dimension.
+func Dist(a, b []float64) float64 {
+	var s float64
+	for i := range a {
+		d := a[i] - b[i]
+		s += d * d
+	}
+	return math.Sqrt(s)
 }

@@ -33,7 +33,7 @@ func cutCocycle(pts [][]float64, phi []float64, r float64) rips.Cocycle {
 	var c rips.Cocycle
 	for i := range pts {
 		for j := i + 1; j < len(pts); j++ {
-			if dist(pts[i], pts[j]) <= r && math.Abs(phi[i]-phi[j]) > math.Pi {
+			if Dist(pts[i], pts[j]) <= r && math.Abs(phi[i]-phi[j]) > math.Pi {
 				v := 1
 				if phi[i] < phi[j] {
 					v = -1 // i → j crosses the cut backwards
@@ -132,7 +132,7 @@ func TestCircularCoordinatesGauge(t *testing.T) {
 	var c2 rips.Cocycle
 	for i := range n {
 		for j := i + 1; j < n; j++ {
-			if dist(pts[i], pts[j]) <= r {
+			if Dist(pts[i], pts[j]) <= r {
 				if v := val[[2]int{i, j}] + g[j] - g[i]; v != 0 {
 					c2.Edges = append(c2.Edges, rips.CocycleEdge{I: i, J: j, Value: v})
 				}

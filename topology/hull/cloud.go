@@ -212,7 +212,7 @@ func (r *reading) componentCoordinates(ctx context.Context, c *cloud, k int, opt
 	}
 	for i := range lm {
 		for j := i + 1; j < len(lm); j++ {
-			if dist(lm[i], lm[j]) <= scale {
+			if topology.Dist(lm[i], lm[j]) <= scale {
 				parent[find(i)] = find(j)
 			}
 		}
@@ -230,7 +230,7 @@ func (r *reading) componentCoordinates(ctx context.Context, c *cloud, k int, opt
 	for j, x := range c.points {
 		best, bd := 0, math.Inf(1)
 		for i, y := range lm {
-			if d := dist(x, y); d < bd {
+			if d := topology.Dist(x, y); d < bd {
 				best, bd = i, d
 			}
 		}
@@ -258,15 +258,6 @@ func (r *reading) componentCoordinates(ctx context.Context, c *cloud, k int, opt
 		out[ci].coords = cc
 	}
 	return out, nil
-}
-
-func dist(a, b []float64) float64 {
-	var s float64
-	for i := range a {
-		d := a[i] - b[i]
-		s += d * d
-	}
-	return math.Sqrt(s)
 }
 
 // topCocycles returns the cocycles of the k most persistent H1 bars.

@@ -1,6 +1,7 @@
 package hull
 
 import (
+	"cmp"
 	"math"
 	"slices"
 	"testing"
@@ -87,7 +88,7 @@ func TestCircleReadingThreeGaps(t *testing.T) {
 	for i := range order {
 		order[i] = i
 	}
-	slices.SortFunc(order, func(i, j int) int { return cmpFloat(c[i], c[j]) })
+	slices.SortFunc(order, func(i, j int) int { return cmp.Compare(c[i], c[j]) })
 	diffs := map[int]bool{}
 	for k := range order {
 		i, j := order[k], order[(k+1)%len(order)]
@@ -108,16 +109,6 @@ func TestCircleReadingThreeGaps(t *testing.T) {
 	if len(ds) > 3 || (len(ds) == 3 && ds[2] != ds[0]+ds[1]) {
 		t.Errorf("neighbours on the circle differ in index by %v: not the three distances of a rotation", ds)
 	}
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // generateTorus is the two-angle design with position noise.

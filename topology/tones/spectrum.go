@@ -1,6 +1,7 @@
 package tones
 
 import (
+	"cmp"
 	"math"
 	"slices"
 
@@ -315,7 +316,7 @@ func (sp *spectrum) candidates(pow []float64, fl *noiseFloor, lines []float64, m
 			peaks = append(peaks, peak{k, pow[k]})
 		}
 	}
-	slices.SortFunc(peaks, func(a, b peak) int { return -cmpFloat(a.p, b.p) })
+	slices.SortFunc(peaks, func(a, b peak) int { return -cmp.Compare(a.p, b.p) })
 	var out []float64
 	var taken []peak
 	for _, pk := range peaks {

@@ -1,6 +1,7 @@
 package tones
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"math"
@@ -196,7 +197,7 @@ func Read(ctx context.Context, spacings []float64, opt Options) (*Reading, error
 		order[i] = i
 	}
 	slices.SortStableFunc(order, func(a, b int) int {
-		return -cmpFloat(r.Lines[a].Amp, r.Lines[b].Amp)
+		return -cmp.Compare(r.Lines[a].Amp, r.Lines[b].Amp)
 	})
 	sorted := make([]Line, len(order))
 	for i, j := range order {
@@ -206,16 +207,6 @@ func Read(ctx context.Context, spacings []float64, opt Options) (*Reading, error
 	note := relate(r, opt.FalseAlarm)
 	r.Reason = reason(r, limited, note)
 	return r, nil
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // reason writes the one-sentence summary of a reading.
