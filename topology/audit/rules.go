@@ -3,6 +3,7 @@ package audit
 import (
 	"fmt"
 	"math"
+	"phasonhull/topology/notation"
 )
 
 // A rule is one check of the verdict: it returns why the sample fails it,
@@ -81,7 +82,7 @@ var rules = [...]rule{
 				beyond++
 			}
 		}
-		u := spaced(a.rep.Unit)
+		u := notation.Unit(a.rep.Unit)
 		switch {
 		case beyond == 0:
 			return ""
@@ -102,12 +103,4 @@ var rules = [...]rule{
 		}
 		return ""
 	}},
-}
-
-// spaced returns the unit with a space before it, or "" for no unit.
-func spaced(unit string) string {
-	if unit == "" {
-		return ""
-	}
-	return " " + unit
 }

@@ -21,7 +21,7 @@ const maxListed = 20
 // the verdict with its reasons.
 func (r *Report) WriteText(w io.Writer) error {
 	var b bytes.Buffer
-	u := spaced(r.Unit)
+	u := notation.Unit(r.Unit)
 	if r.Design != "" {
 		fmt.Fprintf(&b, "audit       %s against the design %s (%s)\n", r.Measured, r.Design, r.DesignKind)
 		fmt.Fprintf(&b, "sites       design %d, measured %d: %d matched, %d missing, %d extra\n", r.DesignSites, r.MeasuredSites, r.Matched, len(r.Missing), len(r.Extra))

@@ -110,10 +110,7 @@ func (r *Result) writeTiles(b *strings.Builder) {
 	if t == nil {
 		return
 	}
-	unit := ""
-	if r.Unit != "" {
-		unit = " " + r.Unit
-	}
+	unit := notation.Unit(r.Unit)
 	tiles := make([]string, len(t.Lengths))
 	for i, l := range t.Lengths {
 		tiles[i] = fmt.Sprintf("%c = %.6g%s (%d)", []rune(t.Letters)[i], l, unit, t.Counts[i])
@@ -139,10 +136,7 @@ func (r *Result) writeDisorder(b *strings.Builder) {
 	if d == nil {
 		return
 	}
-	unit := ""
-	if r.Unit != "" {
-		unit = " " + r.Unit
-	}
+	unit := notation.Unit(r.Unit)
 	fmt.Fprintf(b, "disorder    %.3g of the mean spacing (RMS %.3g%s)", d.Relative, d.RMS, unit)
 	if rest, ok := strings.CutPrefix(d.Model, "none: "); ok {
 		fmt.Fprintf(b, ": no model of the hull, %s", rest)

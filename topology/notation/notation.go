@@ -85,3 +85,11 @@ func Tuple(v []int) string {
 	}
 	return "(" + strings.Join(s, ", ") + ")"
 }
+
+// Unit writes a unit after a number: " mm", or "" for no unit.
+func Unit(unit string) string {
+	if unit == "" {
+		return ""
+	}
+	return " " + unit
+}

@@ -62,3 +62,12 @@ func Example() {
 	// θ = 0.3183073 ± 0.0000034
 	// label (1, -3)
 }
+
+func TestUnit(t *testing.T) {
+	if got := notation.Unit("mm"); got != " mm" {
+		t.Errorf("Unit(mm) = %q", got)
+	}
+	if got := notation.Unit(""); got != "" {
+		t.Errorf("Unit() = %q", got)
+	}
+}

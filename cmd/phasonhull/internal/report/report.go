@@ -329,10 +329,7 @@ func intList(v []int) string {
 // tolerance, outliers and hull comparison.
 func AuditOf(rep *audit.Report) *Audit {
 	a := &Audit{Verdict: string(rep.Verdict), Reasons: rep.Reasons, Design: rep.Design}
-	u := ""
-	if rep.Unit != "" {
-		u = " " + rep.Unit
-	}
+	u := notation.Unit(rep.Unit)
 	add := func(k, v string) { a.Rows = append(a.Rows, [2]string{k, v}) }
 	add("sites", fmt.Sprintf("design %d, measured %d: %d matched, %d missing, %d extra", rep.DesignSites, rep.MeasuredSites, rep.Matched, len(rep.Missing), len(rep.Extra)))
 	if rep.Scale != nil {
