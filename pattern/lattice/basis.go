@@ -99,3 +99,16 @@ func polar(v [2]float64) float64 {
 	}
 	return a
 }
+
+// change returns the integer matrix M with b = M·a (rows the basis
+// vectors) for two bases of the same lattice.
+func change(b, a [2][2]float64) [2][2]int {
+	r := reciprocal(a)
+	var m [2][2]int
+	for k := range 2 {
+		for i := range 2 {
+			m[k][i] = int(math.Round(dot(b[k], r[i])))
+		}
+	}
+	return m
+}

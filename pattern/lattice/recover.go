@@ -19,11 +19,13 @@ var ErrNoLattice = errors.New("the sites have no average lattice")
 // Defaults of Options.
 const (
 	// DefaultTolerance is the default off-lattice tolerance, as a fraction
-	// of the shortest basis vector: a displacement wave of amplitude 0.15
-	// plus Gaussian position noise of 5% (3.4σ of the displacement's
-	// length) stays within it; it is below ½ so that no site is near two
-	// lattice points.
-	DefaultTolerance = 0.35
+	// of the shortest basis vector: a displacement field of up to 0.21 of
+	// the spacing (two waves of amplitude 0.15 at right angles) plus
+	// Gaussian position noise of 5% of the spacing in each coordinate
+	// stays within it but for a share e^{−0.19²/(2·0.05²)} < 10⁻³ of the
+	// sites at the field's peaks; it is below ½ so that no site is near
+	// two lattice points.
+	DefaultTolerance = 0.4
 	// DefaultMinShare is the default share of the sites that must have a
 	// neighbour at each basis vector (see Options.MinShare).
 	DefaultMinShare = 0.5
@@ -187,6 +189,23 @@ func Recover(ctx context.Context, p *pattern.Plane, opt Options) (*Lattice, erro
 		return nil, fmt.Errorf("lattice: %w: the sites on the lattice span no patch", ErrNoLattice)
 	}
 	fit = f
+	// The refit may have moved the basis across a tie of the reduced
+	// basis (equally long vectors of a square or hexagonal lattice): the
+	// indices follow the reduced basis and the fit is repeated in it.
+	if m := change(reduce(fit.basis), fit.basis); m != [2][2]int{{1, 0}, {0, 1}} {
+		// n·B = n'·(M·B), so n' = n·M⁻¹, with M⁻¹ = (d −b; −c a) for det 1.
+		mi := [2][2]int{{m[1][1], -m[0][1]}, {-m[1][0], m[0][0]}}
+		total = sums{}
+		for _, j := range use {
+			n := idx[j]
+			idx[j] = [2]int{n[0]*mi[0][0] + n[1]*mi[1][0], n[0]*mi[0][1] + n[1]*mi[1][1]}
+			total.add(idx[j], q[j])
+		}
+		if f, inv, ok = total.solve(); !ok {
+			return nil, fmt.Errorf("lattice: %w: the sites on the lattice span no patch", ErrNoLattice)
+		}
+		fit = f
+	}
 	unc, correlated := uncertainty(total, inv, fit, idx, q, use)
 
 	var onCount int
