@@ -85,7 +85,7 @@ func (o Options) withDefaults() (Options, error) {
 
 // Sizes of the growing fit.
 const (
-	firstRegion = 64   // sites in the first region of the growing fit
+	firstRegion = 24   // sites in the first region of the growing fit
 	growth      = 2.25 // factor on the number of sites (1.5 on the radius) per stage
 	passes      = 2    // index-and-fit passes per stage
 )
@@ -118,50 +118,41 @@ func Recover(ctx context.Context, p *pattern.Plane, opt Options) (*Lattice, erro
 	for j, i := range s.order {
 		q[j] = pts[i]
 	}
-	fit := model{origin: pts[s.centre], basis: reduce(s.basis)}
-	fit.origin = centreOrigin(fit, q[:min(n, firstRegion)])
-	firstLength := math.Sqrt(norm2(fit.basis[0]))
-	firstArea := cross(fit.basis[0], fit.basis[1])
-
 	idx := make([][2]int, n)
 	disp := make([][2]float64, n)
 	on := make([]bool, n)
-	// step indexes the sites of the region q[:count] by rounding in the
-	// current fit, keeps those within the tolerance and refits.
 	var total sums
-	step := func(count int) error {
-		recip := reciprocal(fit.basis)
-		tol2 := opt.Tolerance * opt.Tolerance * norm2(fit.basis[0])
-		total = sums{}
-		for j := range count {
-			idx[j], disp[j] = fit.index(recip, q[j])
-			if on[j] = norm2(disp[j]) <= tol2; on[j] {
-				total.add(idx[j], q[j])
-			}
-		}
-		f, _, ok := total.solve()
-		if !ok {
-			return fmt.Errorf("lattice: %w: the sites near a lattice point span no patch", ErrNoLattice)
-		}
-		area := cross(f.basis[0], f.basis[1])
-		if !(area > firstArea/2 && area < 2*firstArea) || math.Abs(math.Sqrt(norm2(f.basis[0]))/firstLength-1) > 0.5 {
-			return fmt.Errorf("lattice: %w: the least-squares lattice drifts away from the neighbour vectors", ErrNoLattice)
-		}
-		fit = f
-		return nil
+	g := grower{q: q, idx: idx, disp: disp, on: on, tol: opt.Tolerance}
+	fit, err := g.grow(ctx, model{origin: pts[s.centre], basis: s.basis})
+	if err != nil {
+		return nil, err
 	}
-	for count := min(n, firstRegion); ; count = min(n, int(math.Ceil(float64(count)*growth))) {
-		if err := ctx.Err(); err != nil {
-			return nil, fmt.Errorf("lattice: %w", err)
-		}
-		for range passes {
-			if err := step(count); err != nil {
-				return nil, err
+	// A seed basis that spans a sublattice of index 2 (a basis vector
+	// whose neighbour vectors a displacement wave near the zone boundary
+	// split in two) leaves about half the sites off the lattice; the three
+	// lattices that hold it with index 2 are tried, and the one with the
+	// most sites on it kept.
+	if g.last < n*9/10 {
+		b, best, seedFit := fit.basis, g.last, fit
+		for _, c := range [][2][2]float64{
+			{{b[0][0] / 2, b[0][1] / 2}, b[1]},
+			{b[0], {b[1][0] / 2, b[1][1] / 2}},
+			{b[0], {(b[0][0] + b[1][0]) / 2, (b[0][1] + b[1][1]) / 2}},
+		} {
+			if f, err := g.grow(ctx, model{origin: seedFit.origin, basis: c}); err == nil && g.last > best*5/4 {
+				fit, best = f, g.last
+				s.note = "the neighbour vectors spanned a sublattice of index 2; the lattice that doubles it holds more sites"
+			}
+			if err := ctx.Err(); err != nil {
+				return nil, fmt.Errorf("lattice: %w", err)
 			}
 		}
-		if count == n {
-			break
-		}
+	}
+	step := func(count int) error {
+		f, err := g.step(fit, count)
+		fit = f
+		total = g.total
+		return err
 	}
 	// The final basis, reduced and chosen as reduce does, and the final
 	// indexing with one site per lattice point.
@@ -251,6 +242,9 @@ func Recover(ctx context.Context, p *pattern.Plane, opt Options) (*Lattice, erro
 		fmt.Sprintf("basis from the neighbour vectors of %d sites (shared by %.0f%% and %.0f%% of them), refined by least squares on %d sites on the lattice",
 			s.anchors, 100*s.share[0], 100*s.share[1], onCount),
 		fmt.Sprintf("Bragg peaks of the basis carry %.2f and %.2f of a perfect lattice's weight", bragg[0], bragg[1]))
+	if s.note != "" {
+		l.Notes = append(l.Notes, s.note)
+	}
 	if correlated {
 		l.Notes = append(l.Notes, "the residuals are correlated across the patch (a displacement wave or a drift): the basis uncertainty is the block jackknife's, not the least-squares one")
 	}
@@ -302,4 +296,69 @@ func plural(n int, one, many string) string {
 		return one
 	}
 	return many
+}
+
+// grower fits a lattice to regions of growing size around the centre
+// site: each region is indexed by rounding in the current fit, the sites
+// within the tolerance refitted by least squares, twice, and the region
+// grown by growth in sites (1.5 in radius), so that the extrapolation
+// from one region to the next stays well inside half a lattice step.
+type grower struct {
+	q         [][2]float64 // the sites, nearer the centre first
+	idx       [][2]int
+	disp      [][2]float64
+	on        []bool
+	tol       float64
+	total     sums // the normal equations of the last step
+	last      int  // the number of sites within the tolerance in the last step
+	firstLen  float64
+	firstArea float64
+}
+
+// grow runs the growing fit from the seed model over all sites.
+func (g *grower) grow(ctx context.Context, seed model) (model, error) {
+	n := len(g.q)
+	fit := model{origin: seed.origin, basis: reduce(seed.basis)}
+	fit.origin = centreOrigin(fit, g.q[:min(n, firstRegion)])
+	g.firstLen = math.Sqrt(norm2(fit.basis[0]))
+	g.firstArea = cross(fit.basis[0], fit.basis[1])
+	for count := min(n, firstRegion); ; count = min(n, int(math.Ceil(float64(count)*growth))) {
+		if err := ctx.Err(); err != nil {
+			return fit, fmt.Errorf("lattice: %w", err)
+		}
+		for range passes {
+			f, err := g.step(fit, count)
+			if err != nil {
+				return fit, err
+			}
+			fit = f
+		}
+		if count == n {
+			return fit, nil
+		}
+	}
+}
+
+// step indexes the sites of the region q[:count] by rounding in the fit,
+// keeps those within the tolerance and refits.
+func (g *grower) step(fit model, count int) (model, error) {
+	recip := reciprocal(fit.basis)
+	tol2 := g.tol * g.tol * norm2(fit.basis[0])
+	g.total = sums{}
+	for j := range count {
+		g.idx[j], g.disp[j] = fit.index(recip, g.q[j])
+		if g.on[j] = norm2(g.disp[j]) <= tol2; g.on[j] {
+			g.total.add(g.idx[j], g.q[j])
+		}
+	}
+	g.last = g.total.m
+	f, _, ok := g.total.solve()
+	if !ok {
+		return fit, fmt.Errorf("lattice: %w: the sites near a lattice point span no patch", ErrNoLattice)
+	}
+	area := cross(f.basis[0], f.basis[1])
+	if !(area > g.firstArea/2 && area < 2*g.firstArea) || math.Abs(math.Sqrt(norm2(f.basis[0]))/g.firstLen-1) > 0.5 {
+		return fit, fmt.Errorf("lattice: %w: the least-squares lattice drifts away from the neighbour vectors", ErrNoLattice)
+	}
+	return f, nil
 }

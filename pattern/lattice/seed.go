@@ -31,6 +31,7 @@ type seed struct {
 	share   [2]float64 // fraction of the anchors with a neighbour at a1, a2
 	anchors int
 	centre  int     // the site nearest the centroid
+	note    string  // what the fit made of the seed, for the notes
 	order   []int32 // all sites, nearer the centre site first (see byDistance)
 }
 
@@ -97,9 +98,8 @@ func neighbourSeed(pts [][2]float64, minShare float64) (*seed, error) {
 	}
 	slices.Sort(nn)
 	rnn := nn[len(nn)/2]
-	cl := clusters(vecs, clusterRadius*rnn)
-
 	minCount := minShare * float64(na)
+	cl := clusters(vecs, clusterRadius*rnn, minCount)
 	var a1, a2 *cluster
 	for i := range cl {
 		if float64(cl[i].count) < minCount {
@@ -146,10 +146,12 @@ type cluster struct {
 }
 
 // clusters groups the vectors greedily: the vector with the most others
-// near it seeds a cluster, whose centre is moved to the mean of
-// the unassigned vectors within radius of it (twice), and those vectors
-// are taken; then the next, until no unassigned vector has a neighbour.
-func clusters(vecs [][2]float64, radius float64) []cluster {
+// near it seeds a cluster, whose centre is moved to the mean of the
+// unassigned vectors within radius of it (twice), and those vectors are
+// taken; then the next, until the vectors left are too sparse to hold
+// minCount within radius of one another (after the first cluster, which
+// is always formed so that the reason for a refusal can name it).
+func clusters(vecs [][2]float64, radius, minCount float64) []cluster {
 	cell := radius / 2
 	key := func(v [2]float64) [2]int {
 		return [2]int{int(math.Floor(v[0] / cell)), int(math.Floor(v[1] / cell))}
@@ -172,22 +174,37 @@ func clusters(vecs [][2]float64, radius float64) []cluster {
 			}
 		}
 	}
-	// The density at a vector: the vectors in its grid cell and the eight
-	// around it (a square of side 1.5·radius).
+	// The density at a vector, which orders the seeds: the vectors in its
+	// grid cell and the 8 around it (a square of side 1.5·radius). The
+	// bound, which stops the seeding: the vectors in the 5 × 5 cells
+	// around it, a square of side 2.5·radius that holds the disc of the
+	// given radius about any point of the middle cell.
 	density := make([]int, len(vecs))
-	for i, v := range vecs {
-		k := key(v)
-		for dx := -1; dx <= 1; dx++ {
-			for dy := -1; dy <= 1; dy++ {
-				density[i] += len(grid[[2]int{k[0] + dx, k[1] + dy}])
+	bound := make([]int, len(vecs))
+	type counts struct{ near, bound int }
+	cells := make(map[[2]int]counts, len(grid))
+	for k := range grid {
+		var c counts
+		for dx := -2; dx <= 2; dx++ {
+			for dy := -2; dy <= 2; dy++ {
+				m := len(grid[[2]int{k[0] + dx, k[1] + dy}])
+				c.bound += m
+				if max(dx, -dx, dy, -dy) <= 1 {
+					c.near += m
+				}
 			}
 		}
+		cells[k] = c
+	}
+	for i, v := range vecs {
+		c := cells[key(v)]
+		density[i], bound[i] = c.near, c.bound
 	}
 	byDensity := make([]int32, len(vecs))
 	for i := range byDensity {
 		byDensity[i] = int32(i)
 	}
-	slices.SortStableFunc(byDensity, func(i, j int32) int {
+	slices.SortFunc(byDensity, func(i, j int32) int {
 		if r := cmp.Compare(density[j], density[i]); r != 0 {
 			return r
 		}
@@ -199,7 +216,7 @@ func clusters(vecs [][2]float64, radius float64) []cluster {
 	taken := make([]bool, len(vecs))
 	var out []cluster
 	for _, i := range byDensity {
-		if taken[i] || density[i] < 2 {
+		if taken[i] || (len(out) > 0 && float64(bound[i]) < minCount/2) {
 			continue
 		}
 		c := vecs[i]
