@@ -309,6 +309,8 @@ func TestRecoverModulated(t *testing.T) {
 		{basis: hex, n1: 60, n2: 60, waves: []wave{{q: [2]float64{0.381966, 0}, amp: 0.15, pol: [2]float64{1, 0}}, {q: [2]float64{0, 0.2718}, amp: 0.15, pol: [2]float64{0, 1}}}},
 		{basis: square, n1: 60, n2: 60, waves: []wave{{q: [2]float64{0.0309, 0.0191}, amp: 0.15, pol: [2]float64{0.85, 0.527}, phase: 0.2}}},
 		{basis: oblique, n1: 50, n2: 70, waves: []wave{{q: [2]float64{0.1, 0.4142}, amp: 0.15, pol: [2]float64{0, 1}}}},
+		{basis: hex, n1: 250, n2: 250, waves: []wave{{q: [2]float64{0.00618, 0.00382}, amp: 0.15, pol: [2]float64{0.6, -0.8}, phase: 0.3}, {q: [2]float64{0.2718, 0.3141}, amp: 0.1, pol: [2]float64{0.8, 0.6}}}},
+		{basis: square, n1: 250, n2: 250, waves: []wave{{q: [2]float64{0.4987, 0.0123}, amp: 0.15, pol: [2]float64{1, 0}}}},
 	} {
 		c.noise, c.rot, c.seed = 0.05, 0.4*float64(k), uint64(k)
 		s := c.sites()
@@ -383,5 +385,53 @@ func TestRecoverRefuses(t *testing.T) {
 	}
 	if _, err := Recover(context.Background(), pl, Options{Tolerance: 0.6}); err == nil {
 		t.Error("tolerance 0.6 accepted")
+	}
+}
+
+// The stated basis uncertainty is a standard uncertainty: over seeded
+// draws of noisy plates (with and without a displacement wave), the truth
+// lies within 1σ in about 68% and within 2σ in about 95% of the
+// components (coverage of a Gaussian standard error; common practice).
+// The uncertainty takes the larger of two estimates, so it may cover a
+// little more, never much less.
+func TestBasisUncertaintyCoverage(t *testing.T) {
+	for _, modulated := range []bool{false, true} {
+		var in1, in2, total int
+		for d := range 100 {
+			c := plate{basis: [][2][2]float64{square, hex, oblique}[d%3], n1: 24, n2: 24, rot: float64(d), noise: 0.05, missing: 0.05, extra: 0.02, seed: uint64(d)}
+			if modulated {
+				c.waves = []wave{{q: [2]float64{0.05 + 0.004*float64(d), 0.31}, amp: 0.15, pol: [2]float64{0.6, 0.8}, phase: 0.01 * float64(d)}}
+			}
+			l, err := recoverPoints(t, points(c.sites()))
+			if err != nil {
+				t.Fatal(err)
+			}
+			truth := rotated(c.basis, c.rot)
+			m, err := integerChange(l.Basis, truth, 0.05)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := mul(m, truth)
+			for k := range 2 {
+				for j := range 2 {
+					z := math.Abs(l.Basis[k][j]-want[k][j]) / l.BasisUncertainty[k][j]
+					total++
+					if z < 1 {
+						in1++
+					}
+					if z < 2 {
+						in2++
+					}
+				}
+			}
+		}
+		f1, f2 := float64(in1)/float64(total), float64(in2)/float64(total)
+		t.Logf("modulated %v: %.2f within 1σ, %.2f within 2σ (%d components)", modulated, f1, f2, total)
+		if f1 < 0.6 || f2 < 0.9 {
+			t.Errorf("modulated %v: the truth lies within 1σ in %.2f and within 2σ in %.2f of the components: the uncertainty is understated", modulated, f1, f2)
+		}
+		if f1 > 0.95 {
+			t.Errorf("modulated %v: the truth lies within 1σ in %.2f of the components: the uncertainty is much overstated", modulated, f1)
+		}
 	}
 }
