@@ -121,7 +121,6 @@ func Recover(ctx context.Context, p *pattern.Plane, opt Options) (*Lattice, erro
 	idx := make([][2]int, n)
 	disp := make([][2]float64, n)
 	on := make([]bool, n)
-	var total sums
 	g := grower{q: q, idx: idx, disp: disp, on: on, tol: opt.Tolerance}
 	fit, err := g.grow(ctx, model{origin: pts[s.centre], basis: s.basis})
 	if err != nil {
@@ -148,18 +147,9 @@ func Recover(ctx context.Context, p *pattern.Plane, opt Options) (*Lattice, erro
 			}
 		}
 	}
-	step := func(count int) error {
-		f, err := g.step(fit, count)
-		fit = f
-		total = g.total
-		return err
-	}
-	// The final basis, reduced and chosen as reduce does, and the final
-	// indexing with one site per lattice point.
+	// The final indexing, in the reduced basis, with one site per lattice
+	// point.
 	fit.basis = reduce(fit.basis)
-	if err := step(n); err != nil {
-		return nil, err
-	}
 	recip := reciprocal(fit.basis)
 	tol2 := opt.Tolerance * opt.Tolerance * norm2(fit.basis[0])
 	for j := range n {
@@ -167,7 +157,7 @@ func Recover(ctx context.Context, p *pattern.Plane, opt Options) (*Lattice, erro
 		on[j] = norm2(disp[j]) <= tol2
 	}
 	second, lone := settle(idx, disp, on)
-	total = sums{}
+	var total sums
 	var use []int32
 	for j := range n {
 		if on[j] {
@@ -309,8 +299,7 @@ type grower struct {
 	disp      [][2]float64
 	on        []bool
 	tol       float64
-	total     sums // the normal equations of the last step
-	last      int  // the number of sites within the tolerance in the last step
+	last      int // the number of sites within the tolerance in the last step
 	firstLen  float64
 	firstArea float64
 }
@@ -344,15 +333,15 @@ func (g *grower) grow(ctx context.Context, seed model) (model, error) {
 func (g *grower) step(fit model, count int) (model, error) {
 	recip := reciprocal(fit.basis)
 	tol2 := g.tol * g.tol * norm2(fit.basis[0])
-	g.total = sums{}
+	var total sums
 	for j := range count {
 		g.idx[j], g.disp[j] = fit.index(recip, g.q[j])
 		if g.on[j] = norm2(g.disp[j]) <= tol2; g.on[j] {
-			g.total.add(g.idx[j], g.q[j])
+			total.add(g.idx[j], g.q[j])
 		}
 	}
-	g.last = g.total.m
-	f, _, ok := g.total.solve()
+	g.last = total.m
+	f, _, ok := total.solve()
 	if !ok {
 		return fit, fmt.Errorf("lattice: %w: the sites near a lattice point span no patch", ErrNoLattice)
 	}
