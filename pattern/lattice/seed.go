@@ -23,6 +23,10 @@ const (
 	// clusterRadius is the radius, in median nearest-neighbour distances,
 	// within which neighbour vectors count as one lattice vector.
 	clusterRadius = 0.45
+	// maxClusters bounds the clusters formed, densest first: the lattice
+	// vectors among the neighbours of the anchors are about neighbours
+	// clusters, each denser than any cluster of spurious vectors.
+	maxClusters = 4 * neighbours
 )
 
 // seed is the first estimate of the lattice from the neighbour vectors.
@@ -148,8 +152,8 @@ type cluster struct {
 // clusters groups the vectors greedily: the vector with the most others
 // near it seeds a cluster, whose centre is moved to the mean of the
 // unassigned vectors within radius of it (twice), and those vectors are
-// taken; then the next, until the vectors left are too sparse to hold
-// minCount within radius of one another (after the first cluster, which
+// taken; then the next, until maxClusters are formed or the vectors left
+// are too sparse to hold minCount within radius of one another (after the first cluster, which
 // is always formed so that the reason for a refusal can name it).
 func clusters(vecs [][2]float64, radius, minCount float64) []cluster {
 	cell := radius / 2
@@ -216,6 +220,9 @@ func clusters(vecs [][2]float64, radius, minCount float64) []cluster {
 	taken := make([]bool, len(vecs))
 	var out []cluster
 	for _, i := range byDensity {
+		if len(out) == maxClusters {
+			break
+		}
 		if taken[i] || (len(out) > 0 && float64(bound[i]) < minCount/2) {
 			continue
 		}
