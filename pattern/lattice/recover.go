@@ -39,10 +39,6 @@ const (
 
 // Options control Recover. The zero value asks for the defaults.
 type Options struct {
-	// Seed seeds the random choices of the recovery. The method makes
-	// none (its anchors are the sites nearest the centre of the patch),
-	// so today the result does not depend on it.
-	Seed uint64
 	// Tolerance is the largest displacement of a site from its lattice
 	// point, as a fraction of the shortest basis vector, for the site to
 	// sit on the lattice; 0 means DefaultTolerance. It must be below ½.
