@@ -47,7 +47,7 @@ var badInputs = []badCase{
 	{"unit_cells_mixed.csv", nil, `"3.236 um" is in um but the cells of column 1 on line 1 are in mm`, ":5:1", "one cell in another unit"},
 	{"trailing_separator_missing.csv", nil, "the line does not end with a separator as line 1 does (a missing value?)", ":7", "every line ends with ';' but one"},
 	{"cmm_name_column.csv", nil, `"R001" is not a number: column 1 ("Name") holds text, not coordinates; choose the columns to read with --columns, e.g. --columns X,Y,Z`, ":2:1", "a CMM export with a name column"},
-	{"lattice_strip_2d.csv", nil, "half of them sit 2.5 spacings or more off their best line (a chain stays within 0.5): this is a 2D point set", "", "an elongated strip of a hexagonal lattice, 3 rows by 40"},
+	{"lattice_strip_2d.csv", nil, "half of them sit 2.5 spacings or more off their best line (a chain stays within 0.55): this is a 2D point set", "", "an elongated strip of a hexagonal lattice, 3 rows by 40"},
 	{"mixed_columns.csv", nil, "expected 2 columns like the first data row (line 2), got 1", ":6", "a short row among x,y rows"},
 	{"five_columns.csv", nil, "has 5 columns", ":1", "more than x,y,z"},
 	{"duplicate_sites.csv", nil, "two sites at the same position: 3, as on line 4", ":5", "one site listed twice"},
