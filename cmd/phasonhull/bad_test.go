@@ -59,7 +59,7 @@ var badInputs = []badCase{
 	{"unicode_minus.csv", nil, "Unicode minus sign", ":1:1", "U+2212 instead of '-'"},
 	{"hex_float.csv", nil, `"0x1p1" is not a number`, ":3:1", "hex floats are not decimal"},
 	{"header_units_disagree.csv", nil, `column 2 has unit "nm" but column 1 has "um"`, ":1:2", "two units in one header"},
-	{"centroids_scattered.csv", nil, "do not lie along a line: half of them sit 6.2 spacings or more off their best line", "", "a 2-D cloud, not a chain"},
+	{"centroids_scattered.csv", nil, "do not lie along a line: half of them sit 6.7 spacings or more off their best line", "", "a 2-D cloud, not a chain"},
 	{"spacings_negative.txt", []string{"--spacings"}, "spacing -0.5 is not positive", ":4:1", "a negative spacing"},
 	{"spacings_zero.txt", []string{"--spacings"}, "spacing 0 is not positive", ":4:1", "a zero spacing"},
 	{"tiles_unknown_letter.txt", tiles, "tile letter 'C' has no length", ":1:14", "a letter --tiles does not name"},
