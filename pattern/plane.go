@@ -32,6 +32,12 @@ type Plane struct {
 // NewPlane builds a Plane from points, checking the Plane invariant. The
 // slice is copied.
 func NewPlane(points [][2]float64, unit, source string) (*Plane, error) {
+	return newPlane(points, unit, source, true)
+}
+
+// newPlane is NewPlane; a reader that has looked for close pairs already
+// (to name their lines) leaves checkClose false.
+func newPlane(points [][2]float64, unit, source string, checkClose bool) (*Plane, error) {
 	if len(points) < MinSites {
 		return nil, fmt.Errorf("%w: %d, need at least %d", ErrTooFew, len(points), MinSites)
 	}
@@ -41,6 +47,9 @@ func NewPlane(points [][2]float64, unit, source string) (*Plane, error) {
 			return nil, fmt.Errorf("site %d: point (%v, %v) is not finite", i+1, q[0], q[1])
 		}
 		p.Rows[i] = i
+	}
+	if !checkClose {
+		return p, nil
 	}
 	if i, j, ok := closePair(p.Points); ok {
 		return nil, fmt.Errorf("%w: sites %d and %d at (%v, %v)", ErrDuplicate, i+1, j+1, p.Points[j][0], p.Points[j][1])

@@ -88,7 +88,7 @@ func (rd *reader) fromPoints(vals []float64, dim int, lines []int, unit string, 
 		a, b := min(lines[i], lines[j]), max(lines[i], lines[j])
 		return Sites{}, rd.errorf(b, 0, "%w: (%v, %v), as on line %d", ErrDuplicate, points[j][0], points[j][1], a)
 	}
-	p, err := NewPlane(points, unit, rd.name)
+	p, err := newPlane(points, unit, rd.name, false)
 	if err != nil {
 		return Sites{}, rd.wrap(0, 0, err)
 	}
@@ -128,36 +128,77 @@ func typicalSpacing(points [][2]float64) float64 {
 }
 
 // closePair finds two points closer than DuplicateTolerance times the
-// typical spacing (the Plane invariant), by hashing the points into cells
-// of that size: a close pair sits in the same or neighbouring cells. It
-// returns their indices, i < j, and whether there is one.
+// typical spacing (the Plane invariant). The points are sorted into square
+// cells one typical spacing wide, so that a close pair sits in the same
+// or neighbouring cells, each holding a few points. It returns their
+// indices, i < j, and whether there is one.
 func closePair(points [][2]float64) (i, j int, ok bool) {
-	tol := DuplicateTolerance * typicalSpacing(points)
-	if !(tol > 0) || math.IsInf(tol, 0) {
-		// All points on one spot, or an infinite spread: the exact test.
-		seen := make(map[[2]float64]int, len(points))
-		for j, p := range points {
-			if i, ok := seen[p]; ok {
-				return i, j, true
-			}
-			seen[p] = j
-		}
-		return 0, 0, false
+	h := typicalSpacing(points)
+	tol := DuplicateTolerance * h
+	if !(tol > 0) || math.IsInf(h, 0) {
+		h, tol = 1, 0 // all points on one spot, or an infinite spread
 	}
-	cells := make(map[[2]float64][]int, len(points))
-	for j, p := range points {
-		cx, cy := math.Floor(p[0]/tol), math.Floor(p[1]/tol)
-		for dx := -1.0; dx <= 1; dx++ {
-			for dy := -1.0; dy <= 1; dy++ {
-				for _, i := range cells[[2]float64{cx + dx, cy + dy}] {
-					if math.Hypot(p[0]-points[i][0], p[1]-points[i][1]) <= tol {
-						return i, j, true
-					}
+	const far = 1 << 62 // cells beyond are clamped (only the speed suffers)
+	cell := func(v float64) int64 {
+		c := math.Floor(v / h)
+		return int64(math.Max(-far, math.Min(far, c)))
+	}
+	type key struct {
+		cx, cy int64
+		i      int
+	}
+	keys := make([]key, len(points))
+	for i, p := range points {
+		keys[i] = key{cell(p[0]), cell(p[1]), i}
+	}
+	less := func(a key, cx, cy int64) int {
+		switch {
+		case a.cx != cx:
+			return cmpInt(a.cx, cx)
+		default:
+			return cmpInt(a.cy, cy)
+		}
+	}
+	slices.SortFunc(keys, func(a, b key) int {
+		if c := less(a, b.cx, b.cy); c != 0 {
+			return c
+		}
+		return a.i - b.i
+	})
+	best := [2]int{-1, -1}
+	for _, k := range keys {
+		p := points[k.i]
+		for dx := int64(-1); dx <= 1; dx++ {
+			// The cells (cx, cy−1), (cx, cy), (cx, cy+1) are adjacent in
+			// the sorted keys: one search finds the first.
+			cx := k.cx + dx
+			start, _ := slices.BinarySearchFunc(keys, [2]int64{cx, k.cy - 1}, func(a key, t [2]int64) int { return less(a, t[0], t[1]) })
+			for _, o := range keys[start:] {
+				if o.cx != cx || o.cy > k.cy+1 {
+					break
+				}
+				if o.i >= k.i {
+					continue
+				}
+				q := points[o.i]
+				if math.Hypot(p[0]-q[0], p[1]-q[1]) <= tol && (best[0] < 0 || k.i < best[1] || k.i == best[1] && o.i < best[0]) {
+					best = [2]int{o.i, k.i}
 				}
 			}
 		}
-		key := [2]float64{cx, cy}
-		cells[key] = append(cells[key], j)
 	}
-	return 0, 0, false
+	if best[0] < 0 {
+		return 0, 0, false
+	}
+	return best[0], best[1], true
+}
+
+func cmpInt(a, b int64) int {
+	switch {
+	case a < b:
+		return -1
+	case a > b:
+		return 1
+	}
+	return 0
 }

@@ -166,3 +166,25 @@ func TestWritePlaneRoundTrip(t *testing.T) {
 }
 
 func fmtG(v float64) string { return fmt.Sprint(v) }
+
+// BenchmarkReadSitesPlate reads a 300 × 300 hexagonal plate (9·10^4
+// sites) written as CSV: parsing, the 1D/2D rule and the duplicate check.
+func BenchmarkReadSitesPlate(b *testing.B) {
+	pts := hexPlate(300, 300, 1)
+	p, err := NewPlane(pts, "um", "bench")
+	if err != nil {
+		b.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := WritePlane(&buf, p, nil); err != nil {
+		b.Fatal(err)
+	}
+	data := buf.Bytes()
+	b.ResetTimer()
+	for range b.N {
+		s, err := ReadSites(bytes.NewReader(data), "plate.csv", ReadOptions{})
+		if err != nil || s.Plane == nil {
+			b.Fatal(err)
+		}
+	}
+}
