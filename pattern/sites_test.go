@@ -167,24 +167,28 @@ func TestWritePlaneRoundTrip(t *testing.T) {
 
 func fmtG(v float64) string { return fmt.Sprint(v) }
 
-// BenchmarkReadSitesPlate reads a 300 × 300 hexagonal plate (9·10^4
-// sites) written as CSV: parsing, the 1D/2D rule and the duplicate check.
+// BenchmarkReadSitesPlate reads hexagonal plates of 300 × 300 and
+// 1000 × 1000 sites written as CSV: parsing, the 1D/2D rule and the
+// duplicate check.
 func BenchmarkReadSitesPlate(b *testing.B) {
-	pts := hexPlate(300, 300, 1)
-	p, err := NewPlane(pts, "um", "bench")
-	if err != nil {
-		b.Fatal(err)
-	}
-	var buf bytes.Buffer
-	if err := WritePlane(&buf, p, nil); err != nil {
-		b.Fatal(err)
-	}
-	data := buf.Bytes()
-	b.ResetTimer()
-	for range b.N {
-		s, err := ReadSites(bytes.NewReader(data), "plate.csv", ReadOptions{})
-		if err != nil || s.Plane == nil {
-			b.Fatal(err)
-		}
+	for _, side := range []int{300, 1000} {
+		b.Run(fmt.Sprintf("%dx%d", side, side), func(b *testing.B) {
+			p, err := NewPlane(hexPlate(side, side, 1), "um", "bench")
+			if err != nil {
+				b.Fatal(err)
+			}
+			var buf bytes.Buffer
+			if err := WritePlane(&buf, p, nil); err != nil {
+				b.Fatal(err)
+			}
+			data := buf.Bytes()
+			b.ResetTimer()
+			for range b.N {
+				s, err := ReadSites(bytes.NewReader(data), "plate.csv", ReadOptions{})
+				if err != nil || s.Plane == nil {
+					b.Fatal(err)
+				}
+			}
+		})
 	}
 }
