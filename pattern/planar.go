@@ -68,8 +68,10 @@ const figurePairs = 1 << 14
 // divided by their typical spacing along it (see MaxOffLine): the line's
 // direction is the principal axis of the orientation tensor Σ u uᵀ of the
 // unit vectors u between pairs of points (each pair one vote, however far
-// apart, so that a few outliers cast few votes), it passes through the
-// middle of the central 90% of the points' offsets across it, and the
+// apart, so that a few outliers cast few votes), refined twice as the
+// least-squares line of the points within three median distances of it;
+// the line passes through the middle of the central 90% of the points'
+// offsets across it (at least one point left out at each end), and the
 // spacing is the span of the central 90% of the points' projections on
 // it divided by the number of gaps it holds. It returns 0 for fewer than
 // two distinct points, +Inf when the central projections all coincide.
