@@ -9,6 +9,10 @@
 // Sturmian, substitution, random), optionally perturbed the way fabrication
 // perturbs a sample.
 //
+// A Plane is a two-dimensional point set, the sites of a plate: ReadSites
+// reads a chain or a plane, telling them apart by the one rule IsPlanar,
+// and WritePlane writes a plane as CSV.
+//
 // Every reader validates what it reads and refuses bad input with an error
 // that names the file, the line and the column; nothing here writes files.
 package pattern

@@ -86,3 +86,29 @@ func ExampleReadPoints() {
 	// bent.txt:3: expected 2 columns like the first data row (line 1), got 3
 	// [1 1.618] [1 0.5] <nil>
 }
+
+// ReadSites reads a chain or a plate: three rows of pillars, however long,
+// are a plane, not a chain; Read refuses them and says how to read them.
+func ExampleReadSites() {
+	var b strings.Builder
+	b.WriteString("x_um,y_um\n")
+	for i := range 30 {
+		for r := range 3 {
+			fmt.Fprintf(&b, "%g,%g\n", 100+2*float64(i)+float64(r%2), 50+1.732*float64(r))
+		}
+	}
+	s, err := pattern.ReadSites(strings.NewReader(b.String()), "rows.csv", pattern.ReadOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(s.Chain == nil, s.Plane.Len(), "sites in", s.Plane.Unit)
+	fmt.Println(s.Plane.Notes[0])
+
+	_, err = pattern.Read(strings.NewReader(b.String()), "rows.csv", pattern.ReadOptions{})
+	fmt.Println(err)
+	// Output:
+	// true 90 sites in um
+	// 90 sites read as a plane: half of them sit 2.6 spacings or more off their best line, a 2D set (a chain stays within 0.55)
+	// rows.csv: the centroids do not lie along a line: half of them sit 2.6 spacings or more off their best line (a chain stays within 0.55): this is a 2D point set, which analyze reads as a plate (pattern.ReadSites), not as a chain
+}

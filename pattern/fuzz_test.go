@@ -196,3 +196,52 @@ func FuzzNew(f *testing.F) {
 		checkInvariant(t, p)
 	})
 }
+
+// FuzzReadSites feeds arbitrary bytes to ReadSites, with format detection
+// or as centroids: it returns an *InputError naming the source and no
+// sites, or exactly one of a chain that keeps the Pattern invariant and a
+// plane that keeps the Plane invariant and that IsPlanar calls planar.
+func FuzzReadSites(f *testing.F) {
+	fuzzSeeds(f, func(data []byte) { f.Add(data, false) })
+	for _, s := range dialectSeeds {
+		f.Add([]byte(s), true)
+	}
+	f.Add([]byte("x,y\n0,0\n1,0\n2,0\n0,1\n1,1\n2,1\n0,2\n1,2\n2,2\n"), false)
+	f.Add([]byte(`{"sites":[{"x":0,"y":0},{"x":1,"y":0},{"x":0,"y":1},{"x":1,"y":1},{"x":2,"y":0},{"x":2,"y":1},{"x":0,"y":2},{"x":1,"y":2},{"x":2,"y":2}]}`), false)
+	f.Fuzz(func(t *testing.T, data []byte, centroids bool) {
+		opt := ReadOptions{}
+		if centroids {
+			opt.Format = FormatCentroids
+		}
+		s, err := ReadSites(bytes.NewReader(data), "fuzz.in", opt)
+		if err != nil {
+			var ie *InputError
+			if !errors.As(err, &ie) || ie.File != "fuzz.in" {
+				t.Fatalf("error %q (%T) is not an *InputError naming fuzz.in", err, err)
+			}
+			if s.Chain != nil || s.Plane != nil {
+				t.Fatalf("sites came back with the error %v", err)
+			}
+			return
+		}
+		if (s.Chain == nil) == (s.Plane == nil) {
+			t.Fatalf("chain %v, plane %v: want exactly one", s.Chain != nil, s.Plane != nil)
+		}
+		if s.Chain != nil {
+			checkInvariant(t, s.Chain)
+			return
+		}
+		p := s.Plane
+		if len(p.Points) < MinSites || len(p.Rows) != len(p.Points) {
+			t.Fatalf("%d points, %d rows", len(p.Points), len(p.Rows))
+		}
+		for i, q := range p.Points {
+			if math.IsNaN(q[0]) || math.IsInf(q[0], 0) || math.IsNaN(q[1]) || math.IsInf(q[1], 0) {
+				t.Fatalf("point %d is %v", i, q)
+			}
+		}
+		if _, _, dup := closePair(p.Points); dup || !IsPlanar(p.Points) {
+			t.Fatalf("plane with a close pair (%v) or not planar (%v)", dup, IsPlanar(p.Points))
+		}
+	})
+}

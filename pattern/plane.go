@@ -10,7 +10,9 @@ import (
 //
 // Invariant (established by NewPlane and by every reader): Points holds at
 // least MinSites finite points and no two points are closer than
-// DuplicateTolerance times the typical nearest-neighbour distance.
+// DuplicateTolerance times the typical nearest-neighbour distance, taken
+// as sqrt(A/N) over the box A holding the central 96% of the points in
+// each coordinate.
 type Plane struct {
 	// Points are the site coordinates (x, y) in Unit.
 	Points [][2]float64
@@ -30,6 +32,12 @@ type Plane struct {
 // NewPlane builds a Plane from points, checking the Plane invariant. The
 // slice is copied.
 func NewPlane(points [][2]float64, unit, source string) (*Plane, error) {
+	return newPlane(points, unit, source, true)
+}
+
+// newPlane is NewPlane; a reader that has looked for close pairs already
+// (to name their lines) leaves checkClose false.
+func newPlane(points [][2]float64, unit, source string, checkClose bool) (*Plane, error) {
 	if len(points) < MinSites {
 		return nil, fmt.Errorf("%w: %d, need at least %d", ErrTooFew, len(points), MinSites)
 	}
@@ -39,6 +47,12 @@ func NewPlane(points [][2]float64, unit, source string) (*Plane, error) {
 			return nil, fmt.Errorf("site %d: point (%v, %v) is not finite", i+1, q[0], q[1])
 		}
 		p.Rows[i] = i
+	}
+	if !checkClose {
+		return p, nil
+	}
+	if i, j, ok := closePair(p.Points); ok {
+		return nil, fmt.Errorf("%w: sites %d and %d at (%v, %v)", ErrDuplicate, i+1, j+1, p.Points[j][0], p.Points[j][1])
 	}
 	return p, nil
 }

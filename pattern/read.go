@@ -154,7 +154,8 @@ func ReadFile(path string, opt ReadOptions) (*Pattern, error) {
 // positions (or spacings under FormatSpacings, whose cumulative sums from
 // 0 are the positions); two or three hold x,y[,z] centroids, which are
 // projected onto their best line (see Scan) when they lie close to it and
-// refused as a 2D point set otherwise.
+// refused as a 2D point set otherwise (IsPlanar; ReadSites reads such a set
+// as a Plane).
 //
 // A tile word is a string of single ASCII letters, optionally separated by
 // spaces, commas or line breaks; opt.Tiles gives each letter's length and
@@ -171,6 +172,15 @@ func ReadFile(path string, opt ReadOptions) (*Pattern, error) {
 // more than MaxSites sites and JSON larger than MaxJSONBytes.
 func Read(r io.Reader, name string, opt ReadOptions) (*Pattern, error) {
 	return read(r, name, opt, defaultLimits())
+}
+
+// read reads a chain: a planar set is refused (see IsPlanar).
+func read(r io.Reader, name string, opt ReadOptions, lim limits) (*Pattern, error) {
+	s, err := readSites(r, name, opt, lim, false)
+	if err != nil {
+		return nil, err
+	}
+	return s.Chain, nil
 }
 
 // limits bundles the bounds of one read; tests lower them.
@@ -191,6 +201,9 @@ type reader struct {
 	opt  ReadOptions
 	lim  limits
 	dia  dialect
+	// planes is set when a planar set is read as a Plane (ReadSites)
+	// rather than refused (Read).
+	planes bool
 }
 
 // errorf returns an *InputError at line and col of the file.
@@ -205,28 +218,30 @@ func (rd *reader) wrap(line, col int, err error) error {
 
 var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
 
-func read(r io.Reader, name string, opt ReadOptions, lim limits) (*Pattern, error) {
+// readSites reads a chain or, when planes is set, a planar set (see
+// ReadSites).
+func readSites(r io.Reader, name string, opt ReadOptions, lim limits, planes bool) (Sites, error) {
 	if err := checkOptions(opt); err != nil {
-		return nil, err
+		return Sites{}, err
 	}
 	rd, br, head, err := openText(r, name, lim)
 	if err != nil {
-		return nil, err
+		return Sites{}, err
 	}
-	rd.opt = opt
+	rd.opt, rd.planes = opt, planes
 	rd.dia.comma = opt.DecimalComma
 	format := opt.Format
 	if format == "" || format == FormatAuto {
 		format = detect(head)
 	}
 	if opt.Columns != nil && (format == FormatJSON || format == FormatTiles) {
-		return nil, rd.errorf(0, 0, "--columns chooses columns of a table, but this input is %s", map[Format]string{FormatJSON: "JSON", FormatTiles: "a tile word"}[format])
+		return Sites{}, rd.errorf(0, 0, "--columns chooses columns of a table, but this input is %s", map[Format]string{FormatJSON: "JSON", FormatTiles: "a tile word"}[format])
 	}
 	switch format {
 	case FormatJSON:
 		return rd.readJSON(br)
 	case FormatTiles:
-		return rd.readTiles(br)
+		return chain(rd.readTiles(br))
 	default:
 		return rd.readColumns(br, format)
 	}

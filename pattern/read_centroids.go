@@ -9,23 +9,6 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// MaxOffLine is the rule that tells a chain from a 2D point set: the
-// median distance of the centroids from their best line, in mean spacings
-// along that line, above which they are refused. The median, not the mean
-// square, so that a few stray sites (debris on the stage, a mis-detected
-// centroid) far off a chain do not make it look two-dimensional.
-//
-// A chain's sites lie within a small fraction of a spacing of its line:
-// the tilted scans of the testdata sit below 0.03, and scatter across the
-// line as large as half a spacing is still read as a chain. The
-// narrowest 2D set, two rows a lattice step a apart, has its sites a/2
-// off the line between them while its projections are about a/2 apart:
-// a figure near 1, and larger for every wider patch (about W²/3.5 for W
-// rows), however elongated the patch is. The ratio of the spreads across
-// and along the line would not do: a long patch of a few rows has a small
-// one.
-const MaxOffLine = 0.5
-
 // fromCentroids reduces n centroids of dim coordinates (row-major in vals,
 // read on lines) to positions along their principal axis.
 //
@@ -101,20 +84,11 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 		dists[i] = math.Sqrt(d2)
 	}
 
-	// A chain, or a 2D set (see MaxOffLine)? The comparison is false for
-	// NaN, when all centroids coincide; finish refuses them as duplicates.
-	lo, hi := slices.Min(positions), slices.Max(positions)
-	spacing := (hi - lo) / float64(n-1)
 	var sumSq float64
 	for _, d := range dists {
 		sumSq += d * d
 	}
-	slices.Sort(dists)
-	maxDist := dists[n-1]
-	if med := dists[n/2]; med > MaxOffLine*spacing {
-		return nil, rd.errorf(0, 0, "the centroids do not lie along a line: half of them sit %.2g spacings or more off their best line (a chain stays within %g): this is a 2D point set, which phasonhull does not analyse yet",
-			med/spacing, MaxOffLine)
-	}
+	maxDist := slices.Max(dists)
 
 	// Rows may come in any order: sort them along the axis, lines with them.
 	order := make([]int, n)

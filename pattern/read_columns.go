@@ -36,9 +36,9 @@ func (t *table) name(k int) string {
 	return fmt.Sprintf("column %d", k+1)
 }
 
-// readColumns reads numeric columns and builds the Pattern that format
-// asks for (FormatAuto chooses by the number of columns kept).
-func (rd *reader) readColumns(br *bufio.Reader, format Format) (*Pattern, error) {
+// readColumns reads numeric columns and builds the chain or plane that
+// format asks for (FormatAuto chooses by the number of columns kept).
+func (rd *reader) readColumns(br *bufio.Reader, format Format) (Sites, error) {
 	t, err := rd.readTable(br, tableRules{
 		header:  true,
 		noun:    "sites",
@@ -46,12 +46,12 @@ func (rd *reader) readColumns(br *bufio.Reader, format Format) (*Pattern, error)
 		pattern: true,
 	})
 	if err != nil {
-		return nil, err
+		return Sites{}, err
 	}
 	var notes []string
 	if rd.opt.Columns == nil {
 		if notes, err = rd.dropIndexColumns(t); err != nil {
-			return nil, err
+			return Sites{}, err
 		}
 	} else {
 		names := make([]string, t.cols)
@@ -61,19 +61,19 @@ func (rd *reader) readColumns(br *bufio.Reader, format Format) (*Pattern, error)
 		notes = append(notes, fmt.Sprintf("read %s, as asked", strings.Join(names, ", ")))
 	}
 	if err := rd.checkColumns(t.cols, format, t.lines[0]); err != nil {
-		return nil, err
+		return Sites{}, err
 	}
 	unit, err := rd.tableUnit(t)
 	if err != nil {
-		return nil, err
+		return Sites{}, err
 	}
 	switch {
 	case format == FormatSpacings:
-		return rd.fromSpacings(t.vals, func(i int) (int, int) { return t.lines[i], t.src[0] + 1 }, unit, notes)
+		return chain(rd.fromSpacings(t.vals, func(i int) (int, int) { return t.lines[i], t.src[0] + 1 }, unit, notes))
 	case t.cols == 1:
-		return rd.finish(t.vals, t.lines, unit, notes)
+		return chain(rd.finish(t.vals, t.lines, unit, notes))
 	default:
-		return rd.fromCentroids(t.vals, t.cols, t.lines, unit, notes)
+		return rd.fromPoints(t.vals, t.cols, t.lines, unit, notes)
 	}
 }
 

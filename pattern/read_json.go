@@ -28,13 +28,13 @@ type jsonReader struct {
 }
 
 // readJSON reads a JSON input of at most rd.lim.jsonBytes bytes.
-func (rd *reader) readJSON(br *bufio.Reader) (*Pattern, error) {
+func (rd *reader) readJSON(br *bufio.Reader) (Sites, error) {
 	data, err := io.ReadAll(io.LimitReader(br, rd.lim.jsonBytes+1))
 	if err != nil {
-		return nil, rd.errorf(0, 0, "reading: %w", err)
+		return Sites{}, rd.errorf(0, 0, "reading: %w", err)
 	}
 	if int64(len(data)) > rd.lim.jsonBytes {
-		return nil, rd.errorf(0, 0, "is larger than %d bytes, the limit for JSON input", rd.lim.jsonBytes)
+		return Sites{}, rd.errorf(0, 0, "is larger than %d bytes, the limit for JSON input", rd.lim.jsonBytes)
 	}
 	j := &jsonReader{rd: rd, data: data, dec: json.NewDecoder(bytes.NewReader(data))}
 	j.dec.UseNumber()
@@ -224,13 +224,13 @@ func (j *jsonReader) sites() (vals []float64, offs []int, dim int, err error) {
 }
 
 // document reads the top-level object and builds the Pattern.
-func (j *jsonReader) document() (*Pattern, error) {
+func (j *jsonReader) document() (Sites, error) {
 	tok, start, err := j.next()
 	if err != nil {
-		return nil, err
+		return Sites{}, err
 	}
 	if tok != json.Delim('{') {
-		return nil, j.errorf(start, "the JSON must be an object with %s, not %s", jsonKeys, tokenName(tok))
+		return Sites{}, j.errorf(start, "the JSON must be an object with %s, not %s", jsonKeys, tokenName(tok))
 	}
 	var (
 		unit string
@@ -243,31 +243,31 @@ func (j *jsonReader) document() (*Pattern, error) {
 	for j.dec.More() {
 		tok, off, err := j.next()
 		if err != nil {
-			return nil, err
+			return Sites{}, err
 		}
 		key, _ := tok.(string)
 		if keys[key] {
-			return nil, j.errorf(off, "key %q is given twice", key)
+			return Sites{}, j.errorf(off, "key %q is given twice", key)
 		}
 		keys[key] = true
 		switch key {
 		case "unit":
 			t, voff, err := j.next()
 			if err != nil {
-				return nil, err
+				return Sites{}, err
 			}
 			s, ok := t.(string)
 			if !ok {
-				return nil, j.errorf(voff, `"unit" must be a string, not %s`, tokenName(t))
+				return Sites{}, j.errorf(voff, `"unit" must be a string, not %s`, tokenName(t))
 			}
 			unit = normalizeUnit(strings.TrimSpace(s))
 			continue
 		case "positions", "spacings", "sites":
 		default:
-			return nil, j.errorf(off, "unknown key %q (the keys are %s)", key, jsonKeys)
+			return Sites{}, j.errorf(off, "unknown key %q (the keys are %s)", key, jsonKeys)
 		}
 		if kind != "" {
-			return nil, j.errorf(off, "%q and %q are both given; give only one of \"positions\", \"spacings\" and \"sites\"", kind, key)
+			return Sites{}, j.errorf(off, "%q and %q are both given; give only one of \"positions\", \"spacings\" and \"sites\"", kind, key)
 		}
 		switch key {
 		case "positions", "spacings":
@@ -277,20 +277,20 @@ func (j *jsonReader) document() (*Pattern, error) {
 			vals, offs, dim, err = j.sites()
 		}
 		if err != nil {
-			return nil, err
+			return Sites{}, err
 		}
 		kind = key
 	}
 	if _, _, err := j.next(); err != nil { // '}'
-		return nil, err
+		return Sites{}, err
 	}
 	// Nothing but white space may follow the object.
 	rest := bytes.TrimLeft(j.data[j.dec.InputOffset():], " \t\r\n")
 	if len(rest) > 0 {
-		return nil, j.errorf(len(j.data)-len(rest), "unexpected content after the JSON object")
+		return Sites{}, j.errorf(len(j.data)-len(rest), "unexpected content after the JSON object")
 	}
 	if kind == "" {
-		return nil, j.rd.errorf(0, 0, "the JSON object has none of \"positions\", \"spacings\" and \"sites\"")
+		return Sites{}, j.rd.errorf(0, 0, "the JSON object has none of \"positions\", \"spacings\" and \"sites\"")
 	}
 	lines := make([]int, len(offs))
 	for i, off := range offs {
@@ -298,10 +298,10 @@ func (j *jsonReader) document() (*Pattern, error) {
 	}
 	switch {
 	case kind == "spacings":
-		return j.rd.fromSpacings(vals, func(i int) (int, int) { return j.at(offs[i]) }, unit, nil)
+		return chain(j.rd.fromSpacings(vals, func(i int) (int, int) { return j.at(offs[i]) }, unit, nil))
 	case dim <= 1: // dim 0: an empty "sites" array, refused by finish as too few
-		return j.rd.finish(vals, lines, unit, nil)
+		return chain(j.rd.finish(vals, lines, unit, nil))
 	default:
-		return j.rd.fromCentroids(vals, dim, lines, unit, nil)
+		return j.rd.fromPoints(vals, dim, lines, unit, nil)
 	}
 }

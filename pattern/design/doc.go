@@ -54,6 +54,34 @@
 //   - random: independent spacings ("dist" uniform, exponential or
 //     gaussian, "spread").
 //
+// # Plates
+//
+// The two-dimensional families make plates of sites (GeneratePlane, a
+// *pattern.Plane); Family.Dimension tells them apart, Families lists the
+// families of chains and PlaneFamilies those of plates. "sites" is the
+// number of sites per side (default 40: a 40 × 40 patch of 1600 sites),
+// on a square or hexagonal lattice ("lattice": square, hex) of step
+// "spacing" (default 1), a1 = (a, 0) and a2 = (0, a) or (a/2, a√3/2). A
+// site n = (n1, n2) is displaced by a field of the torus coordinate
+// ψ_n = ψ0 + A·n mod 1 (Spec.Rotation gives A, d × 2, in turns per
+// lattice step):
+//
+//   - plate: A = "rotation", d = 0 to 3 rows of 2 numbers, and
+//     u(ψ) = Σ_k a_k·ê_k·sin 2πψ_k, a_k = "amps", ψ0 = "phases" (missing
+//     ones 0), ê_k along the wave of row k in real space (longitudinal)
+//     or at "polar" degrees from the x axis. A rational A repeats on a
+//     supercell (a finite hull); d = 0 is the bare lattice.
+//   - twisted: a lattice on a periodic potential turned against it,
+//     A = s·R(twist), R the rotation matrix, "twist" in degrees, s =
+//     "scale" (default 1), and u(ψ) = amp·(ê1 sin 2πψ1 + ê2 sin 2πψ2), ê1
+//     and ê2 the x and y axes turned by the twist.
+//
+// The amplitudes must keep every site inside its Voronoi cell, so that no
+// two sites can meet; larger ones are refused. Plates take the
+// perturbations missing, extra (spurious sites placed uniformly in the
+// patch) and noise (isotropic: that standard deviation on each
+// coordinate), in that order; drift is for chains only.
+//
 // # Perturbations
 //
 // Any family can be perturbed the way fabrication perturbs a sample. The

@@ -61,3 +61,22 @@ func ExampleReadSpec() {
 	// 6
 	// 6.9
 }
+
+// A 40 × 40 plate of a square lattice displaced by two longitudinal waves
+// whose rotation matrix A has irrational entries: its hull is a 2-torus.
+func ExampleGeneratePlane() {
+	s := design.NewSpec(design.Plate)
+	s.Unit = "um"
+	s.Matrix = [][]float64{{0.4142, 0}, {0, 0.2679}}
+	s.Amps = []float64{0.1, 0.08}
+	s.Missing, s.Noise = 0.02, 0.01
+	p, err := design.GeneratePlane(s)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(p.Len(), "sites in", p.Unit, "from", p.Source)
+	fmt.Println("A =", s.Rotation(), "dimension", s.Family.Dimension())
+	// Output:
+	// 1568 sites in um from generated
+	// A = [[0.4142 0] [0 0.2679]] dimension 2
+}

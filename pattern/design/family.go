@@ -21,6 +21,9 @@ const (
 	Sturmian     Family = "sturmian"
 	Substitution Family = "substitution"
 	Random       Family = "random"
+	// The two-dimensional families: plates of sites (GeneratePlane).
+	Plate   Family = "plate"
+	Twisted Family = "twisted"
 )
 
 // family is one entry of the family table: everything the package and its
@@ -36,10 +39,14 @@ type family struct {
 	// defaults fills in the family's defaults beyond spacing; nil when
 	// there are none.
 	defaults func(*Spec)
+	// dim is 2 for a family of plates, 0 (read as 1) for chains.
+	dim int
 	// check refuses parameters out of range (on a spec with defaults);
-	// build makes the unperturbed design.
+	// build makes the unperturbed design of a chain, plane the
+	// unperturbed sites of a plate (the one or the other, by dim).
 	check func(Spec) error
 	build func(Spec) (base, error)
+	plane func(Spec) [][2]float64
 	// closed is what a spec of the family fixes in closed form (on a spec
 	// with defaults); nil when it fixes nothing.
 	closed func(Spec) ClosedForm
@@ -142,6 +149,28 @@ func table() []family {
 			defaults: defaultsRandom,
 			check:    checkRandom, build: buildRandom,
 		},
+		{
+			name: Plate, dim: 2, uses: uses("spacing", "lattice", "rotation", "amps", "phases", "polar"),
+			formula: "x_n = n1·a1 + n2·a2 + Σ_k amps[k]·ê_k·sin 2πψ_k, ψ = phases + A·n mod 1, A = rotation (d × 2), on a Sites × Sites patch",
+			help: "a square or hex lattice (--lattice, step --spacing) displaced by d = 0..3\n" +
+				"waves: x_n = n1·a1 + n2·a2 + Σ_k a_k ê_k sin 2πψ_k, ψ = ψ0 + A·n mod 1,\n" +
+				"A = --rotation (d rows of 2, turns per lattice step), a_k = --amps,\n" +
+				"ψ0 = --phases, ê_k along wave k or at --polar degrees; --sites per side",
+			defaults: defaultsPlane,
+			check:    checkPlate, plane: buildPlate,
+			phase: "phases", field: firstPlanePhase,
+		},
+		{
+			name: Twisted, dim: 2, uses: uses("spacing", "lattice", "twist", "scale", "amp", "phases"),
+			formula: "x_n = n1·a1 + n2·a2 + amp·(ê1 sin 2πψ1 + ê2 sin 2πψ2), ψ = phases + A·n mod 1, A = scale·R(twist), ê_k the axes turned by twist, on a Sites × Sites patch",
+			help: "a square or hex lattice on a periodic potential turned by --twist\n" +
+				"degrees: A = s·R(twist) (s = --scale, default 1), x_n = n1·a1 + n2·a2\n" +
+				"+ amp·(ê1 sin 2πψ1 + ê2 sin 2πψ2), ê the x and y axes turned by the\n" +
+				"twist; --sites per side",
+			defaults: defaultsPlane,
+			check:    checkTwisted, plane: buildTwisted,
+			phase: "phases", field: firstPlanePhase,
+		},
 	}
 }
 
@@ -155,18 +184,36 @@ func lookupFamily(name Family) (family, bool) {
 	return family{}, false
 }
 
-// Families returns the design families, in documentation order.
-func Families() []Family {
-	t := table()
-	out := make([]Family, len(t))
-	for i, f := range t {
-		out[i] = f.name
+// Families returns the design families of chains (Generate), in
+// documentation order; PlaneFamilies those of plates.
+func Families() []Family { return familiesOf(1) }
+
+// PlaneFamilies returns the two-dimensional design families
+// (GeneratePlane), in documentation order.
+func PlaneFamilies() []Family { return familiesOf(2) }
+
+func familiesOf(dim int) []Family {
+	var out []Family
+	for _, f := range table() {
+		if max(f.dim, 1) == dim {
+			out = append(out, f.name)
+		}
 	}
 	return out
 }
 
-// FamilyNames returns the names of the design families joined by ", ",
-// for messages and help texts.
+// Dimension is 1 for a family of chains (Generate), 2 for a family of
+// plates (GeneratePlane), 0 for an unknown family.
+func (f Family) Dimension() int {
+	fam, ok := lookupFamily(f)
+	if !ok {
+		return 0
+	}
+	return max(fam.dim, 1)
+}
+
+// FamilyNames returns the names of the design families of chains joined
+// by ", ", for messages and help texts.
 func FamilyNames() string {
 	var b strings.Builder
 	for i, f := range Families() {

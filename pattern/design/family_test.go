@@ -16,7 +16,7 @@ func TestFamilyTable(t *testing.T) {
 			t.Errorf("%s: two table entries", f.name)
 		}
 		seen[f.name] = true
-		if f.help == "" || f.formula == "" || f.check == nil || f.build == nil || len(f.uses) == 0 {
+		if f.help == "" || f.formula == "" || f.check == nil || (f.build == nil) != (f.dim == 2) || (f.plane == nil) != (f.dim != 2) || len(f.uses) == 0 {
 			t.Errorf("%s: incomplete entry", f.name)
 		}
 		if (f.phase == "") != (f.field == nil) || (f.phase != "" && !f.uses[f.phase]) {

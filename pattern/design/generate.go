@@ -17,6 +17,9 @@ func Generate(spec Spec) (*pattern.Pattern, error) {
 	if err != nil {
 		return nil, fmt.Errorf("design: %w", err)
 	}
+	if c.Family.Dimension() == 2 {
+		return nil, fmt.Errorf("design: the %s family makes plates (two-dimensional): generate it with GeneratePlane", c.Family)
+	}
 	pos, word, notes := perturb(c, b)
 	p, err := pattern.New(pos, c.Unit, "generated")
 	if err != nil {

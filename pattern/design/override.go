@@ -27,6 +27,15 @@ func (s *Spec) Override(o Spec, given func(name string) bool) {
 			v = reflect.ValueOf(slices.Clone(x))
 		case map[string]float64:
 			v = reflect.ValueOf(maps.Clone(x))
+		case [][]float64:
+			if x == nil {
+				break
+			}
+			rows := make([][]float64, len(x))
+			for i, r := range x {
+				rows[i] = slices.Clone(r)
+			}
+			v = reflect.ValueOf(rows)
 		}
 		dst.Field(i).Set(v)
 	}

@@ -14,6 +14,7 @@ func full() Spec {
 		Thetas: []float64{0.4, 0.27}, Amps: []float64{0.1, 0.2}, Phases: []float64{0.3},
 		RadiusCos: []float64{0.1}, RadiusSin: []float64{0.2}, Step: 0.38, Omega: 0.3, K: 0.9,
 		Tiles: map[string]float64{"A": 1, "B": 2}, Intercept: 0.5, Rule: "fibonacci", Dist: "exponential", Spread: 0.3,
+		Lattice: "hex", Matrix: [][]float64{{0.1, 0.2}}, Polar: []float64{30}, Twist: 5, Scale: 1.1,
 		Noise: 0.01, Missing: 0.02, Extra: 0.03, Drift: 0.004, Seed: 9}
 }
 
@@ -60,9 +61,9 @@ func TestOverrideCopies(t *testing.T) {
 	o := full()
 	var s Spec
 	s.Override(o, func(string) bool { return true })
-	o.Sin[0], o.Tiles["A"] = 99, 99
-	if s.Sin[0] != 0.1 || s.Tiles["A"] != 1 {
-		t.Errorf("spec shares the source's storage: sin %v tiles %v", s.Sin, s.Tiles)
+	o.Sin[0], o.Tiles["A"], o.Matrix[0][0] = 99, 99, 99
+	if s.Sin[0] != 0.1 || s.Tiles["A"] != 1 || s.Matrix[0][0] != 0.1 {
+		t.Errorf("spec shares the source's storage: sin %v tiles %v rotation %v", s.Sin, s.Tiles, s.Matrix)
 	}
 }
 

@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -18,10 +19,13 @@ import (
 
 // Defaults and limits of a Spec.
 const (
-	DefaultSites = 200        // sites when none are asked for
-	DefaultSeed  = 1          // seed of the random choices when none is given
-	MaxSites     = 10_000_000 // most sites a design may hold, perturbations included
-	MaxSpecBytes = 1 << 20    // largest spec file ReadSpec reads
+	DefaultSites = 200 // sites when none are asked for
+	// DefaultSitesPerSide is the sites per side of a plate (a 2D family)
+	// when none are asked for: 40 × 40 = 1600 sites.
+	DefaultSitesPerSide = 40
+	DefaultSeed         = 1          // seed of the random choices when none is given
+	MaxSites            = 10_000_000 // most sites a design may hold, perturbations included
+	MaxSpecBytes        = 1 << 20    // largest spec file ReadSpec reads
 )
 
 // Spec describes one generated design. Its JSON names are the flag names of
@@ -31,7 +35,9 @@ const (
 type Spec struct {
 	// Family is one of Families().
 	Family Family `json:"family"`
-	// Sites is the number of sites of the design before perturbation.
+	// Sites is the number of sites of the design before perturbation; for
+	// the two-dimensional families (plate, twisted) it is the sites per
+	// side of the patch, rows × columns = Sites × Sites.
 	Sites int `json:"sites"`
 	// Spacing is the mean spacing L (default 1) of the periodic-lattice
 	// families: modulated, loop, circle-map, two-angle, multi-angle and
@@ -106,8 +112,25 @@ type Spec struct {
 	// for the default 0.5.
 	Spread float64 `json:"spread,omitempty"`
 
+	// Lattice is the lattice of the two-dimensional families: "square"
+	// (the default) or "hex" (hexagonal), of step "spacing" (default 1).
+	Lattice string `json:"lattice,omitempty"`
+	// Matrix is the plate family's matrix A ("rotation"), d rows (d = 0 to 3) of 2
+	// numbers in turns per lattice step: ψ_n = ψ0 + A·n mod 1 on the
+	// d-torus, for the lattice index n = (n1, n2); "amps" gives one
+	// amplitude per row and "phases" ψ0 (missing entries 0).
+	Matrix [][]float64 `json:"rotation,omitempty"`
+	// Polar gives the plate family's polarisation of each row of A, in
+	// degrees from the x axis; without it each displacement runs along its
+	// wave (longitudinal).
+	Polar []float64 `json:"polar,omitempty"`
+	// Twist and Scale make the twisted family's matrix A = s·R(twist)
+	// (twist in degrees, s default 1), R the rotation matrix.
+	Twist float64 `json:"twist,omitempty"`
+	Scale float64 `json:"scale,omitempty"`
+
 	// Noise is the standard deviation of the Gaussian position noise, in
-	// the unit.
+	// the unit; in two dimensions, of each coordinate (isotropic).
 	Noise float64 `json:"noise,omitempty"`
 	// Missing is the fraction of the design's sites removed, in [0, 1).
 	Missing float64 `json:"missing,omitempty"`
@@ -126,8 +149,21 @@ type Spec struct {
 // sites and the default seed; the family's own parameters are left for the
 // caller to set.
 func NewSpec(family Family) Spec {
-	return Spec{Family: family, Sites: DefaultSites, Seed: DefaultSeed}
+	return Spec{Family: family, Sites: defaultSites(family), Seed: DefaultSeed}
 }
+
+// defaultSites is the family's number of sites when none is given: sites
+// per side for a two-dimensional family.
+func defaultSites(family Family) int {
+	if family.Dimension() == 2 {
+		return DefaultSitesPerSide
+	}
+	return DefaultSites
+}
+
+// unsetSites marks a spec read without "sites", so that ReadSpec can give
+// it its family's default.
+const unsetSites = math.MinInt
 
 // ReadSpecFile reads the JSON design spec at path, as ReadSpec does; a
 // file that cannot be opened gives the error of os.Open.
@@ -153,12 +189,15 @@ func ReadSpec(r io.Reader, name string) (Spec, error) {
 	if len(data) > MaxSpecBytes {
 		return Spec{}, &pattern.InputError{File: name, Err: fmt.Errorf("a design spec is at most %d bytes", MaxSpecBytes)}
 	}
-	s := Spec{Sites: DefaultSites, Seed: DefaultSeed}
+	s := Spec{Sites: unsetSites, Seed: DefaultSeed}
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&s); err != nil {
 		line, col, msg := describeJSONError(data, err)
 		return Spec{}, &pattern.InputError{File: name, Line: line, Col: col, Err: msg}
+	}
+	if s.Sites == unsetSites {
+		s.Sites = defaultSites(s.Family)
 	}
 	rest := int(dec.InputOffset())
 	for rest < len(data) && strings.ContainsRune(" \t\r\n", rune(data[rest])) {
@@ -255,6 +294,11 @@ func familyParams() []param {
 		word("rule", func(s *Spec) string { return s.Rule }),
 		word("dist", func(s *Spec) string { return s.Dist }),
 		num("spread", func(s *Spec) float64 { return s.Spread }),
+		word("lattice", func(s *Spec) string { return s.Lattice }),
+		{"rotation", func(s *Spec) bool { return len(s.Matrix) > 0 }, func(s *Spec) string { return formatRows(s.Matrix) }, true},
+		list("polar", func(s *Spec) []float64 { return s.Polar }),
+		num("twist", func(s *Spec) float64 { return s.Twist }),
+		num("scale", func(s *Spec) float64 { return s.Scale }),
 	}
 }
 
@@ -267,6 +311,7 @@ func (s *Spec) floatFields() map[string][]float64 {
 		"amp2": {s.Amp2}, "thetas": s.Thetas, "amps": s.Amps, "phases": s.Phases, "radius-cos": s.RadiusCos, "radius-sin": s.RadiusSin, "step": {s.Step},
 		"omega": {s.Omega}, "k": {s.K}, "intercept": {s.Intercept}, "spread": {s.Spread},
 		"noise": {s.Noise}, "missing": {s.Missing}, "extra": {s.Extra}, "drift": {s.Drift},
+		"rotation": slices.Concat(s.Matrix...), "polar": s.Polar, "twist": {s.Twist}, "scale": {s.Scale},
 	}
 }
 
@@ -292,6 +337,14 @@ func (s Spec) WithDefaults() Spec {
 	s.Thetas = cloneFloats(s.Thetas)
 	s.Amps = cloneFloats(s.Amps)
 	s.Phases = cloneFloats(s.Phases)
+	s.Polar = cloneFloats(s.Polar)
+	if s.Matrix != nil {
+		rows := make([][]float64, len(s.Matrix))
+		for i, r := range s.Matrix {
+			rows[i] = cloneFloats(r)
+		}
+		s.Matrix = rows
+	}
 	if s.Tiles != nil {
 		t := make(map[string]float64, len(s.Tiles))
 		for k, v := range s.Tiles {
@@ -328,11 +381,17 @@ func (s Spec) prepare() (Spec, base, error) {
 		}
 		return s, base{}, fmt.Errorf("family %q: unknown; choose one of %s", s.Family, FamilyNames())
 	}
-	if s.Sites < pattern.MinSites {
-		return s, base{}, fmt.Errorf("sites = %d: a design needs at least %d sites", s.Sites, pattern.MinSites)
-	}
-	if s.Sites > MaxSites {
-		return s, base{}, fmt.Errorf("sites = %d: at most %d sites can be generated", s.Sites, MaxSites)
+	if fam.dim == 2 {
+		if s.Sites < minSitesPerSide || s.Sites > maxSitesPerSide {
+			return s, base{}, fmt.Errorf("sites = %d: a plate has %d to %d sites per side (%d × %d at most, %d sites)", s.Sites, minSitesPerSide, maxSitesPerSide, maxSitesPerSide, maxSitesPerSide, MaxSites)
+		}
+	} else {
+		if s.Sites < pattern.MinSites {
+			return s, base{}, fmt.Errorf("sites = %d: a design needs at least %d sites", s.Sites, pattern.MinSites)
+		}
+		if s.Sites > MaxSites {
+			return s, base{}, fmt.Errorf("sites = %d: at most %d sites can be generated", s.Sites, MaxSites)
+		}
 	}
 	fields := s.floatFields()
 	names := make([]string, 0, len(fields))
@@ -373,6 +432,9 @@ func (s Spec) prepare() (Spec, base, error) {
 	if err := c.checkPerturbations(); err != nil {
 		return s, base{}, err
 	}
+	if fam.dim == 2 {
+		return c, base{}, nil // GeneratePlane builds the sites
+	}
 	b, err := fam.build(c)
 	if err != nil {
 		return s, base{}, err
@@ -406,19 +468,32 @@ func (s Spec) checkPerturbations() error {
 	if s.Missing < 0 || s.Missing >= 1 {
 		return fmt.Errorf("missing = %s: the fraction of missing sites must lie in [0, 1)", formatFloat(s.Missing))
 	}
-	if left := s.Sites - countOf(s.Missing, s.Sites); left < pattern.MinSites {
-		return fmt.Errorf("missing = %s: removes %d of %d sites and leaves %d, fewer than %d", formatFloat(s.Missing), s.Sites-left, s.Sites, left, pattern.MinSites)
+	sites := s.designSites()
+	if left := sites - countOf(s.Missing, sites); left < pattern.MinSites {
+		return fmt.Errorf("missing = %s: removes %d of %d sites and leaves %d, fewer than %d", formatFloat(s.Missing), sites-left, sites, left, pattern.MinSites)
 	}
 	if s.Extra < 0 {
 		return fmt.Errorf("extra = %s: the fraction of extra sites cannot be negative", formatFloat(s.Extra))
 	}
-	if total := float64(s.Sites-countOf(s.Missing, s.Sites)) + math.Round(s.Extra*float64(s.Sites)); total > MaxSites {
+	if total := float64(sites-countOf(s.Missing, sites)) + math.Round(s.Extra*float64(sites)); total > MaxSites {
 		return fmt.Errorf("extra = %s: the design would hold %.0f sites, more than %d", formatFloat(s.Extra), total, MaxSites)
+	}
+	if s.Drift != 0 && s.Family.Dimension() == 2 {
+		return fmt.Errorf("drift = %s: a scale drift is a perturbation of chains; the %s family is two-dimensional", formatFloat(s.Drift), s.Family)
 	}
 	if s.Drift <= -0.5 {
 		return fmt.Errorf("drift = %s: must be greater than -0.5, or the drift would reverse the order of the sites", formatFloat(s.Drift))
 	}
 	return nil
+}
+
+// designSites is the number of sites of the design before perturbation:
+// Sites, or Sites × Sites for a two-dimensional family.
+func (s Spec) designSites() int {
+	if s.Family.Dimension() == 2 {
+		return s.Sites * s.Sites
+	}
+	return s.Sites
 }
 
 // countOf is the number of sites a fraction f of n sites stands for.
@@ -445,9 +520,11 @@ func (s Spec) Comments() []string {
 	lines = append(lines,
 		"noise = "+formatFloat(c.Noise),
 		"missing = "+formatFloat(c.Missing),
-		"extra = "+formatFloat(c.Extra),
-		"drift = "+formatFloat(c.Drift),
-		"seed = "+strconv.FormatUint(c.Seed, 10))
+		"extra = "+formatFloat(c.Extra))
+	if c.Family.Dimension() != 2 {
+		lines = append(lines, "drift = "+formatFloat(c.Drift))
+	}
+	lines = append(lines, "seed = "+strconv.FormatUint(c.Seed, 10))
 	js, err := json.Marshal(c)
 	if err != nil {
 		// A Spec holds only strings, numbers, lists and a string map: it
@@ -465,6 +542,15 @@ func formatList(vs []float64) string {
 		s[i] = formatFloat(v)
 	}
 	return strings.Join(s, ",")
+}
+
+// formatRows writes the rows of a matrix as "a,b;c,d".
+func formatRows(rows [][]float64) string {
+	s := make([]string, len(rows))
+	for i, r := range rows {
+		s[i] = formatList(r)
+	}
+	return strings.Join(s, ";")
 }
 
 func formatTiles(t map[string]float64) string {
