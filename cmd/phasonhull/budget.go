@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
+	"phasonhull/cmd/phasonhull/internal/picture"
 
 	"github.com/spf13/cobra"
 
@@ -16,6 +17,7 @@ import (
 // budgetFlags holds the flags of "phasonhull budget".
 type budgetFlags struct {
 	op                     spectrumFlags // the operator and label flags
+	plot                   plotFlags
 	sigma                  []float64
 	sigmaGrid              *flagval.LengthGrid
 	opt                    budget.Options
@@ -41,6 +43,7 @@ func (f *budgetFlags) register(cmd *cobra.Command) {
 	fs.Float64Var(&f.opt.Confidence, "confidence", budget.DefaultConfidence, "with --gap: the survival probability asked for")
 	fs.Float64Var(&f.minWidth, "min-width", 0, "a gap is open when wider than this, in the levels' unit (0: the spectrum's resolution, its smallest reported gap)")
 	fs.BoolVar(&f.json, "json", false, "print the result as one JSON object")
+	f.plot.register(fs)
 }
 
 // newBudgetCmd builds "phasonhull budget".
@@ -67,7 +70,10 @@ design's class, and the spread of the recovered angle.
 --gap n,m finds the budget: the largest σ whose estimated survival of that
 gap reaches --confidence, by bisection on σ, with its Monte Carlo error —
 the range of σ where the Wilson interval straddles the confidence. A gap
-the design itself does not open is refused, naming the gaps it opens.`,
+the design itself does not open is refused, naming the gaps it opens.
+
+--plot DIR draws the survival of each gap against σ with its interval, and
+the median width with its 5–95% range.`,
 		Example: `  # The demo design: how much position error keeps the widest gap open?
   phasonhull budget --design testdata/demo/lw0412_design.json --hopping exp --decay 3 \
       --sigma 0:0.2mm:5 --gap 0,1 --confidence 0.95`,
@@ -86,6 +92,9 @@ func runBudget(cmd *cobra.Command, f *budgetFlags) error {
 		return errors.New("give the design: --design SPEC")
 	}
 	if err := f.op.checkOperator(cmd); err != nil {
+		return err
+	}
+	if err := f.plot.validate(); err != nil {
 		return err
 	}
 	spec, err := design.ReadSpecFile(f.op.design)
@@ -128,6 +137,16 @@ func runBudget(cmd *cobra.Command, f *budgetFlags) error {
 	res.Source = f.op.design
 	res.Notes = append(res.Notes, rep.Notes...)
 	res.Warnings = append(res.Warnings, rep.Warnings...)
+	if f.plot.dir != "" {
+		f.plot.list = listTo(cmd)
+		pic, err := picture.Budget(res)
+		if err != nil {
+			return fmt.Errorf("--plot: %w", err)
+		}
+		if err := f.plot.write([]*picture.Picture{pic}); err != nil {
+			return err
+		}
+	}
 	if f.json {
 		return writeJSON(cmd.OutOrStdout(), res)
 	}

@@ -202,6 +202,10 @@ func Run(ctx context.Context, s Sampler, opt Options) (*Result, error) {
 			return nil, err
 		}
 	}
+	if all := NewProportion(opt.Trials, opt.Trials); opt.Gap != nil && all.Low < opt.Confidence {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d trials cannot show a survival of %g even when every one survives: the Wilson interval of %d/%d reaches down to %.3f; the budget's low end is then 0 — ask for more trials",
+			opt.Trials, opt.Confidence, opt.Trials, opt.Trials, all.Low))
+	}
 	if opt.HullTrials > 0 && opt.HullTrials < opt.Trials {
 		res.Notes = append(res.Notes, fmt.Sprintf("the hull class and angle are measured on the first %d of the %d trials of each level (a hull analysis costs about 30 spectra)", opt.HullTrials, opt.Trials))
 	}
