@@ -40,7 +40,8 @@ type Probe struct {
 const (
 	// bisections is the number of halvings of the bracket at most;
 	// relTol stops them once the bracket is that narrow relative to its
-	// upper end.
+	// upper end (they stop sooner once the Wilson intervals at its two
+	// ends overlap).
 	bisections = 12
 	relTol     = 0.01
 	// expansions bounds the doublings of σ looking for a level where the
@@ -134,7 +135,10 @@ func (r runner) budget(ctx context.Context, g DesignGap, levels []LevelResult) (
 		}
 	}
 	for range bisections {
-		if hi-lo <= relTol*hi {
+		// Stop once the bracket is narrow, or once the trials cannot tell
+		// its ends apart (their Wilson intervals overlap): halving further
+		// would only move the answer within its Monte Carlo error.
+		if hi-lo <= relTol*hi || seen[lo].Low <= seen[hi].High {
 			break
 		}
 		mid := (lo + hi) / 2

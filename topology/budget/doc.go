@@ -34,8 +34,9 @@
 // With Options.Gap set, Run finds the largest σ whose estimated survival of
 // that gap is at least Options.Confidence: the levels already run bracket
 // it (σ is doubled from the largest until the gap falls short), and the
-// bracket is halved until it is 1% of its upper end, each probe running
-// the same trials. The answer carries its Monte Carlo error: Budget.Low is
+// bracket is halved until it is 1% of its upper end, or until the Wilson
+// intervals at its two ends overlap (the trials can no longer tell them
+// apart), each probe running the same trials. The answer carries its Monte Carlo error: Budget.Low is
 // a σ where the whole Wilson interval lies at or above the confidence,
 // Budget.High one where it lies below; between them the trials cannot
 // tell. A target gap the design itself does not open is refused, naming
