@@ -27,6 +27,10 @@ const (
 	DefaultSeed       = 1
 )
 
+// DefaultSigmas are the position errors tried when none are given: 0 and
+// 0.5%, 1%, 2% and 5% of the mean spacing d.
+func DefaultSigmas(d float64) []float64 { return []float64{0, 0.005 * d, 0.01 * d, 0.02 * d, 0.05 * d} }
+
 // Options control Run. The zero value runs DefaultTrials trials of the
 // gaps alone at no error level.
 type Options struct {
