@@ -181,6 +181,9 @@ func Run(ctx context.Context, s Sampler, opt Options) (*Result, error) {
 		res.EdgeTrials, opt.EdgeTrials = 0, 0
 		res.Notes = append(res.Notes, "edge modes not counted: they need an open chain and a design with a phase to sweep")
 	}
+	if opt.HullTrials > 0 && ref.Class == hull.Unresolved {
+		res.Warnings = append(res.Warnings, "the hull analysis of the design itself is unresolved: a trial keeps the class when it is unresolved too, which says little")
+	}
 	if len(res.Design.Gaps) == 0 {
 		return nil, fmt.Errorf("budget: no labelled gap of the design is wider than %g; nothing to keep open", res.MinWidth)
 	}
