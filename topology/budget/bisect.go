@@ -71,7 +71,13 @@ func (r runner) budget(ctx context.Context, g DesignGap, levels []LevelResult) (
 			return p, nil
 		}
 		l := Level{Sigma: sigma, Missing: r.opt.Missing, Drift: r.opt.Drift}
-		ts, err := r.trials(ctx, l, r.opt.Trials, func(int) Measure { return Measure{} },
+		// Without position error or missing sites every trial is the
+		// same sample: one stands for all.
+		n, each := r.opt.Trials, 1
+		if sigma == 0 && r.opt.Missing == 0 {
+			n, each = 1, r.opt.Trials
+		}
+		ts, err := r.trials(ctx, l, n, func(int) Measure { return Measure{} },
 			fmt.Sprintf("bisection at σ = %.4g: trials", sigma))
 		if err != nil {
 			return Proportion{}, err
@@ -79,10 +85,10 @@ func (r runner) budget(ctx context.Context, g DesignGap, levels []LevelResult) (
 		open := 0
 		for _, t := range ts {
 			if widest(t, g.Label.Coeffs).Width > r.opt.MinWidth {
-				open++
+				open += each
 			}
 		}
-		p := NewProportion(open, len(ts))
+		p := NewProportion(open, r.opt.Trials)
 		seen[sigma] = p
 		return p, nil
 	}
@@ -113,8 +119,11 @@ func (r runner) budget(ctx context.Context, g DesignGap, levels []LevelResult) (
 	if math.IsInf(hi, 1) {
 		step := lo
 		if step == 0 {
-			step = r.ref.Gaps[0].Width // no scale given: start from a length the design offers
-			step = math.Max(step, 1e-6)
+			// No level gives a scale: start from 1% of the mean spacing.
+			step = 0.01 * r.spacing
+			if !(step > 0) {
+				step = 1e-3
+			}
 		}
 		for range expansions {
 			s := lo + step

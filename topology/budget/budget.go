@@ -168,7 +168,8 @@ func Run(ctx context.Context, s Sampler, opt Options) (*Result, error) {
 	}
 	res := &Result{Schema: Schema, Trials: opt.Trials, HullTrials: opt.HullTrials, EdgeTrials: opt.EdgeTrials,
 		Seed: opt.Seed, MinWidth: opt.MinWidth, IntervalLevel: IntervalLevel, Levels: []LevelResult{}, Notes: []string{}, Warnings: []string{}}
-	res.Sites, res.Unit = s.Describe()
+	var spacing float64
+	res.Sites, res.Unit, spacing = s.Describe()
 	if res.MinWidth < ref.Spectrum.MinGap {
 		if res.MinWidth > 0 {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("minimum width %g is below the spectrum's resolution %g, the narrowest gap it reports; %g is used", res.MinWidth, ref.Spectrum.MinGap, ref.Spectrum.MinGap))
@@ -194,7 +195,7 @@ func Run(ctx context.Context, s Sampler, opt Options) (*Result, error) {
 				topology.Label{Coeffs: opt.Gap}.CoeffString(), res.MinWidth, res.Design.labels())
 		}
 	}
-	r := runner{s: s, opt: opt, ref: res.Design}
+	r := runner{s: s, opt: opt, ref: res.Design, spacing: spacing}
 	for i, sigma := range opt.Sigmas {
 		l := Level{Sigma: sigma, Missing: opt.Missing, Drift: opt.Drift}
 		stage := fmt.Sprintf("level %d of %d: trials", i+1, len(opt.Sigmas))
@@ -318,9 +319,10 @@ func edgeAgrees(edges []spectrum.EdgeGap, coeffs []int) bool {
 
 // runner draws trials on the pool of workers.
 type runner struct {
-	s   Sampler
-	opt Options
-	ref Reference
+	s       Sampler
+	opt     Options
+	ref     Reference
+	spacing float64 // the design's mean spacing
 }
 
 // trials runs n trials of level l, trial i measuring what want(i) says,

@@ -50,9 +50,10 @@ type Sampler interface {
 	// itself for the zero Level) and measures it. It must be safe to call
 	// from several goroutines and depend on nothing but its arguments.
 	Sample(ctx context.Context, l Level, seed uint64, m Measure) (Trial, error)
-	// Describe returns the number of sites and the length unit of the
-	// design.
-	Describe() (sites int, unit string)
+	// Describe returns the number of sites, the length unit and the mean
+	// spacing of the design (the scale the search for a budget starts
+	// from when no error level gives one).
+	Describe() (sites int, unit string, spacing float64)
 }
 
 // Chain samples a one-dimensional design spec: each trial generates the
@@ -73,8 +74,17 @@ type Chain struct {
 	EdgeGaps int
 }
 
-// Describe returns the design's number of sites and unit.
-func (c Chain) Describe() (int, string) { return c.Spec.Sites, c.Spec.Unit }
+// Describe returns the design's number of sites, unit and mean spacing
+// (0 when the design cannot be generated; Sample says why).
+func (c Chain) Describe() (int, string, float64) {
+	spec := c.Spec
+	spec.Noise, spec.Missing, spec.Extra, spec.Drift = 0, 0, 0, 0
+	p, err := design.Generate(spec)
+	if err != nil {
+		return c.Spec.Sites, c.Spec.Unit, 0
+	}
+	return p.Len(), p.Unit, p.MeanSpacing()
+}
 
 // Sample generates and measures one sample of the design.
 func (c Chain) Sample(ctx context.Context, l Level, seed uint64, m Measure) (Trial, error) {
