@@ -18,6 +18,10 @@ import (
 // Schema names the layout of Result in JSON.
 const Schema = "phasonhull.budget/1"
 
+// edgeGapsMax bounds the gaps the phase sweeps follow; a trial follows
+// twice as many as the design opens, since disorder reorders their widths.
+const edgeGapsMax = 24
+
 // Defaults of Options.
 const (
 	DefaultTrials     = 200
@@ -109,7 +113,7 @@ type DesignGap struct {
 	Width  float64        `json:"width"`
 	Centre float64        `json:"centre"`
 	// EdgeAgrees says whether the design's own edge modes count m; nil
-	// when they were not swept.
+	// when they were not swept or the sweep did not follow this gap.
 	EdgeAgrees *bool `json:"edge_agrees"`
 }
 
@@ -150,7 +154,7 @@ type GapStat struct {
 	MeanUpper float64 `json:"mean_upper"`
 	// Edges is the share of the swept trials whose boundary states cross
 	// the gap m times on the first end and −m on the last; nil when none
-	// was swept.
+	// was swept or the design's own sweep did not follow the gap.
 	Edges *Proportion `json:"edge_modes"`
 }
 
@@ -162,7 +166,8 @@ func Run(ctx context.Context, s Sampler, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	ref, err := s.Sample(ctx, Level{}, 0, Measure{Hull: opt.HullTrials > 0, Edges: opt.EdgeTrials > 0})
+	// The design's sweep follows every gap it has, up to edgeGapsMax.
+	ref, err := s.Sample(ctx, Level{}, 0, Measure{Hull: opt.HullTrials > 0, Edges: opt.EdgeTrials > 0, EdgeGaps: edgeGapsMax})
 	if err != nil {
 		return nil, fmt.Errorf("budget: the design: %w", err)
 	}
@@ -267,8 +272,7 @@ func reference(t Trial, minWidth float64) Reference {
 			continue
 		}
 		d := DesignGap{Label: *g.Label, Lower: g.Lower, Upper: g.Upper, Width: g.Width, Centre: (g.Lower + g.Upper) / 2}
-		if t.Edges != nil {
-			agrees := edgeAgrees(t.Edges, g.Label.Coeffs)
+		if agrees, followed := edgeAgrees(t.Edges, g.Label.Coeffs); followed {
 			d.EdgeAgrees = &agrees
 		}
 		r.Gaps = append(r.Gaps, d)
@@ -306,15 +310,15 @@ func widest(t Trial, coeffs []int) spectrum.Gap {
 	return w
 }
 
-// edgeAgrees reports whether the followed gap labelled coeffs counts its
-// m boundary states (false when the sweep did not follow it).
-func edgeAgrees(edges []spectrum.EdgeGap, coeffs []int) bool {
+// edgeAgrees reports whether the sweep followed the gap labelled coeffs
+// and whether it counts its m boundary states there.
+func edgeAgrees(edges []spectrum.EdgeGap, coeffs []int) (agrees, followed bool) {
 	for _, e := range edges {
 		if e.Gap.Label != nil && slices.Equal(e.Gap.Label.Coeffs, coeffs) {
-			return e.Agrees
+			return e.Agrees, true
 		}
 	}
-	return false
+	return false, false
 }
 
 // runner draws trials on the pool of workers.
@@ -379,7 +383,9 @@ feed:
 
 // level runs the trials of one level and gathers their statistics.
 func (r runner) level(ctx context.Context, l Level, gaps []DesignGap, stage string) (LevelResult, error) {
-	want := func(i int) Measure { return Measure{Hull: i < r.opt.HullTrials, Edges: i < r.opt.EdgeTrials} }
+	want := func(i int) Measure {
+		return Measure{Hull: i < r.opt.HullTrials, Edges: i < r.opt.EdgeTrials, EdgeGaps: min(2*len(gaps), edgeGapsMax)}
+	}
 	ts, err := r.trials(ctx, l, r.opt.Trials, want, stage)
 	if err != nil {
 		return LevelResult{}, err
@@ -422,10 +428,12 @@ func (r runner) level(ctx context.Context, l Level, gaps []DesignGap, stage stri
 		st.Open = NewProportion(open, len(ts))
 		st.Width = *spreadOf(widths)
 		st.Centre = spreadOf(centres)
-		if r.opt.EdgeTrials > 0 {
+		if r.opt.EdgeTrials > 0 && g.EdgeAgrees != nil {
+			// A gap the trial's sweep did not follow (closed, or narrower
+			// than those followed) does not count m.
 			k := 0
 			for _, t := range ts[:r.opt.EdgeTrials] {
-				if edgeAgrees(t.Edges, g.Label.Coeffs) {
+				if agrees, _ := edgeAgrees(t.Edges, g.Label.Coeffs); agrees {
 					k++
 				}
 			}

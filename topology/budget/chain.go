@@ -25,8 +25,10 @@ type Level struct {
 type Measure struct {
 	// Hull asks for the hull analysis of the sample (class and angles).
 	Hull bool
-	// Edges asks for the boundary states over one turn of the phase.
-	Edges bool
+	// Edges asks for the boundary states over one turn of the phase,
+	// followed in the EdgeGaps widest gaps (0: spectrum.DefaultEdgeGaps).
+	Edges    bool
+	EdgeGaps int
 }
 
 // Trial is what one fabricated sample showed.
@@ -69,9 +71,6 @@ type Chain struct {
 	// spectrum.ChooseLabels); Workers is set to 1, the trials being run
 	// in parallel instead.
 	Options spectrum.Options
-	// EdgeGaps is the number of widest gaps followed by the phase sweep;
-	// 0 means spectrum.DefaultEdgeGaps.
-	EdgeGaps int
 }
 
 // Describe returns the design's number of sites, unit and mean spacing
@@ -120,7 +119,7 @@ func (c Chain) Sample(ctx context.Context, l Level, seed uint64, m Measure) (Tri
 		if err != nil {
 			return Trial{}, err
 		}
-		er, err := spectrum.EdgeModesContext(ctx, sweep, model, spectrum.EdgeOptions{Options: opt, Gaps: c.EdgeGaps})
+		er, err := spectrum.EdgeModesContext(ctx, sweep, model, spectrum.EdgeOptions{Options: opt, Gaps: m.EdgeGaps})
 		if err != nil {
 			return Trial{}, err
 		}
