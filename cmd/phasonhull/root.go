@@ -45,6 +45,7 @@ homology.`,
 		newBatchCmd(),
 		newSpectrumCmd(),
 		newReportCmd(),
+		newBudgetCmd(),
 	// commands are added here as they land
 	)
 	return root
