@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"phasonhull/pattern/lattice"
@@ -297,4 +298,22 @@ func BenchmarkAnalyzePlane100(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// The text of a plane result shows the lattice, the rotation matrix with
+// an uncertainty per entry and the plane's label group.
+func TestPlaneText(t *testing.T) {
+	q := []float64{(math.Sqrt(5) - 1) / 8, (math.Sqrt(2) - 1) / 3}
+	r := analyzePlane(t, plate([][]float64{q}, 0.08, 0.005, 40, 1))
+	var b strings.Builder
+	if err := r.WriteText(&b, false); err != nil {
+		t.Fatal(err)
+	}
+	txt := b.String()
+	for _, want := range []string{"lattice     a1 = (", "rotation    A in turns per lattice step", " ± ", "gap labels  Z + Z·A11 + Z·A12", "patches of 3×3 lattice steps"} {
+		if !strings.Contains(txt, want) {
+			t.Errorf("text lacks %q:\n%s", want, txt)
+		}
+	}
+	t.Log("\n" + txt)
 }
