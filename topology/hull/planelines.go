@@ -101,8 +101,9 @@ func canonical(q [2]float64) [2]float64 {
 // what the lines leave. Each new line's frequency comes from the peak of the
 // field less the lines found so far, fitted jointly with the mean and trend
 // (so that neither a trend nor an earlier line leaks into the search);
-// once no line is left, each frequency is refined again on the field less
-// all the others, and the amplitudes come from the joint fit.
+// after each new line, and once no line is left, each frequency is refined
+// again on the field less all the others (cyclicRefine), and the
+// amplitudes come from the joint fit.
 func readLines(ctx context.Context, f *field) ([]fieldLine, float64, error) {
 	M := [2]int{nextPow2(2 * f.size[0]), nextPow2(2 * f.size[1])}
 	bin := [2]float64{1 / float64(M[0]), 1 / float64(M[1])}
@@ -151,17 +152,11 @@ func readLines(ctx context.Context, f *field) ([]fieldLine, float64, error) {
 			break // what is left of a line already read: the search has converged
 		}
 		qs = append(qs, c)
-	}
-	for pass := range 2 {
-		for i := range qs {
-			others := slices.Delete(slices.Clone(qs), i, i+1)
-			r, _ := jointResidual(f, others)
-			qs[i] = canonical(refinePeak(f, r, qs[i], bin))
-			if pass == 1 {
-				qs[i] = snapSpecial(f, r, qs[i], noise)
-			}
+		if len(qs) > 1 {
+			cyclicRefine(f, qs, bin, -1)
 		}
 	}
+	cyclicRefine(f, qs, bin, noise)
 	_, amps := jointResidual(f, qs)
 	lines := make([]fieldLine, len(qs))
 	for i, q := range qs {
@@ -234,6 +229,23 @@ func jointResidual(f *field, qs [][2]float64) ([][2]float64, []float64) {
 		amps[i] = math.Sqrt(amps[i])
 	}
 	return r, amps
+}
+
+// cyclicRefine refines each frequency of qs in turn on the field less all
+// the other lines; with noise ≥ 0 it then puts components near 0 or ½ on
+// them (snapSpecial). Run after each new line, it lets an earlier line
+// that was read off a peak blended with a neighbour's move to its own
+// frequency before the next search, so that the blend does not leave
+// side lines behind.
+func cyclicRefine(f *field, qs [][2]float64, bin [2]float64, noise float64) {
+	for i := range qs {
+		others := slices.Delete(slices.Clone(qs), i, i+1)
+		r, _ := jointResidual(f, others)
+		qs[i] = canonical(refinePeak(f, r, qs[i], bin))
+		if noise >= 0 {
+			qs[i] = snapSpecial(f, r, qs[i], noise)
+		}
+	}
 }
 
 // snapSpecial puts a component of q that lies within two resolutions of 0
