@@ -317,3 +317,42 @@ func TestPlaneText(t *testing.T) {
 	}
 	t.Log("\n" + txt)
 }
+
+// Sites off the lattice (spurious, NaN displacement) and lattice points
+// with no site leave the circle and its A as they were: the lines are read
+// on the sites there are, and the patches that would cross a hole are left
+// out.
+func TestPlaneHoles(t *testing.T) {
+	q := []float64{(math.Sqrt(5) - 1) / 8, (math.Sqrt(2) - 1) / 3}
+	l := plate([][]float64{q}, 0.08, 0.005, 40, 1)
+	rng := rand.New(rand.NewPCG(8, 8))
+	m := &lattice.Lattice{Basis: l.Basis, BasisUncertainty: l.BasisUncertainty, Unit: l.Unit}
+	for i := range l.Index {
+		switch x := rng.Float64(); {
+		case x < 0.05: // a missing site
+			m.Missing++
+			continue
+		case x < 0.07: // a spurious site besides this one
+			m.Index = append(m.Index, [2]int{})
+			m.OnLattice = append(m.OnLattice, false)
+			m.Displacement = append(m.Displacement, [2]float64{math.NaN(), math.NaN()})
+		}
+		m.Index = append(m.Index, l.Index[i])
+		m.OnLattice = append(m.OnLattice, true)
+		m.Displacement = append(m.Displacement, l.Displacement[i])
+	}
+	r := analyzePlane(t, m)
+	if r.Hull.Class != hull.Circle {
+		t.Fatalf("class %s %v (%s), want circle", r.Hull.Class, r.Hull.Betti, r.Hull.Reason)
+	}
+	u := r.RotationUncertainty[0]
+	if !sameRow(r.Rotation[0], q, []float64{4 * u[0], 4 * u[1]}) {
+		t.Errorf("A = %v ± %v, want %v", r.Rotation[0], u, q)
+	}
+	if r.Lattice.OffLattice == 0 || r.Lattice.Missing == 0 || r.Embedding.Excluded == 0 {
+		t.Errorf("lattice report %+v, excluded patches %d: want off-lattice and missing sites and patches left out", *r.Lattice, r.Embedding.Excluded)
+	}
+	if n := len(r.SiteResiduals); n != len(m.Index) {
+		t.Errorf("%d site residuals for %d sites", n, len(m.Index))
+	}
+}
