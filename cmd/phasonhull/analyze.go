@@ -8,6 +8,9 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
+	"phasonhull/cmd/phasonhull/internal/picture"
+	"phasonhull/pattern"
+	"phasonhull/pattern/lattice"
 	"phasonhull/topology/hull"
 )
 
@@ -63,7 +66,7 @@ README).`,
 	}
 	fs := cmd.Flags()
 	f.in.register(fs)
-	fs.IntVar(&f.opt.Window, "window", 0, "delay window (0: choose it from the data)")
+	fs.IntVar(&f.opt.Window, "window", 0, "delay window of a chain, side of the patches of a plate in lattice steps (0: choose it)")
 	fs.IntVar(&f.opt.Landmarks, "landmarks", hull.DefaultLandmarks, "landmarks for the barcodes")
 	fs.IntVar(&f.opt.Subsamples, "subsamples", hull.DefaultSubsamples, "landmark subsamples whose Betti numbers must agree")
 	fs.IntVar(&f.opt.MaxCoeff, "max-coeff", hull.DefaultMaxCoeff, "largest |m| of the listed gap labels")
@@ -88,7 +91,7 @@ func classList() string {
 }
 
 func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
-	p, err := f.in.load(path, cmd.InOrStdin())
+	sites, err := f.in.loadSites(path, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
@@ -96,8 +99,12 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 		return err
 	}
 	opt := f.opt
-	if opt.Noise, err = noiseFraction(f.noise, p); err != nil {
-		return err
+	if p := sites.Chain; p != nil {
+		if opt.Noise, err = noiseFraction(f.noise, p); err != nil {
+			return err
+		}
+	} else if cmd.Flags().Changed("noise") {
+		return fmt.Errorf("--noise: %s is a plate, whose noise is measured from its displacement field; --noise applies to chains", sites.Plane.Source)
 	}
 	if f.memory != "" {
 		if opt.MemoryBudget, err = flagval.ParseBytes(f.memory); err != nil {
@@ -106,14 +113,19 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	}
 	progress := progressOf(cmd)
 	defer progress.Close()
-	progress.Stage(fmt.Sprintf("analysing %s (%d sites)", p.Source, p.Len()))
-	res, err := hull.AnalyzeContext(cmd.Context(), p, opt)
+	progress.Stage(fmt.Sprintf("analysing %s", sitesName(sites)))
+	res, l, err := hull.AnalyzeSites(cmd.Context(), sites, lattice.Options{}, opt)
 	if err != nil {
 		return err
 	}
 	progress.Stage("drawing the figures")
 	f.plot.list = listTo(cmd)
-	if err := f.plot.writeAnalysis(cmd.ErrOrStderr(), res); err != nil {
+	if sites.Plane != nil {
+		err = f.plot.writePlate(cmd.ErrOrStderr(), res, plateOf(sites.Plane, l, res))
+	} else {
+		err = f.plot.writeAnalysis(cmd.ErrOrStderr(), res)
+	}
+	if err != nil {
 		return err
 	}
 	progress.Close()
@@ -122,4 +134,17 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 		return writeJSON(out, res)
 	}
 	return res.WriteText(out, f.allLabels)
+}
+
+// sitesName names what was read, for the progress line.
+func sitesName(s pattern.Sites) string {
+	if s.Plane != nil {
+		return fmt.Sprintf("%s (%d sites on a plane)", s.Plane.Source, s.Plane.Len())
+	}
+	return fmt.Sprintf("%s (%d sites)", s.Chain.Source, s.Chain.Len())
+}
+
+// plateOf gathers what the plate figures draw.
+func plateOf(p *pattern.Plane, l *lattice.Lattice, r *hull.Result) picture.Plate {
+	return picture.Plate{Plane: p, Lattice: l, Rotation: r.Rotation, Class: string(r.Hull.Class)}
 }

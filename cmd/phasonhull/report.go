@@ -73,6 +73,23 @@ func (f *plotFlags) writeAnalysis(stderr io.Writer, r *hull.Result) error {
 	return f.write(pics)
 }
 
+// writePlate writes the figures of a plate's analysis, when --plot is
+// set; a result with nothing to draw is said so on stderr.
+func (f *plotFlags) writePlate(stderr io.Writer, r *hull.Result, p picture.Plate) error {
+	if f.dir == "" {
+		return nil
+	}
+	pics, err := picture.PlateAnalysis(r, p)
+	if errors.Is(err, picture.ErrNoTrace) {
+		fmt.Fprintf(stderr, "phasonhull: --plot: no figure written: %v\n", err)
+		return nil
+	}
+	if err != nil {
+		return fmt.Errorf("--plot: %w", err)
+	}
+	return f.write(pics)
+}
+
 // writeAudit writes the audit figure and the measured sample's hull
 // figures, when --plot is set.
 func (f *plotFlags) writeAudit(rep *audit.Report) error {

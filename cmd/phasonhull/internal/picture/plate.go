@@ -15,6 +15,7 @@ import (
 
 	"phasonhull/pattern"
 	"phasonhull/pattern/lattice"
+	"phasonhull/topology/hull"
 )
 
 // Plate is what the figures of a plate draw: its sites, the average
@@ -36,18 +37,33 @@ const (
 	structureCells = 181 // grid points per side of the structure-factor map
 )
 
-// Plate figures: the sites with their displacements, and the structure
-// factor with its indexed peaks.
-func PlateFigures(p Plate) ([]*Picture, error) {
-	s, err := PlateSites(p)
-	if err != nil {
-		return nil, err
+// PlateAnalysis returns every figure of a plate's analysis: the sites
+// with their displacements and the structure factor when the plate has a
+// lattice, the projections of the patch cloud and its barcodes when the
+// analysis built one. It fails only when there is nothing to draw.
+func PlateAnalysis(r *hull.Result, p Plate) ([]*Picture, error) {
+	var out []*Picture
+	if p.Lattice != nil {
+		s, err := PlateSites(p)
+		if err != nil {
+			return nil, err
+		}
+		f, err := PlateStructure(p)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, s, f)
 	}
-	f, err := PlateStructure(p)
-	if err != nil {
-		return nil, err
+	if pj, err := Projections(r); err == nil {
+		out = append(out, pj)
 	}
-	return []*Picture{s, f}, nil
+	if ps, err := Persistence(r); err == nil {
+		out = append(out, ps)
+	}
+	if len(out) == 0 {
+		return nil, fmt.Errorf("plate: %w", ErrNoTrace)
+	}
+	return out, nil
 }
 
 // window returns the sites drawn: those whose lattice index lies within

@@ -10,6 +10,7 @@ import (
 
 	"phasonhull/pattern/design"
 	"phasonhull/pattern/lattice"
+	"phasonhull/topology/hull"
 )
 
 // plateOf generates a twisted plate and recovers its lattice.
@@ -32,7 +33,7 @@ func plateOf(t *testing.T, side int) Plate {
 // plate larger than the window is cut to it.
 func TestPlateFigures(t *testing.T) {
 	p := plateOf(t, 36)
-	pics, err := PlateFigures(p)
+	pics, err := PlateAnalysis(&hull.Result{}, p)
 	if err != nil {
 		t.Fatal(err)
 	}
