@@ -11,7 +11,10 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
+	"phasonhull/cmd/phasonhull/internal/progress"
 	"phasonhull/cmd/phasonhull/internal/report"
+	"phasonhull/pattern"
+	"phasonhull/pattern/lattice"
 	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
 	"phasonhull/topology/spectrum"
@@ -190,10 +193,14 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	p, err := f.in.load(path, cmd.InOrStdin())
+	sites, err := f.in.loadSites(path, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
+	if sites.Plane != nil {
+		return runPlateReport(cmd, sites, f, opt.Hull)
+	}
+	p := sites.Chain
 	progress := progressOf(cmd)
 	defer progress.Close()
 	d, err := f.audit.loadDesign(cmd.Context(), progress, opt.Hull)
@@ -251,13 +258,48 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		page.Figures = append(page.Figures, figs...)
 	}
 	progress.Stage("writing " + f.out)
-	if err := report.Write(f.out, &page); err != nil {
+	return writeReport(cmd, f.out, &page, progress)
+}
+
+// runPlateReport writes the report of a plate: its analysis (an audit of
+// a plate against a design is not part of the report yet).
+func runPlateReport(cmd *cobra.Command, sites pattern.Sites, f *reportFlags, opt hull.Options) error {
+	if f.audit.designPath != "" {
+		return fmt.Errorf("--design: %s is a plate; report audits chains only, analyse the plate without --design", sites.Plane.Source)
+	}
+	progress := progressOf(cmd)
+	defer progress.Close()
+	progress.Stage("analysing " + sitesName(sites))
+	res, l, err := hull.AnalyzeSites(cmd.Context(), sites, lattice.Options{}, opt)
+	if err != nil {
+		return err
+	}
+	js, err := indentJSON(res)
+	if err != nil {
+		return internalErr(err)
+	}
+	page := report.Page{Analysis: res, Files: []report.File{{Name: report.AnalysisFile, Data: js}}}
+	progress.Stage("drawing the figures")
+	if pics, err := picture.PlateAnalysis(res, plateOf(sites.Plane, l, res)); err == nil {
+		for _, pic := range pics {
+			if err := page.AddFigure(pic); err != nil {
+				return internalErr(err)
+			}
+		}
+	}
+	progress.Stage("writing " + f.out)
+	return writeReport(cmd, f.out, &page, progress)
+}
+
+// writeReport writes the page and its files into dir and lists them.
+func writeReport(cmd *cobra.Command, dir string, page *report.Page, progress *progress.Line) error {
+	if err := report.Write(dir, page); err != nil {
 		return err
 	}
 	progress.Close()
-	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, report.PageFile))
+	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(dir, report.PageFile))
 	for _, file := range page.Files {
-		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, file.Name))
+		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(dir, file.Name))
 	}
 	return nil
 }
