@@ -226,8 +226,12 @@ func view(p *Page) viewModel {
 		}
 		add("rotation A", fmt.Sprintf("%s turns per lattice step (rows: torus coordinates; columns: a1, a2; one standard uncertainty), reduced: any V·A·U + N with V, U invertible over Z and N integer is the same hull", strings.Join(rows, "; ")))
 	}
-	if plate && len(r.GapLabels.Generators) > 1 {
-		add("gap-label generators", fmt.Sprintf("%s (1, the independent entries of A%s, reduced over Z)", floatList(r.GapLabels.Generators), detNote(len(r.Rotation))))
+	if plate && len(r.Rotation) > 0 {
+		gens := "not resolved (see the warnings)"
+		if len(r.GapLabels.Generators) > 1 {
+			gens = floatList(r.GapLabels.Generators) + ", reduced over Z"
+		}
+		add("gap-label group", fmt.Sprintf("Z + Σ Z·A_ij%s; generators %s", detNote(len(r.Rotation)), gens))
 	}
 	if r.AngleMethod != "" {
 		add("angle method", r.AngleMethod)
@@ -289,13 +293,13 @@ func floatList(v []float64) string {
 	return strings.Join(parts, ", ")
 }
 
-// detNote names the products of entries of A among a plate's generators.
+// detNote writes the terms of a plate's label group beyond the entries of A.
 func detNote(d int) string {
 	switch d {
 	case 2:
-		return " and det A, whose coefficient in a label is a second Chern number"
+		return " + Z·det A (the coefficient of det A in a label is a second Chern number)"
 	case 3:
-		return " and its 2×2 minors"
+		return " + Σ Z·(2×2 minors of A)"
 	}
 	return ""
 }
