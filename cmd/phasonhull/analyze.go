@@ -8,7 +8,6 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
-	"phasonhull/cmd/phasonhull/internal/picture"
 	"phasonhull/pattern"
 	"phasonhull/pattern/lattice"
 	"phasonhull/topology/hull"
@@ -120,12 +119,7 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	}
 	progress.Stage("drawing the figures")
 	f.plot.list = listTo(cmd)
-	if sites.Plane != nil {
-		err = f.plot.writePlate(cmd.ErrOrStderr(), res, plateOf(sites.Plane, l, res))
-	} else {
-		err = f.plot.writeAnalysis(cmd.ErrOrStderr(), res)
-	}
-	if err != nil {
+	if err := f.plot.writeAnalysis(cmd.ErrOrStderr(), res, sites.Plane, l); err != nil {
 		return err
 	}
 	progress.Close()
@@ -142,9 +136,4 @@ func sitesName(s pattern.Sites) string {
 		return fmt.Sprintf("%s (%d sites on a plane)", s.Plane.Source, s.Plane.Len())
 	}
 	return fmt.Sprintf("%s (%d sites)", s.Chain.Source, s.Chain.Len())
-}
-
-// plateOf gathers what the plate figures draw.
-func plateOf(p *pattern.Plane, l *lattice.Lattice, r *hull.Result) picture.Plate {
-	return picture.Plate{Plane: p, Lattice: l, Rotation: r.Rotation, Class: string(r.Hull.Class)}
 }

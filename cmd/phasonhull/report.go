@@ -11,7 +11,6 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
-	"phasonhull/cmd/phasonhull/internal/progress"
 	"phasonhull/cmd/phasonhull/internal/report"
 	"phasonhull/pattern"
 	"phasonhull/pattern/lattice"
@@ -58,31 +57,15 @@ func (f *plotFlags) writeSpectrum(stderr io.Writer, r *spectrum.Result, source, 
 	return f.write([]*picture.Picture{p})
 }
 
-// writeAnalysis writes the figures of a hull result, when --plot is set.
-// A result with nothing to draw is said so on stderr, not refused: the
-// analysis itself succeeded.
-func (f *plotFlags) writeAnalysis(stderr io.Writer, r *hull.Result) error {
+// writeAnalysis writes the figures of a hull result (picture.Figures:
+// of a plate when plane is not nil), when --plot is set. A result with
+// nothing to draw is said so on stderr, not refused: the analysis itself
+// succeeded.
+func (f *plotFlags) writeAnalysis(stderr io.Writer, r *hull.Result, plane *pattern.Plane, l *lattice.Lattice) error {
 	if f.dir == "" {
 		return nil
 	}
-	pics, err := picture.Analysis(r)
-	if errors.Is(err, picture.ErrNoTrace) {
-		fmt.Fprintf(stderr, "phasonhull: --plot: no figure written: %v\n", err)
-		return nil
-	}
-	if err != nil {
-		return fmt.Errorf("--plot: %w", err)
-	}
-	return f.write(pics)
-}
-
-// writePlate writes the figures of a plate's analysis, when --plot is
-// set; a result with nothing to draw is said so on stderr.
-func (f *plotFlags) writePlate(stderr io.Writer, r *hull.Result, p picture.Plate) error {
-	if f.dir == "" {
-		return nil
-	}
-	pics, err := picture.PlateAnalysis(r, p)
+	pics, err := picture.Figures(r, plane, l)
 	if errors.Is(err, picture.ErrNoTrace) {
 		fmt.Fprintf(stderr, "phasonhull: --plot: no figure written: %v\n", err)
 		return nil
@@ -197,24 +180,25 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	if sites.Plane != nil {
-		return runPlateReport(cmd, sites, f, opt.Hull)
+	if sites.Plane != nil && f.audit.designPath != "" {
+		return fmt.Errorf("--design: %s is a plate; report audits chains only, analyse the plate without --design", sites.Plane.Source)
 	}
-	p := sites.Chain
 	progress := progressOf(cmd)
 	defer progress.Close()
 	d, err := f.audit.loadDesign(cmd.Context(), progress, opt.Hull)
 	if err != nil {
 		return err
 	}
-	progress.Stage(fmt.Sprintf("analysing %s (%d sites)", p.Source, p.Len()))
+	progress.Stage("analysing " + sitesName(sites))
 	var page report.Page
 	var res *hull.Result
+	var l *lattice.Lattice
 	if d == nil {
-		if res, err = hull.AnalyzeContext(cmd.Context(), p, opt.Hull); err != nil {
+		if res, l, err = hull.AnalyzeSites(cmd.Context(), sites, lattice.Options{}, opt.Hull); err != nil {
 			return err
 		}
 	} else {
+		p := sites.Chain
 		rep, err := audit.Run(cmd.Context(), d, p, opt)
 		if err != nil {
 			return err
@@ -246,8 +230,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	page.Analysis = res
 	page.Files = append([]report.File{{Name: report.AnalysisFile, Data: js}}, page.Files...)
 	progress.Stage("drawing the figures")
-	pics, err := picture.Analysis(res)
-	if err == nil {
+	if pics, err := picture.Figures(res, sites.Plane, l); err == nil {
 		figs := page.Figures
 		page.Figures = nil
 		for _, pic := range pics {
@@ -258,48 +241,13 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		page.Figures = append(page.Figures, figs...)
 	}
 	progress.Stage("writing " + f.out)
-	return writeReport(cmd, f.out, &page, progress)
-}
-
-// runPlateReport writes the report of a plate: its analysis (an audit of
-// a plate against a design is not part of the report yet).
-func runPlateReport(cmd *cobra.Command, sites pattern.Sites, f *reportFlags, opt hull.Options) error {
-	if f.audit.designPath != "" {
-		return fmt.Errorf("--design: %s is a plate; report audits chains only, analyse the plate without --design", sites.Plane.Source)
-	}
-	progress := progressOf(cmd)
-	defer progress.Close()
-	progress.Stage("analysing " + sitesName(sites))
-	res, l, err := hull.AnalyzeSites(cmd.Context(), sites, lattice.Options{}, opt)
-	if err != nil {
-		return err
-	}
-	js, err := indentJSON(res)
-	if err != nil {
-		return internalErr(err)
-	}
-	page := report.Page{Analysis: res, Files: []report.File{{Name: report.AnalysisFile, Data: js}}}
-	progress.Stage("drawing the figures")
-	if pics, err := picture.PlateAnalysis(res, plateOf(sites.Plane, l, res)); err == nil {
-		for _, pic := range pics {
-			if err := page.AddFigure(pic); err != nil {
-				return internalErr(err)
-			}
-		}
-	}
-	progress.Stage("writing " + f.out)
-	return writeReport(cmd, f.out, &page, progress)
-}
-
-// writeReport writes the page and its files into dir and lists them.
-func writeReport(cmd *cobra.Command, dir string, page *report.Page, progress *progress.Line) error {
-	if err := report.Write(dir, page); err != nil {
+	if err := report.Write(f.out, &page); err != nil {
 		return err
 	}
 	progress.Close()
-	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(dir, report.PageFile))
+	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, report.PageFile))
 	for _, file := range page.Files {
-		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(dir, file.Name))
+		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, file.Name))
 	}
 	return nil
 }

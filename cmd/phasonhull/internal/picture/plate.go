@@ -37,6 +37,16 @@ const (
 	structureCells = 181 // grid points per side of the structure-factor map
 )
 
+// Figures returns the figures of an analysis: of a chain (Analysis) when
+// plane is nil, of a plate (PlateAnalysis) on the lattice l (nil for a
+// plate with none) otherwise.
+func Figures(r *hull.Result, plane *pattern.Plane, l *lattice.Lattice) ([]*Picture, error) {
+	if plane == nil {
+		return Analysis(r)
+	}
+	return PlateAnalysis(r, Plate{Plane: plane, Lattice: l, Rotation: r.Rotation, Class: string(r.Hull.Class)})
+}
+
 // PlateAnalysis returns every figure of a plate's analysis: the sites
 // with their displacements and the structure factor when the plate has a
 // lattice, the projections of the patch cloud and its barcodes when the
