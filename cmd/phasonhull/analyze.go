@@ -52,12 +52,22 @@ integrated density of states in any spectral gap of a pattern-equivariant
 operator on this chain takes one of these values. They say where gaps may
 open, not that they do.
 
+A plate — x,y centroids that do not lie along a line — is read on its
+average lattice (basis with uncertainties, missing and stray sites): the
+hull of the displacement field, read from patches of --window × --window
+lattice steps, and the rotation matrix A (turns per lattice step) with its
+uncertainties; its gap labels form Z + Σ Z·A_ij + Z·det A, the coefficient
+of det A a second Chern number. A plate with no average lattice is
+disordered. --plot draws its sites with their displacements and its
+structure factor.
+
 --json prints one object (schema phasonhull.analysis/1, documented in the
 README).`,
 		Example: `  phasonhull analyze testdata/demo/lw0412_cmm.csv
   phasonhull analyze sample.csv --json > sample.analysis.json
   phasonhull generate modulated --sites 600 --theta 0.4142136 --amp 0.1 | phasonhull analyze -
-  phasonhull analyze word.txt --tiles A=1,B=1.618`,
+  phasonhull analyze word.txt --tiles A=1,B=1.618
+  phasonhull analyze testdata/demo/lw0519_plate.csv --plot figures/`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runAnalyze(cmd, args[0], &f)
