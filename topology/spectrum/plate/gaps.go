@@ -16,8 +16,8 @@ type Method string
 
 // The methods.
 const (
-	// Auto chooses Values up to DenseLimit sites (a real operator) or
-	// DenseLimit/2 (a complex one, whose embedding is twice the size), KPM
+	// Auto chooses Values up to AutoDense sites (a real operator) or
+	// AutoDense/2 (a complex one, whose embedding is twice the size), KPM
 	// above.
 	Auto Method = ""
 	// Values computes every eigenvalue (Operator.Eigenvalues).
@@ -28,6 +28,10 @@ const (
 
 // Defaults of Options.
 const (
+	// AutoDense is the largest real operator (half that for a complex
+	// one) whose levels Auto computes densely: a 2000×2000 dense
+	// symmetric eigenproblem takes seconds, one of 4000 minutes.
+	AutoDense = 2000
 	// DefaultFloor is the density of states, relative to the mean over the
 	// spectrum's bounds, below which the KPM curve counts as empty.
 	DefaultFloor = 0.02
@@ -126,7 +130,7 @@ func Analyze(ctx context.Context, op *Operator, opt Options) (*Result, error) {
 	method := opt.Method
 	if method == Auto {
 		method = KPM
-		if lim := DenseLimit; op.Len() <= lim && (op.Real() || 2*op.Len() <= lim) {
+		if op.Len() <= AutoDense && (op.Real() || 2*op.Len() <= AutoDense) {
 			method = Values
 		}
 	}
@@ -260,7 +264,10 @@ func halfPeak(e, rho []float64, k, dir, win int) float64 {
 	prev := k - dir
 	for s, i := 0, k; s <= win && i >= 0 && i < len(rho); s, i = s+1, i+dir {
 		if rho[i] >= peak/2 {
-			f := (peak/2 - rho[prev]) / (rho[i] - rho[prev])
+			if rho[i] <= rho[prev] {
+				return e[i]
+			}
+			f := min(max((peak/2-rho[prev])/(rho[i]-rho[prev]), 0), 1)
 			return e[prev] + f*(e[i]-e[prev])
 		}
 		prev = i
