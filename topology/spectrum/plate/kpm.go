@@ -81,6 +81,14 @@ func NewDensity(ctx context.Context, op *Operator, opt KPMOptions) (*Density, er
 		workers = runtime.GOMAXPROCS(0)
 	}
 	workers = min(workers, R)
+	// A real operator's entries are multiplied as reals: half the work.
+	var re []float64
+	if op.real {
+		re = make([]float64, len(op.val))
+		for k, v := range op.val {
+			re[k] = real(v)
+		}
+	}
 	next := make(chan int)
 	var wg sync.WaitGroup
 	var errOnce sync.Once
@@ -92,7 +100,7 @@ func NewDensity(ctx context.Context, op *Operator, opt KPMOptions) (*Density, er
 			a := make([]complex128, op.Len())
 			b := make([]complex128, op.Len())
 			for r := range next {
-				mu, err := d.vectorMoments(ctx, op, a, b, rand.New(rand.NewPCG(opt.Seed, uint64(r))))
+				mu, err := d.vectorMoments(ctx, op, re, a, b, rand.New(rand.NewPCG(opt.Seed, uint64(r))))
 				if err != nil {
 					errOnce.Do(func() { firstErr = err })
 					continue
@@ -128,7 +136,7 @@ func NewDensity(ctx context.Context, op *Operator, opt KPMOptions) (*Density, er
 
 // vectorMoments returns the M moments of one random-phase vector, using
 // a and b as work space.
-func (d *Density) vectorMoments(ctx context.Context, op *Operator, a, b []complex128, rng *rand.Rand) ([]float64, error) {
+func (d *Density) vectorMoments(ctx context.Context, op *Operator, re []float64, a, b []complex128, rng *rand.Rand) ([]float64, error) {
 	M, N := d.Moments, float64(op.Len())
 	for i := range a {
 		s, c := math.Sincos(2 * math.Pi * rng.Float64())
@@ -159,18 +167,7 @@ func (d *Density) vectorMoments(ctx context.Context, op *Operator, a, b []comple
 		if k%16 == 0 && ctx.Err() != nil {
 			return nil, ctx.Err()
 		}
-		var cross, norm float64
-		two := 2 * inv
-		for i, di := range op.diag {
-			s := complex(di-d.Center, 0) * cur[i]
-			for j := op.ptr[i]; j < op.ptr[i+1]; j++ {
-				s += op.val[j] * cur[op.col[j]]
-			}
-			s = complex(two, 0)*s - old[i]
-			old[i] = s
-			cross += real(s)*real(cur[i]) + imag(s)*imag(cur[i])
-			norm += real(s)*real(s) + imag(s)*imag(s)
-		}
+		cross, norm := recurse(op, re, d.Center, 2*inv, old, cur)
 		// Now old = α_{k+1}: μ_{2k+1} and μ_{2k+2}.
 		mu[2*k+1] = 2*cross/N - mu[1]
 		if 2*k+2 < M {
@@ -179,6 +176,35 @@ func (d *Density) vectorMoments(ctx context.Context, op *Operator, a, b []comple
 		old, cur = cur, old
 	}
 	return mu, nil
+}
+
+// recurse overwrites old with 2·H̃·cur − old, H̃ = (H − center)·two/2,
+// and returns ⟨new|cur⟩ and ⟨new|new⟩ (real parts). re, when not nil,
+// holds the real entries of a real operator.
+func recurse(op *Operator, re []float64, center, two float64, old, cur []complex128) (cross, norm float64) {
+	ptr, col, val := op.ptr, op.col, op.val
+	for i, di := range op.diag {
+		c := cur[i]
+		sr, si := (di-center)*real(c), (di-center)*imag(c)
+		if re != nil {
+			for j := ptr[i]; j < ptr[i+1]; j++ {
+				x := cur[col[j]]
+				sr += re[j] * real(x)
+				si += re[j] * imag(x)
+			}
+		} else {
+			for j := ptr[i]; j < ptr[i+1]; j++ {
+				v, x := val[j], cur[col[j]]
+				sr += real(v)*real(x) - imag(v)*imag(x)
+				si += real(v)*imag(x) + imag(v)*real(x)
+			}
+		}
+		sr, si = two*sr-real(old[i]), two*si-imag(old[i])
+		old[i] = complex(sr, si)
+		cross += sr*real(c) + si*imag(c)
+		norm += sr*sr + si*si
+	}
+	return cross, norm
 }
 
 // jackson returns the Jackson kernel's weights for M moments,
