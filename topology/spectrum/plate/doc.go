@@ -39,5 +39,9 @@
 // Z + Σ Z·g_i of the generators given (the entries of the rotation A,
 // det A, and the flux α), within a tolerance of three errors plus the
 // boundary sites' share (Operator.Boundary); a gap that no label fits, or
-// that two labels of the same least order fit, is left unlabelled.
+// that two labels of the same least order fit, is left unlabelled. Each
+// label says by its Chance how likely so close a label of its order would
+// be at a random IDS: in a group of many generators a wide tolerance
+// finds a label of low order by coincidence, and a sweep of a parameter,
+// not one spectrum, confirms a label.
 package plate

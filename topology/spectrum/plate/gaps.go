@@ -109,6 +109,12 @@ type Gap struct {
 	// Label is the label of least order within Tolerance, nil when none
 	// or when two labels of that order are within it.
 	Label *topology.Label `json:"label"`
+	// Chance is the expected number of distinct label values of order up
+	// to the label's that a window of ±Tolerance at a random IDS holds:
+	// 2·Tolerance times their number in (0, 1), at most 1. Near 1 the
+	// match may be a coincidence of a dense group; a sweep decides. 0
+	// without a label.
+	Chance float64 `json:"chance"`
 	// Confirmed is set when a sweep of a parameter confirms the label.
 	Confirmed bool `json:"confirmed"`
 }
@@ -161,6 +167,7 @@ func Analyze(ctx context.Context, op *Operator, opt Options) (*Result, error) {
 		g.Tolerance = 3*g.IDSError + float64(res.Boundary)/N + 0.5/N
 		if l, ok := MatchLabel(g.IDS, opt.Generators, order, g.Tolerance); ok {
 			g.Label = &l
+			g.Chance = min(1, 2*g.Tolerance*float64(labelValues(opt.Generators, l.Order())))
 		}
 	}
 	if res.Boundary > 0 {
@@ -319,6 +326,32 @@ func MatchLabel(ids float64, g []float64, maxOrder int, tol float64) (topology.L
 		return best, true
 	}
 	return topology.Label{}, false
+}
+
+// labelValues returns the number of distinct values n + Σ m_i·g_i strictly
+// inside (0, 1) with 1 ≤ Σ|m_i| ≤ order.
+func labelValues(g []float64, order int) int {
+	var v []float64
+	m := make([]int, len(g))
+	for k := 1; k <= order; k++ {
+		forOrder(m, 0, k, func(m []int) {
+			s := 0.0
+			for i, c := range m {
+				s += float64(c) * g[i]
+			}
+			if f := s - math.Floor(s); f > labelTol && f < 1-labelTol {
+				v = append(v, f)
+			}
+		})
+	}
+	slices.Sort(v)
+	n := 0
+	for i, x := range v {
+		if i == 0 || x-v[i-1] > labelTol {
+			n++
+		}
+	}
+	return n
 }
 
 // forOrder calls f with every m whose entries from i on have Σ|m_j| = left

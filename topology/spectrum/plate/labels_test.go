@@ -24,6 +24,14 @@ func TestMatchLabel(t *testing.T) {
 	if l, ok := MatchLabel(2.0/3, []float64{1.0 / 3}, 4, 1e-9); !ok || !slices.Equal(l.Coeffs, []int{1, -1}) {
 		t.Errorf("2/3 with α = 1/3: label %+v, %v; want (1, −1)", l, ok)
 	}
+	// Z + Zθ up to order 2 holds four values in (0, 1): θ, 1 − θ, 2θ − 1,
+	// 2 − 2θ; Z + Z/3 two at any order.
+	if n := labelValues([]float64{theta}, 2); n != 4 {
+		t.Errorf("values of order ≤ 2 in Z + Zθ: %d, want 4", n)
+	}
+	if n := labelValues([]float64{1.0 / 3}, 5); n != 2 {
+		t.Errorf("values of order ≤ 5 in Z + Z/3: %d, want 2", n)
+	}
 	if _, ok := MatchLabel(0.5, []float64{theta}, 3, 1e-4); ok {
 		t.Error("1/2 in Z + Zθ up to order 3: matched, want none")
 	}
