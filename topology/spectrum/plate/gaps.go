@@ -201,8 +201,8 @@ func (res *Result) fromValues(op *Operator, minGap float64) error {
 }
 
 // fromKPM finds the gaps on the KPM density: the runs of a grid of spacing
-// resolution/8 where the density stays below the floor, wider than the
-// resolution.
+// resolution/8 where the density stays below the floor, joined across
+// levels the boundary could hold, wider than the resolution.
 func (res *Result) fromKPM(ctx context.Context, op *Operator, opt Options, minGap float64) error {
 	d, err := NewDensity(ctx, op, opt.KPM)
 	if err != nil {
@@ -235,6 +235,9 @@ func (res *Result) fromKPM(ctx context.Context, op *Operator, opt Options, minGa
 	res.Lowest, res.Highest = e[first], e[last]
 	width := res.Highest - res.Lowest
 	win := int(math.Ceil(3 * res.Resolution / h))
+	// The runs of the grid where the density stays below the floor.
+	type run struct{ i, j int }
+	var runs []run
 	for i := first; i <= last; {
 		if rho[i] >= floor {
 			i++
@@ -244,18 +247,36 @@ func (res *Result) fromKPM(ctx context.Context, op *Operator, opt Options, minGa
 		for j+1 <= last && rho[j+1] < floor {
 			j++
 		}
-		// Run i..j is empty.
-		if e[j]-e[i] >= res.Resolution {
-			lower := halfPeak(e, rho, i-1, -1, win)
-			upper := halfPeak(e, rho, j+1, +1, win)
-			if upper-lower >= minGap*width {
-				ids, se := d.IDS((e[i] + e[j]) / 2)
-				a, _ := d.IDS(e[i])
-				b, _ := d.IDS(e[j])
-				res.Gaps = append(res.Gaps, Gap{IDS: ids, IDSError: math.Hypot(se, (b-a)/2), Lower: lower, Upper: upper, Width: upper - lower})
-			}
-		}
+		runs = append(runs, run{i, j})
 		i = j + 1
+	}
+	// Runs split only by levels that the sample's boundary could hold (the
+	// IDS rises between them by less than Boundary/N: edge states that fill
+	// a bulk gap of an open sample, at a density near the floor) are one
+	// gap. A band that narrow cannot be told from boundary states.
+	ids := func(e float64) float64 { v, _ := d.IDS(e); return v }
+	share := float64(op.Boundary()) / float64(op.Len())
+	var merged []run
+	for _, r := range runs {
+		if k := len(merged) - 1; k >= 0 && share > 0 && ids(e[r.i])-ids(e[merged[k].j]) < share {
+			merged[k].j = r.j
+			continue
+		}
+		merged = append(merged, r)
+	}
+	for _, r := range merged {
+		i, j := r.i, r.j
+		if e[j]-e[i] < res.Resolution {
+			continue
+		}
+		lower := halfPeak(e, rho, i-1, -1, win)
+		upper := halfPeak(e, rho, j+1, +1, win)
+		if upper-lower < minGap*width {
+			continue
+		}
+		mid, se := d.IDS((e[i] + e[j]) / 2)
+		rise := ids(e[j]) - ids(e[i])
+		res.Gaps = append(res.Gaps, Gap{IDS: mid, IDSError: math.Hypot(se, rise/2), Lower: lower, Upper: upper, Width: upper - lower})
 	}
 	return nil
 }

@@ -85,3 +85,24 @@ func cmpFloat(a, b float64) int {
 	}
 	return 0
 }
+
+// On open ends the chiral edge states fill every bulk gap of the
+// Hofstadter model at a density ∝ perimeter/N (Halperin, PRB 25, 2185,
+// 1982; the bulk–edge correspondence): the KPM density dips near its
+// floor across the gap, and its runs below the floor, split by edge
+// states, join into one gap per bulk gap, with the bulk label. Flux 1/3
+// on an open 150×150 plate: two gaps, labelled (0, 1) and (1, −1).
+func TestOpenHofstadterEdgeStatesDoNotSplitGaps(t *testing.T) {
+	pts, l := grid(150, 150, square)
+	op := build(t, pts, l, Model{Flux: Rational(1, 3)})
+	res := analyze(t, op, Options{Method: KPM, Generators: []float64{1.0 / 3}, KPM: KPMOptions{Seed: 2}})
+	if len(res.Gaps) != 2 {
+		t.Fatalf("%d gaps, want 2: %+v", len(res.Gaps), res.Gaps)
+	}
+	for r, g := range res.Gaps {
+		s, tr := hallConductance(r+1, 1, 3)
+		if g.Label == nil || !slices.Equal(g.Label.Coeffs, []int{s, tr}) {
+			t.Errorf("gap %d [%.3f, %.3f] IDS %.4f: label %v, want (%d, %d)", r+1, g.Lower, g.Upper, g.IDS, g.Label, s, tr)
+		}
+	}
+}
