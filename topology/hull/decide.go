@@ -305,11 +305,12 @@ func (a *analysis) disorderRule(context.Context) (*verdict, error) {
 // calls only at sizes where chains with a hull (point, finite, circle,
 // torus, 3-torus, decorated circle, Sturmian tiling; position noise up to
 // 5%) were called so at most 1% of the time in the calibration (package
-// whiteness, table.go: at most 1.0% at 48 sites, 0.3% at 64, none from
-// 100 to 20000 sites on 1000 draws per family and noise); it calls
-// independent chains of spread ±12% so 87% of the time at 64 sites and
-// 97–100% from 200 sites up. When the readings agree but the size cannot
-// tell, the undecided reason gains the smallest size that would.
+// whiteness, table.go: 0.9% at 48 sites, 0.4% at 64, none of 1000 per
+// family and noise from 100 to 20000 sites; 24 and 32 sites, at up to
+// 2.2%, are not called); it calls noise-free independent chains of spread
+// ±12% so 77% of the time at 48 sites, 87–88% from 64 to 200 sites and
+// 96–98% from 500 sites up. When the readings cannot tell at this size,
+// the undecided reason gains the smallest size that would.
 func (a *analysis) independentRule(ctx context.Context) (*verdict, error) {
 	if a.reading == nil || a.undecided == nil {
 		return nil, nil

@@ -75,7 +75,7 @@ func cellRate(i int) float64 {
 // call independent to count as deciding (see Decision.MinSites).
 const MinPower = 0.8
 
-// minSites is the smallest calibrated size at or above N whose false-call
+// minSites is the smallest calibrated size above N whose false-call
 // rate is at most MaxFalseCall and at which the rule called at least
 // MinPower of the simulated independent chains of the uniform spread
 // nearest sd (in the noise-free draws) independent; 0 if none.
@@ -87,7 +87,7 @@ func minSites(N int, sd float64) int {
 		}
 	}
 	for i, s := range sizes {
-		if s >= N && cellRate(i) <= MaxFalseCall && float64(power[i][k]) >= MinPower*float64(powerDraws[i]) {
+		if s > N && cellRate(i) <= MaxFalseCall && float64(power[i][k]) >= MinPower*float64(powerDraws[i]) {
 			return s
 		}
 	}

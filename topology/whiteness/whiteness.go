@@ -212,9 +212,9 @@ type Decision struct {
 	// Short is the short-chain decision's call, for chains of at most
 	// ShortSites sites whose four readings agree ("" otherwise).
 	Short shortchain.Kind
-	// MinSites is, for Undecided, the smallest calibrated size at which
-	// the rule called at least MinPower of the simulated independent
-	// chains of the nearest spread so (0 if none).
+	// MinSites is, for Undecided, the smallest calibrated size above this
+	// chain's at which the rule called at least MinPower of the simulated
+	// independent chains of the nearest spread so (0 if none).
 	MinSites int
 	// Reason says what the readings found, in one sentence.
 	Reason string
