@@ -90,8 +90,8 @@ func (a *analysis) measureAngles(ctx context.Context, k, p int) (string, error) 
 	}
 	fit, n, x = a.dropOutliers(fit, h, n, x)
 	freq, se := fit.Freq, fit.StdErr
-	if k == 2 {
-		freq, se = dominantBasis(n, x, freq, se)
+	if k >= 2 {
+		freq, se = reducedBasis(n, x, freq, se, p, h)
 	}
 	if why := a.checkModel(n, x, freq, p, h); why != "" {
 		return why, nil
@@ -258,64 +258,34 @@ func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int,
 	return best, bestH, nil
 }
 
-// dominantBasis rewrites two frequencies f (a basis of the module
-// Z + Zf1 + Zf2) in the basis of the two strongest tones of the positions:
-// among the tones m·f with |m_i| ≤ 3, ranked by the periodogram of the
-// detrended positions, the strongest one and the next strongest that
-// completes it to a unimodular basis (det = ±1, so the module is
-// unchanged). Any basis of the module is equally correct; this one names
-// the angles by which the pattern is visibly modulated, so that the same
-// pattern gives the same basis whichever loops the circular coordinates
-// happened to follow. Standard errors are propagated as if independent.
-func dominantBasis(n []int, x []float64, f, se []float64) ([]float64, []float64) {
-	r, ok := cellResiduals(n, x, 1)
+// reducedBasis rewrites the fitted basis f of the module
+// (1/p)Z + Zf1 + … + Zfd in the basis in which the strong lines of the
+// positions have the smallest integer coordinates (topology.ReduceBasis):
+// the lines are the tones m·f (+ j/p) of the harmonic model of h orders,
+// weighted by their fitted power (summed over j). Any basis of the module
+// is equally correct; this one is fixed by the pattern, not by the loops
+// the circular coordinates happened to follow, and names the angles by
+// which the pattern is visibly modulated: when the strongest lines are the
+// generators of the modulation, those are the basis. Standard errors are
+// propagated through the unimodular change of basis as if independent.
+// The fitted basis stands when the lines do not span every angle.
+func reducedBasis(n []int, x []float64, f, se []float64, p, h int) ([]float64, []float64) {
+	t, ok := harmonicTones(n, x, f, p, h)
 	if !ok {
 		return f, se
 	}
-	type tone struct {
-		m     [2]int
-		power float64
-	}
-	var tones []tone
-	span := float64(n[len(n)-1] - n[0] + 1)
-	for m1 := 0; m1 <= 3; m1++ {
-		for m2 := -3; m2 <= 3; m2++ {
-			if m1 == 0 && m2 <= 0 {
-				continue // one of ±m
-			}
-			g := float64(m1)*f[0] + float64(m2)*f[1]
-			// A tone within the resolution of 0 or ½ is a near-resonance
-			// (a small element of the module), not a modulation the
-			// pattern shows; it would also pick up the trend.
-			if fg := topology.Fold(g); fg < 2/span || fg > 0.5-2/span {
-				continue
-			}
-			var re, im float64
-			for i, v := range n {
-				s, c := math.Sincos(2 * math.Pi * g * float64(v))
-				re += r[i] * c
-				im += r[i] * s
-			}
-			tones = append(tones, tone{[2]int{m1, m2}, re*re + im*im})
+	var lines [][]int
+	var weights []float64
+	for _, tn := range t {
+		if tn.power > 0 && !tn.nearResonance {
+			lines, weights = append(lines, tn.m), append(weights, tn.power)
 		}
 	}
-	slices.SortStableFunc(tones, func(a, b tone) int { return cmp.Compare(b.power, a.power) })
-	if len(tones) < 2 {
+	r, err := topology.ReduceBasis(f, se, lines, weights)
+	if err != nil {
 		return f, se
 	}
-	first := tones[0].m
-	for _, t := range tones[1:] {
-		if det := first[0]*t.m[1] - first[1]*t.m[0]; det == 1 || det == -1 {
-			out := make([]float64, 2)
-			outSE := make([]float64, 2)
-			for i, m := range [2][2]int{first, t.m} {
-				out[i] = float64(m[0])*f[0] + float64(m[1])*f[1]
-				outSE[i] = math.Hypot(float64(m[0])*se[0], float64(m[1])*se[1])
-			}
-			return out, outSE
-		}
-	}
-	return f, se
+	return r.Angles, r.Uncertainty
 }
 
 // outlierFactor is how many robust standard deviations (1.4826 × the
@@ -451,13 +421,39 @@ func folded(f []float64) string {
 	return "(" + strings.Join(out, ", ") + ")"
 }
 
+// tone is one tone of the harmonic model: its coefficients m on the
+// basis, and its fitted power (a² + b² of its sine and cosine, summed over
+// the shifts j/p). nearResonance marks a tone within two Rayleigh
+// resolutions 2/L of 0 or ½: nearly the trend or the alternation, so its
+// amplitude is ill-determined.
+type tone struct {
+	m             []int
+	power         float64
+	nearResonance bool
+}
+
 // harmonicRSS fits x_n = c0 + c1·n + cell_{n mod p} + Σ tones by linear
 // least squares at the frequencies f (see the model check) and returns the
 // residual sum of squares and the number of parameters; false when the
 // chain is too short for the model.
 func harmonicRSS(n []int, x []float64, f []float64, p, h int) (float64, int, bool) {
+	rss, cols, _, ok := harmonicFit(n, x, f, p, h)
+	return rss, cols, ok
+}
+
+// harmonicTones returns the tones of the harmonic model fitted at the
+// frequencies f; false when the chain is too short for the model.
+func harmonicTones(n []int, x []float64, f []float64, p, h int) ([]tone, bool) {
+	_, _, t, ok := harmonicFit(n, x, f, p, h)
+	return t, ok
+}
+
+// harmonicFit is the fit behind harmonicRSS and harmonicTones.
+func harmonicFit(n []int, x []float64, f []float64, p, h int) (float64, int, []tone, bool) {
 	L := float64(n[len(n)-1] - n[0] + 1)
 	var freqs []float64
+	var owner []int // owner[k]: the tone of freqs[k]
+	var ts []tone
 	taken := func(g float64) bool {
 		if g < 0.5/L || g > 0.5-0.5/L {
 			return true
@@ -483,11 +479,15 @@ func harmonicRSS(n []int, x []float64, f []float64, p, h int) (float64, int, boo
 			if first <= 0 { // one of ±m, and not m = 0
 				return
 			}
+			t := tone{m: slices.Clone(m)}
 			for j := range p {
-				if g := topology.Fold(dotInts(m, f) + float64(j)/float64(p)); !taken(g) {
-					freqs = append(freqs, g)
+				g := topology.Fold(dotInts(m, f) + float64(j)/float64(p))
+				t.nearResonance = t.nearResonance || g < 2/L || g > 0.5-2/L
+				if !taken(g) {
+					freqs, owner = append(freqs, g), append(owner, len(ts))
 				}
 			}
+			ts = append(ts, t)
 			return
 		}
 		for v := -left; v <= left; v++ {
@@ -498,7 +498,7 @@ func harmonicRSS(n []int, x []float64, f []float64, p, h int) (float64, int, boo
 	walk(0, h)
 	cols := 2 + (p - 1) + 2*len(freqs)
 	if len(x) <= cols+1 {
-		return 0, 0, false
+		return 0, 0, nil, false
 	}
 	mid := 0.5 * float64(n[0]+n[len(n)-1])
 	A := mat.NewDense(len(x), cols, nil)
@@ -519,7 +519,7 @@ func harmonicRSS(n []int, x []float64, f []float64, p, h int) (float64, int, boo
 	qr.Factorize(A)
 	var beta mat.Dense
 	if err := qr.SolveTo(&beta, false, mat.NewDense(len(x), 1, slices.Clone(x))); err != nil {
-		return 0, 0, false
+		return 0, 0, nil, false
 	}
 	var fitted mat.Dense
 	fitted.Mul(A, &beta)
@@ -528,7 +528,11 @@ func harmonicRSS(n []int, x []float64, f []float64, p, h int) (float64, int, boo
 		r := x[i] - fitted.At(i, 0)
 		rss += r * r
 	}
-	return rss, cols, true
+	for k, o := range owner {
+		a, b := beta.At(1+p+2*k, 0), beta.At(2+p+2*k, 0)
+		ts[o].power += a*a + b*b
+	}
+	return rss, cols, ts, true
 }
 
 func dotInts(m []int, f []float64) float64 {

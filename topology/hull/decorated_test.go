@@ -115,3 +115,21 @@ func TestCircleReadingThreeGaps(t *testing.T) {
 func generateTorus(t *testing.T, sites int, t1, t2, noise float64) *pattern.Pattern {
 	return generate(t, design.Spec{Family: "two-angle", Sites: sites, Theta: t1, Amp: 0.1, Theta2: t2, Amp2: 0.08, Noise: noise, Seed: 3})
 }
+
+// A torus modulated by θ1 and θ2, its two strongest lines, reports the
+// basis (θ1, θ2) folded and ascending (topology.ReduceBasis), within five
+// stated uncertainties; the design's angles are its closed form.
+func TestTorusReportsReducedBasis(t *testing.T) {
+	t1, t2 := math.Sqrt2-1, 2-math.Sqrt(3)
+	r := analyze(t, generateTorus(t, 2000, t1, t2, 0.005))
+	if r.Hull.Class != Torus {
+		t.Fatalf("class %s (%s), want torus", r.Hull.Class, r.Hull.Reason)
+	}
+	want := topology.CanonicalBasis([]float64{t1, t2})
+	for i, w := range want {
+		if math.Abs(r.Angles[i]-w) > 5*r.AngleUncertainty[i]+1e-9 {
+			t.Errorf("angles %v ± %v, want the generators %v", r.Angles, r.AngleUncertainty, want)
+			break
+		}
+	}
+}
