@@ -271,7 +271,7 @@ func TestHullOf(t *testing.T) {
 			t.Errorf("%s: %d components for a cell of period %d", c.Name, c.Components, cellPeriodOf(c.Spec.Cell))
 		}
 	}
-	for _, l := range []string{"circle×2", "circle×3", "circle×4", "torus3"} {
+	for _, l := range []string{"circle×2", "circle×3", "circle×4", "torus×2", "torus×3", "torus3"} {
 		if count[l] == 0 {
 			t.Errorf("no case of %s in the full grid", l)
 		}
