@@ -44,6 +44,13 @@ func (a *analysis) measureAngles(ctx context.Context, k, p int) (string, error) 
 	var rough []float64
 	if p <= 1 {
 		coords, err := a.reading.coordinates(a.cloud, k)
+		if errors.Is(err, topology.ErrDisconnected) {
+			// The loops stand out, but at their scale the landmarks fall
+			// apart into pieces the H0 bars did not count as components
+			// (a hull of several components blurred by noise, say): no
+			// coordinate, no angle.
+			return fmt.Sprintf("the circular coordinate of the loop is not defined (%v): the hull may have more components than the barcodes resolved; less noise or more sites would decide", err), nil
+		}
 		if err != nil {
 			return "", err
 		}
@@ -399,18 +406,40 @@ const (
 // checkModel applies the model check; it returns why the angles fail it,
 // empty when they pass.
 func (a *analysis) checkModel(n []int, x []float64, f []float64, p, h int) string {
-	rss, params, ok := harmonicRSS(n, x, f, p, h)
+	mc, ok := modelCheck(n, x, f, p, h, a.res.Embedding.NoiseVariance, a.res.MeanSpacing)
 	if !ok {
 		return fmt.Sprintf("the harmonic model of %d harmonic(s) on the angles %s has more parameters than %d sites can fit: the angles are not established", h, folded(f), len(x))
 	}
-	m := a.res.MeanSpacing
-	sigma2 := math.Max(a.res.Embedding.NoiseVariance/2, minModelNoise*minModelNoise) * m * m
-	dof := float64(len(x) - params)
-	bound := modelSlack * distuv.ChiSquared{K: dof}.Quantile(modelQuantile)
-	if chi2 := rss / sigma2; !(chi2 <= bound) {
-		return fmt.Sprintf("the positions refitted on the angles %s leave residuals of %.3g mean spacings RMS, %.3g times the measured noise %.3g (χ² %.4g over %g degrees of freedom, bound %.4g): the angles do not reproduce the chain", folded(f), math.Sqrt(rss/float64(len(x)))/m, math.Sqrt(chi2/dof), math.Sqrt(sigma2)/m, chi2, dof, bound)
+	if !mc.pass() {
+		return fmt.Sprintf("the positions refitted on the angles %s leave residuals of %.3g mean spacings RMS, %.3g times the measured noise %.3g (χ² %.4g over %g degrees of freedom, bound %.4g): the angles do not reproduce the chain", folded(f), mc.rms/mc.mean, math.Sqrt(mc.chi2/mc.dof), math.Sqrt(mc.sigma2)/mc.mean, mc.chi2, mc.dof, mc.bound)
 	}
 	return ""
+}
+
+// modelFigures are the figures of the model check: χ² = RSS/σ² over dof
+// degrees of freedom against bound, with the RMS residual, σ² and the mean
+// spacing they were computed with.
+type modelFigures struct {
+	chi2, dof, bound, quantile float64
+	rms, sigma2, mean          float64
+}
+
+func (m modelFigures) pass() bool { return m.chi2 <= m.bound }
+
+// modelCheck computes the figures of the model check of the angles f on
+// positions x at indices n (p sites in the cell, h harmonics), for a
+// measured spacing noise variance noiseVar (in mean spacings squared) and
+// mean spacing mean; false when the chain is too short for the model.
+func modelCheck(n []int, x []float64, f []float64, p, h int, noiseVar, mean float64) (modelFigures, bool) {
+	rss, params, ok := harmonicRSS(n, x, f, p, h)
+	if !ok {
+		return modelFigures{}, false
+	}
+	sigma2 := math.Max(noiseVar/2, minModelNoise*minModelNoise) * mean * mean
+	dof := float64(len(x) - params)
+	q := distuv.ChiSquared{K: dof}.Quantile(modelQuantile)
+	return modelFigures{chi2: rss / sigma2, dof: dof, bound: modelSlack * q, quantile: q,
+		rms: math.Sqrt(rss / float64(len(x))), sigma2: sigma2, mean: mean}, true
 }
 
 func folded(f []float64) string {
