@@ -152,7 +152,8 @@ type Persistence struct {
 	// Threshold is the significance threshold τ on persistence, in
 	// whitened units, and what it is made of: the cover radius of the
 	// landmarks, the sampling gap of the trace (half the largest H0 death)
-	// and the noise scale (the longest bar no hull class explains).
+	// and the noise scale s (the root-mean-square displacement of a point
+	// of the cloud by the measured position noise).
 	Threshold   float64 `json:"threshold"`
 	CoverRadius float64 `json:"cover_radius"`
 	SamplingGap float64 `json:"sampling_gap"`
