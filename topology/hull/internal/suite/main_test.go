@@ -300,6 +300,15 @@ func TestDecidingSites(t *testing.T) {
 			t.Errorf("%s: deciding size %d, want %d", c.c.Name, got, c.want)
 		}
 	}
+	// A cell decorating two angles decides where its cell and its weaker
+	// line both do: where the same cell decorating that line alone does.
+	for _, noise := range []float64{0, 0.01, 0.1} {
+		two := decoratedAngles(scaleToMean([]float64{0.88, 1.12}), []float64{sqrt2m1, 2 - math.Sqrt(3)}, []float64{0.08, 0.06}, noise)
+		one := decorated(scaleToMean([]float64{0.88, 1.12}), sqrt2m1, 0.06, noise)
+		if a, b := decidingSites(two), decidingSites(one); a != b || a >= 1_000_000 {
+			t.Errorf("σ = %g: a cell decorating two angles decides at %d sites, the cell with the weaker line alone at %d", noise, a, b)
+		}
+	}
 	// A line of amplitude 0.1 under 3% noise decides where
 	// n·a²/(4σ²) = 2 ln(n/0.02), between 10 and 11 sites by hand:
 	// 10·0.01/0.0036 = 27.8 < 2 ln 500 = 12.4 is already true, so the
