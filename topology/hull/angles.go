@@ -115,7 +115,7 @@ func (a *analysis) refine(n []int, x []float64, rough []float64) (topology.Frequ
 		for i, f := range fit.Freq {
 			f0[i] = topology.Fold(f)
 		}
-		fit, err = topology.RefineFrequencies(n, x, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2})
+		fit, err = topology.RefineFrequencies(n, x, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) >= 2})
 	}
 	return fit, h, err
 }
@@ -207,7 +207,8 @@ func (a *analysis) fitSites() ([]int, []float64) {
 }
 
 // bestFit refines the frequencies from rough values with 1..maxHarmonics
-// harmonics (one frequency) or 1..3 orders with combination tones (two),
+// harmonics (one frequency) or 1..3 orders with combination tones (two or
+// three),
 // and keeps the fit with the lowest Bayesian information criterion
 // N log(RSS/N) + P log N (Schwarz, Ann. Stat. 6, 1978), stopping once two
 // orders past the best have not lowered it.
@@ -217,19 +218,24 @@ func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int,
 		f0[i] = topology.Fold(r)
 	}
 	maxH := maxHarmonics
-	if len(f0) == 2 {
+	if len(f0) >= 2 {
 		maxH = 3
 	}
 	N := float64(len(x))
 	best, bestH, bestBIC := topology.FrequencyFit{}, 0, math.Inf(1)
 	var firstErr error
 	for h := 1; h <= maxH; h++ {
-		opt := topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2}
+		opt := topology.FitOptions{Harmonics: h, Combinations: len(f0) >= 2}
 		terms := 2 + len(f0)
-		if len(f0) == 1 {
+		switch len(f0) {
+		case 1:
 			terms += 2 * h
-		} else {
+		case 2:
 			terms += 2 * (2*h + 2*h*h) // an upper bound on the tones; enough for the criterion
+		default:
+			// Half the points of the 3D ball |m|₁ ≤ h but the origin: the
+			// ball holds (2h+1)(2h²+2h+3)/3 points.
+			terms += (2*h+1)*(2*h*h+2*h+3)/3 - 1
 		}
 		if float64(terms) >= N/4 {
 			break
@@ -356,7 +362,7 @@ func (a *analysis) dropOutliers(fit topology.FrequencyFit, h int, n []int, x []f
 	for i, f := range fit.Freq {
 		f0[i] = topology.Fold(f)
 	}
-	refit, err := topology.RefineFrequencies(keepN, keepX, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2})
+	refit, err := topology.RefineFrequencies(keepN, keepX, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) >= 2})
 	if err != nil {
 		return fit, n, x
 	}
