@@ -208,10 +208,9 @@ func (a *analysis) fitSites() ([]int, []float64) {
 
 // bestFit refines the frequencies from rough values with 1..maxHarmonics
 // harmonics (one frequency) or 1..3 orders with combination tones (two or
-// three),
-// and keeps the fit with the lowest Bayesian information criterion
+// three), and keeps the fit with the lowest Bayesian information criterion
 // N log(RSS/N) + P log N (Schwarz, Ann. Stat. 6, 1978), stopping once two
-// orders past the best have not lowered it.
+// orders past the best have not lowered it (one for three frequencies).
 func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int, error) {
 	f0 := make([]float64, len(rough))
 	for i, r := range rough {
@@ -251,8 +250,11 @@ func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int,
 		bic := N*math.Log(math.Max(rss/N, 1e-300)) + float64(terms)*math.Log(N)
 		if bic < bestBIC {
 			best, bestH, bestBIC = fit, h, bic
-		} else if bestH > 0 && h >= bestH+2 {
-			break // two more harmonics did not help: the criterion has turned
+		} else if bestH > 0 && (h >= bestH+2 || len(f0) == 3) {
+			// Two more orders did not help (one for three angles, whose
+			// tones grow as the cube of the order): the criterion has
+			// turned.
+			break
 		}
 	}
 	if bestH == 0 {

@@ -5,7 +5,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
+	"sync"
 
 	"phasonhull/embed"
 	"phasonhull/topology"
@@ -157,28 +159,48 @@ func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) 
 	}
 	nLandmarks := max(opt.Landmarks, len(c.landmarkIdx))
 
+	// The landmark sets are read side by side, on as many goroutines as
+	// the engine may use: each is independent of the others, and the
+	// readings are gathered in order, so the result does not depend on
+	// the number of workers.
 	r := &reading{}
-	var main bettiReading
-	votes := map[[3]int]int{}
+	readings := make([]bettiReading, opt.Subsamples)
+	errs := make([]error, opt.Subsamples)
+	sem := make(chan struct{}, workers(opt))
+	var wg sync.WaitGroup
 	for s := range opt.Subsamples {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		lm, cover := c.landmarks, c.cover
-		if s > 0 {
-			idx, cv, err := embed.Landmarks(c.points, nLandmarks, opt.Seed+uint64(s))
-			if err != nil {
-				return nil, err
+		wg.Add(1)
+		sem <- struct{}{}
+		go func() {
+			defer func() { <-sem; wg.Done() }()
+			if err := ctx.Err(); err != nil {
+				errs[s] = err
+				return
 			}
-			lm, cover = pick(c.points, idx), cv
-		}
-		br, err := barcodes(ctx, c, lm, cover, opt, opt.Seed+uint64(s), s == 0, r)
+			var lm [][]float64
+			var cover float64
+			if s == 0 {
+				lm, cover = c.landmarks, c.cover
+			} else {
+				idx, cv, err := embed.Landmarks(c.points, nLandmarks, opt.Seed+uint64(s))
+				if err != nil {
+					errs[s] = err
+					return
+				}
+				lm, cover = pick(c.points, idx), cv
+			}
+			readings[s], errs[s] = barcodes(ctx, c, lm, cover, opt, opt.Seed+uint64(s), s == 0, r)
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
 		if err != nil {
 			return nil, err
 		}
-		if s == 0 {
-			main = br
-		}
+	}
+	main := readings[0]
+	votes := map[[3]int]int{}
+	for _, br := range readings {
 		votes[br.betti]++
 		r.persistence.Subsamples = append(r.persistence.Subsamples, br.betti[:])
 	}
@@ -186,6 +208,15 @@ func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) 
 	r.confidence = float64(votes[r.betti]) / float64(opt.Subsamples)
 	r.band = main.band
 	return r, nil
+}
+
+// workers is the number of landmark sets read at once: Options.Workers,
+// or every core.
+func workers(o Options) int {
+	if o.Workers > 0 {
+		return o.Workers
+	}
+	return runtime.GOMAXPROCS(0)
 }
 
 // coordinates returns the circular coordinates, in turns, of every point
