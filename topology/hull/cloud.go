@@ -136,8 +136,11 @@ type reading struct {
 	// persistence reports the main barcode and every subsample's numbers.
 	persistence Persistence
 	// diagram is the main barcode, with cocycles, and landmarks the points
-	// behind it.
+	// behind it. A main barcode read up to a cut has its cocycles in
+	// cocycles instead: the H1 barcode of the same landmarks to the
+	// cloud's radius, whose bars all end.
 	diagram   *rips.Diagram
+	cocycles  *rips.Diagram
 	landmarks [][]float64
 	// eps and merge are the main barcode's sampling gap and the scale at
 	// which its components merge (+Inf for one).
@@ -224,18 +227,17 @@ func workers(o Options) int {
 // Morozov & Vejdemo-Johansson 2011): coordinates[i][j] is the i-th
 // coordinate of point j.
 func (r *reading) coordinates(c *cloud, k int) ([][]float64, error) {
-	cocycles, err := topCocycles(r.diagram, k)
+	dg := r.diagram
+	if r.cocycles != nil {
+		dg = r.cocycles
+	}
+	cocycles, err := topCocycles(dg, k)
 	if err != nil {
 		return nil, err
 	}
 	out := make([][]float64, 0, k)
 	for _, co := range cocycles {
-		bar := r.diagram.Bars[co.Bar]
-		if bar.Essential() {
-			// A barcode read up to a cut: the class lives on to its end.
-			bar.Death = r.diagram.Threshold
-		}
-		scale, err := topology.DefaultScale(bar)
+		scale, err := topology.DefaultScale(dg.Bars[co.Bar])
 		if err != nil {
 			return nil, err
 		}
@@ -422,6 +424,16 @@ func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Op
 		opt.MaxDim = 2
 		if !math.IsInf(split, 1) {
 			opt.Threshold = split
+		}
+		if !math.IsInf(cut, 1) && main {
+			// The circular coordinates need the cocycles of bars that
+			// end: they come from the H1 barcode to the cloud's radius.
+			h1 := opt
+			h1.MaxDim, h1.Threshold = 1, 0
+			if r.cocycles, err = rips.VietorisRipsContext(ctx, lm, h1); err != nil {
+				return bettiReading{}, err
+			}
+			opt.Cocycles = false
 		}
 		if dg, err = rips.VietorisRipsContext(ctx, lm, opt); err != nil {
 			return bettiReading{}, err
