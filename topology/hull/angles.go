@@ -122,7 +122,7 @@ func (a *analysis) refine(n []int, x []float64, rough []float64) (topology.Frequ
 		for i, f := range fit.Freq {
 			f0[i] = topology.Fold(f)
 		}
-		fit, err = topology.RefineFrequencies(n, x, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2})
+		fit, err = topology.RefineFrequencies(n, x, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) >= 2})
 	}
 	return fit, h, err
 }
@@ -214,29 +214,34 @@ func (a *analysis) fitSites() ([]int, []float64) {
 }
 
 // bestFit refines the frequencies from rough values with 1..maxHarmonics
-// harmonics (one frequency) or 1..3 orders with combination tones (two),
-// and keeps the fit with the lowest Bayesian information criterion
+// harmonics (one frequency) or 1..3 orders with combination tones (two or
+// three), and keeps the fit with the lowest Bayesian information criterion
 // N log(RSS/N) + P log N (Schwarz, Ann. Stat. 6, 1978), stopping once two
-// orders past the best have not lowered it.
+// orders past the best have not lowered it (one for three frequencies).
 func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int, error) {
 	f0 := make([]float64, len(rough))
 	for i, r := range rough {
 		f0[i] = topology.Fold(r)
 	}
 	maxH := maxHarmonics
-	if len(f0) == 2 {
+	if len(f0) >= 2 {
 		maxH = 3
 	}
 	N := float64(len(x))
 	best, bestH, bestBIC := topology.FrequencyFit{}, 0, math.Inf(1)
 	var firstErr error
 	for h := 1; h <= maxH; h++ {
-		opt := topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2}
+		opt := topology.FitOptions{Harmonics: h, Combinations: len(f0) >= 2}
 		terms := 2 + len(f0)
-		if len(f0) == 1 {
+		switch len(f0) {
+		case 1:
 			terms += 2 * h
-		} else {
+		case 2:
 			terms += 2 * (2*h + 2*h*h) // an upper bound on the tones; enough for the criterion
+		default:
+			// Half the points of the 3D ball |m|₁ ≤ h but the origin: the
+			// ball holds (2h+1)(2h²+2h+3)/3 points.
+			terms += (2*h+1)*(2*h*h+2*h+3)/3 - 1
 		}
 		if float64(terms) >= N/4 {
 			break
@@ -252,8 +257,11 @@ func bestFit(n []int, x []float64, rough []float64) (topology.FrequencyFit, int,
 		bic := N*math.Log(math.Max(rss/N, 1e-300)) + float64(terms)*math.Log(N)
 		if bic < bestBIC {
 			best, bestH, bestBIC = fit, h, bic
-		} else if bestH > 0 && h >= bestH+2 {
-			break // two more harmonics did not help: the criterion has turned
+		} else if bestH > 0 && (h >= bestH+2 || len(f0) == 3) {
+			// Two more orders did not help (one for three angles, whose
+			// tones grow as the cube of the order): the criterion has
+			// turned.
+			break
 		}
 	}
 	if bestH == 0 {
@@ -333,7 +341,7 @@ func (a *analysis) dropOutliers(fit topology.FrequencyFit, h int, n []int, x []f
 	for i, f := range fit.Freq {
 		f0[i] = topology.Fold(f)
 	}
-	refit, err := topology.RefineFrequencies(keepN, keepX, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) == 2})
+	refit, err := topology.RefineFrequencies(keepN, keepX, f0, topology.FitOptions{Harmonics: h, Combinations: len(f0) >= 2})
 	if err != nil {
 		return fit, n, x
 	}

@@ -171,6 +171,11 @@ type Persistence struct {
 	CoverRadius float64 `json:"cover_radius"`
 	SamplingGap float64 `json:"sampling_gap"`
 	NoiseScale  float64 `json:"noise_scale"`
+	// MaxScale, when set, is the largest edge length the barcodes were
+	// computed to (a cloud that may be a three-torus is read up to the
+	// scale where its first loop closes): bars alive there are listed as
+	// essential and count with the persistence they have reached at it.
+	MaxScale float64 `json:"max_scale,omitempty"`
 	// Bars are the bars of dimension ≥ 1 (and H0 bars above the
 	// threshold), most persistent first per dimension; Significant marks
 	// those above Threshold.

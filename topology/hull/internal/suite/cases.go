@@ -455,11 +455,13 @@ func Grid(cfg Config) ([]Case, error) {
 		}
 	}
 
-	// 3-tori of 5000 sites.
-	for _, noise := range []float64{0, 0.005} {
-		c := multiAngle(threeAngles, []float64{0.1, 0.08, 0.06}, noise)
-		c.Spec.Sites, c.Spec.Noise = 5000, noise
-		add(c, fmt.Sprintf("torus3/N5000/%s", noiseLabel(noise)))
+	// 3-tori of 5000 and 20000 sites.
+	for _, n := range []int{5000, 20000} {
+		for _, noise := range []float64{0, 0.005, 0.01} {
+			c := multiAngle(threeAngles, []float64{0.1, 0.08, 0.06}, noise)
+			c.Spec.Sites, c.Spec.Noise = n, noise
+			add(c, fmt.Sprintf("torus3/N%d/%s", n, noiseLabel(noise)))
+		}
 	}
 
 	// Short chains of every class a fabricated sample may have.
