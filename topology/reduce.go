@@ -73,8 +73,8 @@ func ReduceBasis(theta, thetaErr []float64, lines [][]int, weights []float64) (R
 		}
 		wmax = math.Max(wmax, w)
 	}
-	if intRankOf(lines, d) < d {
-		return ReducedBasis{}, fmt.Errorf("reducing a basis: %w (rank %d of %d)", ErrLineRank, intRankOf(lines, d), d)
+	if IntRank(lines, d) < d {
+		return ReducedBasis{}, fmt.Errorf("reducing a basis: %w (rank %d of %d)", ErrLineRank, IntRank(lines, d), d)
 	}
 	// q(u) = Σ_l w_l (c_l·u)², with the weights scaled to at most 1.
 	q := func(u []int) float64 {
@@ -308,8 +308,9 @@ func inverseUnimodular(cols [][]int, d int) [][]int {
 	return V
 }
 
-// intRankOf returns the rank of integer vectors of length d.
-func intRankOf(rows [][]int, d int) int {
+// IntRank returns the rank of integer vectors of length d (Gaussian
+// elimination over the rationals, in floating point on small integers).
+func IntRank(rows [][]int, d int) int {
 	a := make([][]float64, len(rows))
 	for i, r := range rows {
 		a[i] = make([]float64, d)

@@ -90,29 +90,40 @@ var checks = []check{
 // and sets the class from what stands: the one place where Result.Hull is
 // set.
 func (a *analysis) decide(ctx context.Context) error {
+	v, err := firstVerdict(ctx, a, rules, checks)
+	if err != nil {
+		return err
+	}
+	a.res.setHull(v)
+	return nil
+}
+
+// firstVerdict walks a decision list in order and runs the checks, in
+// order, on the first verdict proposed; it returns what stands. Every list
+// ends with a rule that always proposes one.
+func firstVerdict[T any, R ~func(T, context.Context) (*verdict, error), C ~func(T, context.Context, *verdict) (*verdict, error)](ctx context.Context, a T, rules []R, checks []C) (*verdict, error) {
 	for _, r := range rules {
 		if err := ctx.Err(); err != nil {
-			return err
+			return nil, err
 		}
 		v, err := r(a, ctx)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		if v == nil {
 			continue
 		}
 		for _, c := range checks {
 			if err := ctx.Err(); err != nil {
-				return err
+				return nil, err
 			}
 			if v, err = c(a, ctx, v); err != nil {
-				return err
+				return nil, err
 			}
 		}
-		a.res.setHull(v)
-		return nil
+		return v, nil
 	}
-	panic("hull: the decision list ended without a verdict")
+	panic("hull: a decision list ended without a verdict")
 }
 
 // setHull sets Result.Hull from the verdict that stood: the one place
@@ -170,29 +181,12 @@ var planeChecks = []planeCheck{
 // decide walks the plane's decision list and checks and sets the class
 // from what stands.
 func (a *planeAnalysis) decide(ctx context.Context) error {
-	for _, r := range planeRules {
-		if err := ctx.Err(); err != nil {
-			return err
-		}
-		v, err := r(a, ctx)
-		if err != nil {
-			return err
-		}
-		if v == nil {
-			continue
-		}
-		for _, c := range planeChecks {
-			if err := ctx.Err(); err != nil {
-				return err
-			}
-			if v, err = c(a, ctx, v); err != nil {
-				return err
-			}
-		}
-		a.res.setHull(v)
-		return nil
+	v, err := firstVerdict(ctx, a, planeRules, planeChecks)
+	if err != nil {
+		return err
 	}
-	panic("hull: the plane's decision list ended without a verdict")
+	a.res.setHull(v)
+	return nil
 }
 
 // anglesCheck measures the angles of a class with angles (see
