@@ -45,23 +45,9 @@ func (rd *reader) fromCentroids(vals []float64, dim int, lines []int, unit strin
 		}
 	}
 	cov.ScaleSym(1/float64(n), cov)
-	var eig mat.EigenSym
-	if !eig.Factorize(cov, true) {
+	axis := leadingAxis(cov)
+	if axis == nil {
 		return nil, rd.errorf(0, 0, "the principal axis of the centroids could not be computed")
-	}
-	var vecs mat.Dense
-	eig.VectorsTo(&vecs)
-	axis := mat.Col(nil, dim-1, &vecs)
-	lead := 0
-	for k := range axis {
-		if math.Abs(axis[k]) > math.Abs(axis[lead]) {
-			lead = k
-		}
-	}
-	if axis[lead] < 0 {
-		for k := range axis {
-			axis[k] = -axis[k]
-		}
 	}
 
 	origin := 0.0 // projection of the mean onto the axis

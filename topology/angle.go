@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 )
 
 // The effective step angle of a chain is the rotation number of the map that
@@ -125,8 +126,10 @@ type FitOptions struct {
 	// Harmonics is the highest harmonic order H ≥ 1: the model holds the
 	// tones k·f for k = 1..H (for each frequency f).
 	Harmonics int
-	// Combinations adds, for two frequencies, the combination tones
-	// m1·f1 + m2·f2 with m1 ≥ 1, m2 ≠ 0 and |m1| + |m2| ≤ Harmonics.
+	// Combinations adds, for two or three frequencies, the combination
+	// tones m·f with at least two m_i ≠ 0, the first nonzero one positive,
+	// and |m|₁ ≤ Harmonics (for two: m1 ≥ 1, m2 ≠ 0, |m1| + |m2| ≤
+	// Harmonics).
 	Combinations bool
 }
 
@@ -157,8 +160,8 @@ func RefineFrequency(n []int, x []float64, f0 float64, harmonics int) (Frequency
 	return RefineFrequencies(n, x, []float64{f0}, FitOptions{Harmonics: harmonics})
 }
 
-// RefineFrequencies refines one frequency (circle hull) or two (torus hull)
-// of the modulation of site positions x at integer site indices n, fitting
+// RefineFrequencies refines one frequency (circle hull), two (torus hull)
+// or three (three-torus hull) of the modulation of site positions x at integer site indices n, fitting
 //
 //	x_n = c0 + c1·n + Σ_terms (a_j sin 2π(m_j·f)n + b_j cos 2π(m_j·f)n)
 //
@@ -180,8 +183,8 @@ func RefineFrequency(n []int, x []float64, f0 float64, harmonics int) (Frequency
 func RefineFrequencies(n []int, x []float64, f0 []float64, opt FitOptions) (FrequencyFit, error) {
 	d := len(f0)
 	switch {
-	case d != 1 && d != 2:
-		return FrequencyFit{}, fmt.Errorf("refining frequencies: need 1 or 2 starting frequencies, have %d", d)
+	case d < 1 || d > 3:
+		return FrequencyFit{}, fmt.Errorf("refining frequencies: need 1 to 3 starting frequencies, have %d", d)
 	case opt.Harmonics < 1:
 		return FrequencyFit{}, fmt.Errorf("refining frequencies: harmonics %d < 1", opt.Harmonics)
 	case len(n) != len(x):
@@ -308,15 +311,33 @@ func modelTerms(d int, opt FitOptions) [][]int {
 			terms = append(terms, m)
 		}
 	}
-	if d == 2 && opt.Combinations {
-		// One of ±(m1, m2): the pair spans the same sine and cosine.
-		for m1 := 1; m1 < opt.Harmonics; m1++ {
-			for m2 := -(opt.Harmonics - m1); m2 <= opt.Harmonics-m1; m2++ {
-				if m2 != 0 {
-					terms = append(terms, []int{m1, m2})
+	if d >= 2 && opt.Combinations {
+		// One of ±m: the pair spans the same sine and cosine. The walk is
+		// lexicographic, m1 first.
+		m := make([]int, d)
+		var walk func(i, left int)
+		walk = func(i, left int) {
+			if i == d {
+				nonzero, first := 0, 0
+				for _, v := range m {
+					if v != 0 {
+						if nonzero == 0 {
+							first = v
+						}
+						nonzero++
+					}
 				}
+				if nonzero >= 2 && first > 0 {
+					terms = append(terms, slices.Clone(m))
+				}
+				return
+			}
+			for v := -left; v <= left; v++ {
+				m[i] = v
+				walk(i+1, left-max(v, -v))
 			}
 		}
+		walk(0, opt.Harmonics)
 	}
 	return terms
 }

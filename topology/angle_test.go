@@ -436,6 +436,35 @@ func TestRefineFrequenciesTorus(t *testing.T) {
 	}
 }
 
+// A three-torus modulation with a combination tone: exact data are fitted
+// to rounding from starting values half a resolution off, and the
+// combination tone m·f with three nonzero m_i is in the model (least
+// squares of an exact model leaves no residual; common practice).
+func TestRefineFrequenciesThreeTorus(t *testing.T) {
+	// Every two tones of order ≤ 3 lie at least 0.0033 apart: resolved.
+	f := []float64{1 - golden, math.Sqrt2 - 1, math.E - 2}
+	const N = 2000
+	idx := consecutive(0, N)
+	x := make([]float64, N)
+	for i, n := range idx {
+		t := float64(n)
+		x[i] = 0.7 + 1.3*t + 0.05*math.Sin(2*math.Pi*f[0]*t+0.3) + 0.04*math.Cos(2*math.Pi*f[1]*t-1) +
+			0.03*math.Sin(2*math.Pi*f[2]*t+2) + 0.01*math.Sin(2*math.Pi*(f[0]-f[1]+f[2])*t)
+	}
+	fit, err := RefineFrequencies(idx, x, []float64{f[0] + 0.5/N, f[1] - 0.4/N, f[2] + 0.3/N}, FitOptions{Harmonics: 3, Combinations: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range f {
+		if e := math.Abs(fit.Freq[i] - f[i]); e > 1e-12 {
+			t.Errorf("f%d: error %.3g", i+1, e)
+		}
+	}
+	if fit.RMS > 1e-9 {
+		t.Errorf("exact three-torus data fitted to RMS %.3g", fit.RMS)
+	}
+}
+
 func TestRefineFrequencyErrors(t *testing.T) {
 	idx := consecutive(0, 50)
 	x := loop(idx, 0.3, []float64{0.1}, []float64{0}, 0, nil)
@@ -452,8 +481,8 @@ func TestRefineFrequencyErrors(t *testing.T) {
 			return err
 		}},
 		{"too few sites", func() error { _, err := RefineFrequency(idx[:5], x[:5], 0.3, 1); return err }},
-		{"three frequencies", func() error {
-			_, err := RefineFrequencies(idx, x, []float64{0.1, 0.2, 0.3}, FitOptions{Harmonics: 1})
+		{"four frequencies", func() error {
+			_, err := RefineFrequencies(idx, x, []float64{0.1, 0.2, 0.3, 0.4}, FitOptions{Harmonics: 1})
 			return err
 		}},
 		{"coinciding frequencies", func() error {

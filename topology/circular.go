@@ -49,6 +49,11 @@ func DefaultScale(b rips.Bar) (float64, error) {
 	return 0.5 * (b.Birth + b.Death), nil
 }
 
+// ErrDisconnected is wrapped by CircularCoordinates' error when the
+// landmarks fall into several components at the scale of the coordinate:
+// a circular coordinate needs a connected one.
+var ErrDisconnected = errors.New("the coordinate needs a connected one")
+
 // CircularCoordinates builds the circle-valued coordinate of the landmark
 // cloud for the cohomology class of c at scale r (see DefaultScale).
 //
@@ -83,7 +88,7 @@ func CircularCoordinates(landmarks [][]float64, c rips.Cocycle, r float64) (*Cir
 		}
 	}
 	if comps := components(adj); comps > 1 {
-		return nil, fmt.Errorf("circular coordinates: the Rips graph at scale %g has %d components; the coordinate needs a connected one", r, comps)
+		return nil, fmt.Errorf("circular coordinates: the Rips graph at scale %g has %d components: %w", r, comps, ErrDisconnected)
 	}
 	// The cocycle restricted to K_r.
 	alpha := make(map[[2]int]int)

@@ -52,9 +52,9 @@ func (f *generateFlags) register(fs *pflag.FlagSet) {
 	fs.Float64Var(&o.Theta2, "theta2", 0, "two-angle: second angle θ2 in turns")
 	fs.Float64Var(&o.Phase2, "phase2", 0, "two-angle: second phase φ2 in turns")
 	fs.Var(f.lengths["amp2"].(pflag.Value), "amp2", "two-angle: second amplitude a2, a `LENGTH`")
-	fs.Float64SliceVar(&o.Thetas, "thetas", nil, "multi-angle: one to three angles θ_1,θ_2,θ_3 in turns (a `LIST`)")
-	fs.Var(f.lengths["amps"].(pflag.Value), "amps", "multi-angle, plate: amplitudes a_1,a_2,a_3, one per angle or row of --rotation (a `LIST` of lengths)")
-	fs.Float64SliceVar(&o.Phases, "phases", nil, "multi-angle: phases φ_1,φ_2,φ_3; plate, twisted: ψ0 per torus coordinate; in turns (a `LIST`; missing ones are 0)")
+	fs.Float64SliceVar(&o.Thetas, "thetas", nil, "multi-angle, decorated: one to three angles θ_1,θ_2,θ_3 in turns (a `LIST`)")
+	fs.Var(f.lengths["amps"].(pflag.Value), "amps", "multi-angle, decorated, plate: amplitudes a_1,a_2,a_3, one per angle or row of --rotation (a `LIST` of lengths)")
+	fs.Float64SliceVar(&o.Phases, "phases", nil, "multi-angle, decorated: phases φ_1,φ_2,φ_3; plate, twisted: ψ0 per torus coordinate; in turns (a `LIST`; missing ones are 0)")
 	fs.Float64SliceVar(&o.RadiusCos, "radius-cos", nil, "loop: radius coefficients c_1,c_2,... (a `LIST`) relative to R")
 	fs.Float64SliceVar(&o.RadiusSin, "radius-sin", nil, "loop: radius coefficients s_1,s_2,... (a `LIST`) relative to R")
 	fs.Float64Var(&o.Step, "step", 0, "loop: arc step as a fraction of the perimeter, in (0,1)")
@@ -145,6 +145,7 @@ a complete design; a FAMILY argument or flags given as well override it.`,
   phasonhull generate modulated --sites 400 --theta 0.2763 --amp 0.12 > design.csv
   phasonhull generate modulated --theta 0.381966 --sin 0.1,0.03 --cos 0,0.02 --unit um --spacing 2.5
   phasonhull generate decorated --cell 0.88,1.12 --theta 0.4142136 --sin 0.1
+  phasonhull generate decorated --cell 0.9,1.2,0.9 --thetas 0.4142136,0.2679492 --amps 0.08,0.06 --sites 3000
   phasonhull generate loop --step 0.381966 --amp 0.15 --radius-cos 0,0.3
   phasonhull generate circle-map --omega 0.3 --k 0.9 --amp 0.1
   phasonhull generate two-angle --theta 0.4142136 --amp 0.1 --theta2 0.7320508 --amp2 0.06

@@ -28,7 +28,9 @@
 //     2πk(nθ+φ) + b_k cos 2πk(nθ+φ)) ("theta", "phase", "sin", "cos"). Its
 //     hull is p circles (ClosedForm.Components); "cell": [0.88, 1.12] with
 //     "sin": [0.1] is the dimerised chain n − 0.06 + 0.06·(−1)^n +
-//     0.1 sin 2π(nθ+φ).
+//     0.1 sin 2π(nθ+φ). With "thetas", "amps" and "phases" (as in
+//     multi-angle) instead of "theta", "sin" and "cos", the cell decorates
+//     Σ_k a_k sin 2π(nθ_k+φ+φ_k) over one to three angles: p d-tori.
 //   - loop: sites a fixed arc length apart along the closed plane curve
 //     r(φ) = R(1 + Σ_k (c_k cos kφ + s_k sin kφ)) ("radius-cos",
 //     "radius-sin"); the arc step is the fraction "step" of the perimeter,

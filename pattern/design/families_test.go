@@ -107,6 +107,20 @@ func TestDecorated(t *testing.T) {
 			t.Fatalf("cell of 3: spacing %d = %.15g, want %.15g", n, d, want)
 		}
 	}
+	// A cell of three decorating two angles, phases φ + φ_k.
+	s.Theta, s.Sin, s.Cos = 0, nil, nil
+	s.Thetas, s.Amps, s.Phases = []float64{math.Sqrt2 - 1, 2 - math.Sqrt(3)}, []float64{0.05, 0.04}, []float64{0.1, 0.7}
+	pos = mustGenerate(t, s)
+	for n := 0; n+1 < len(pos); n++ {
+		m := func(n int) float64 {
+			fn := float64(n)
+			return 0.05*math.Sin(2*math.Pi*(fn*s.Thetas[0]+s.Phase+0.1)) + 0.04*math.Sin(2*math.Pi*(fn*s.Thetas[1]+s.Phase+0.7))
+		}
+		want := s.Cell[n%3] + m(n+1) - m(n)
+		if d := pos[n+1] - pos[n]; math.Abs(d-want) > 1e-10 {
+			t.Fatalf("cell of 3, two angles: spacing %d = %.15g, want %.15g", n, d, want)
+		}
+	}
 }
 
 // TestMultiAngle checks the positions against the formula for three

@@ -78,12 +78,15 @@ func table() []family {
 			phase:  "phase", field: phase,
 		},
 		{
-			name: Decorated, uses: uses("cell", "theta", "phase", "sin", "cos"),
-			formula: "x_n = Σ_{m<n} cell[m mod p] + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ)), p spacings in the cell",
+			name: Decorated, uses: uses("cell", "theta", "phase", "sin", "cos", "thetas", "amps", "phases"),
+			formula: "x_n = Σ_{m<n} cell[m mod p] + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ)) (one angle) or + Σ_k a_k sin 2π(nθ_k+φ+φ_k) (thetas), p spacings in the cell",
 			help: "a repeated cell of p spacings (--cell) decorating a modulation:\n" +
 				"x_n = Σ_{m<n} cell[m mod p] + Σ_k (a_k sin 2πk(nθ+φ) + b_k cos 2πk(nθ+φ));\n" +
-				"its hull is p circles",
-			check: checkDecorated, build: buildDecorated,
+				"its hull is p circles. With --thetas, --amps (--phases) instead of\n" +
+				"--theta, --sin, --cos: x_n = Σ_{m<n} cell[m mod p] + Σ_k a_k sin 2π(nθ_k+φ+φ_k),\n" +
+				"one to three angles; its hull is p d-tori",
+			defaults: defaultsMultiAngle,
+			check:    checkDecorated, build: buildDecorated,
 			closed: closedDecorated,
 			phase:  "phase", field: phase,
 		},

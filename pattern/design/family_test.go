@@ -102,6 +102,16 @@ func TestClosedForm(t *testing.T) {
 	if c := dec.ClosedForm(); c.Period != 3 || c.Angles != nil {
 		t.Errorf("decorated without amplitudes: %+v, want period 3", c)
 	}
+	// The same cell decorating two angles: 3 tori of the angles with a
+	// nonzero amplitude.
+	dec.Theta, dec.Thetas, dec.Amps = 0, []float64{0.4142, 0.2679}, []float64{0.05, 0.04}
+	if c := dec.ClosedForm(); len(c.Angles) != 2 || c.Angles[0] != 0.4142 || c.Angles[1] != 0.2679 || c.Components != 3 || c.Period != 0 {
+		t.Errorf("decorated, cell of period 3, two angles: %+v, want the angles 0.4142, 0.2679 on 3 components", c)
+	}
+	dec.Amps = []float64{0, 0}
+	if c := dec.ClosedForm(); c.Period != 3 || c.Angles != nil {
+		t.Errorf("decorated, two angles without amplitudes: %+v, want period 3", c)
+	}
 	// Up to three angles; a zero amplitude drops its angle.
 	ma := NewSpec(MultiAngle)
 	ma.Thetas, ma.Amps = []float64{0.4142, 0.2679, 0.618}, []float64{0.1, 0, 0.05}

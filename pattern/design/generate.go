@@ -27,13 +27,19 @@ func Generate(spec Spec) (*pattern.Pattern, error) {
 	}
 	p.Word = word
 	fam, _ := lookupFamily(c.Family)
+	head := c.generatedNote(fam.formula)
+	p.Notes = append(append([]string{head}, notes...), p.Notes...)
+	return p, nil
+}
+
+// generatedNote is the first note of a generated pattern or plane: the
+// family, its formula and every parameter of the spec.
+func (s Spec) generatedNote(formula string) string {
 	var params []string
-	for _, line := range c.Comments() {
+	for _, line := range s.Comments() {
 		if !strings.HasPrefix(line, "spec: ") && !strings.HasPrefix(line, "family = ") {
 			params = append(params, line)
 		}
 	}
-	head := fmt.Sprintf("generated from the %s family, %s, with %s", c.Family, fam.formula, strings.Join(params, ", "))
-	p.Notes = append(append([]string{head}, notes...), p.Notes...)
-	return p, nil
+	return fmt.Sprintf("generated from the %s family, %s, with %s", s.Family, formula, strings.Join(params, ", "))
 }

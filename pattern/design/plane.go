@@ -3,7 +3,6 @@ package design
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"phasonhull/pattern"
 )
@@ -257,13 +256,7 @@ func GeneratePlane(spec Spec) (*pattern.Plane, error) {
 	if err != nil {
 		return nil, fmt.Errorf("design %s: %w", c.Family, err)
 	}
-	var params []string
-	for _, line := range c.Comments() {
-		if !strings.HasPrefix(line, "spec: ") && !strings.HasPrefix(line, "family = ") {
-			params = append(params, line)
-		}
-	}
-	head := fmt.Sprintf("generated from the %s family, %s, with %s", c.Family, fam.formula, strings.Join(params, ", "))
+	head := c.generatedNote(fam.formula)
 	p.Notes = append(append([]string{head}, notes...), p.Notes...)
 	return p, nil
 }

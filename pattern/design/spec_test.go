@@ -218,6 +218,17 @@ func TestValidateRefusals(t *testing.T) {
 		{fam("decorated", func(s *Spec) { s.Cell, s.Theta, s.Amp = []float64{1, 1.2}, 0.3, 0.1 }), "amp = 0.1 has no effect on the decorated family"},
 		// 2·sin(π·0.3)·0.3 ≈ 0.485 against the smallest cell spacing 0.4.
 		{fam("decorated", func(s *Spec) { s.Cell, s.Theta, s.Sin = []float64{0.4, 1.6}, 0.3, []float64{0.3} }), "against the smallest cell spacing 0.4"},
+		{fam("decorated", func(s *Spec) {
+			s.Cell, s.Theta, s.Thetas, s.Amps = []float64{1, 1.2}, 0.3, []float64{0.4}, []float64{0.1}
+		}), "theta = 0.3 with thetas"},
+		{fam("decorated", func(s *Spec) {
+			s.Cell, s.Sin, s.Thetas, s.Amps = []float64{1, 1.2}, []float64{0.1}, []float64{0.4}, []float64{0.1}
+		}), "sin/cos with thetas"},
+		{fam("decorated", func(s *Spec) { s.Cell, s.Thetas, s.Amps = []float64{1, 1.2}, []float64{0.4, 0.2}, []float64{0.1} }), "amps: 1 amplitudes for 2 angles"},
+		// 2·sin(π·0.4)·0.25 + 2·sin(π·0.3)·0.1 ≈ 0.64 against 0.5.
+		{fam("decorated", func(s *Spec) {
+			s.Cell, s.Thetas, s.Amps = []float64{0.5, 1.5}, []float64{0.4, 0.3}, []float64{0.25, 0.1}
+		}), "against the smallest cell spacing 0.5"},
 		{fam("multi-angle", func(s *Spec) {}), "thetas: 0 angles"},
 		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps = []float64{0.1, 0.2, 0.3, 0.4}, []float64{0, 0, 0, 0} }), "thetas: 4 angles"},
 		{fam("multi-angle", func(s *Spec) { s.Thetas, s.Amps = []float64{0.1, 0.2}, []float64{0.1} }), "amps: 1 amplitudes for 2 angles"},

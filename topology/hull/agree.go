@@ -119,7 +119,7 @@ func inModule(lines []tones.Line, p int, theta, thetaErr []float64, L int) bool 
 			return false
 		}
 	}
-	return intRank(used, d) == d
+	return topology.IntRank(used, d) == d
 }
 
 // forEachVector calls fn with every integer vector of length d and entries
@@ -144,42 +144,6 @@ func forEachVector(d, M int, fn func(m []int) bool) {
 			return
 		}
 	}
-}
-
-// intRank returns the rank of integer vectors of length d (Gaussian
-// elimination over the rationals, in floating point on small integers).
-func intRank(rows [][]int, d int) int {
-	a := make([][]float64, len(rows))
-	for i, r := range rows {
-		a[i] = make([]float64, d)
-		for j, v := range r {
-			a[i][j] = float64(v)
-		}
-	}
-	rank := 0
-	for col := 0; col < d && rank < len(a); col++ {
-		piv := -1
-		for i := rank; i < len(a); i++ {
-			if math.Abs(a[i][col]) > 1e-9 {
-				piv = i
-				break
-			}
-		}
-		if piv < 0 {
-			continue
-		}
-		a[rank], a[piv] = a[piv], a[rank]
-		for i := range a {
-			if i != rank && a[i][col] != 0 {
-				f := a[i][col] / a[rank][col]
-				for j := range d {
-					a[i][j] -= f * a[rank][j]
-				}
-			}
-		}
-		rank++
-	}
-	return rank
 }
 
 // source names the reading behind a verdict.

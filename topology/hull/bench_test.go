@@ -45,3 +45,10 @@ func BenchmarkAnalyzeTorus3000(b *testing.B) {
 func BenchmarkAnalyze20000(b *testing.B) {
 	benchAnalyze(b, design.Spec{Family: "modulated", Sites: 20000, Theta: math.Sqrt2 - 1, Sin: []float64{0.1}, Phase: 0.13, Noise: 0.01, Seed: 1}, hull.Circle)
 }
+
+// A three-torus of 5000 sites (noise-free, three angles): H2 on the denser
+// landmark set a three-torus needs, read up to where its first loop
+// closes. The goal is under 3 s.
+func BenchmarkAnalyzeTorus3_5000(b *testing.B) {
+	benchAnalyze(b, design.Spec{Family: "multi-angle", Sites: 5000, Thetas: []float64{0.4142136, 0.2679492, 0.618034}, Amps: []float64{0.05, 0.04, 0.03}, Seed: 1}, hull.Torus3)
+}

@@ -5,7 +5,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
+	"sync"
 
 	"phasonhull/embed"
 	"phasonhull/topology"
@@ -76,13 +78,64 @@ type cloud struct {
 // the H0 bars inside the components. The rule is checked on every class of
 // generated hull from noise-free to 5% position noise (see the tests and
 // the benchmark suite); its factors are named below.
+//
+// noiseFactor is calibrated by simulation (BenchmarkCalibration in
+// calibrate_test.go: a circle, 2 circles and a two-torus of 2000 sites at
+// 0.5% to 5% position noise, 4 draws each, 60 in all): no draw had a bar
+// beyond the true Betti numbers above τ (0/60, 95% upper bound 5%); where
+// the noise term dominates the threshold (2% noise and more) the longest
+// such bar was 1.72·s, so noise alone made no loop above 3·s (0/36). Above
+// 3·s there were only sampling bars of the torus at 0.5% noise (up to
+// 5.6·s, 4/4 draws), which the sampling term keeps below τ. The price:
+// the shortest true bar of the torus at 3% noise was 2.44·s (4/4 draws
+// below 3·s: tori at 3% come out unresolved), and at 5% every true bar
+// is below 1·s. A factor of 2 would keep the 3% tori, with a margin over
+// the noise bars seen too thin for 60 draws to establish; 3 stands.
 const (
 	samplingFactor = 2
 	noiseFactor    = 3
 	componentGap   = 3
 	// torusLandmarks is the least number of landmarks H2 is computed on.
 	torusLandmarks = 300
+	// maxTorus3Landmarks bounds the landmarks a cloud that may be a
+	// three-torus is read on (see torus3Landmarks).
+	maxTorus3Landmarks = 1000
 )
+
+// A three-torus needs a denser cover than a two-torus. Its loops and
+// 2-cycles die at the same scales as a two-torus's of the same radii, but
+// the landmarks fill a 3-manifold, so at a given number of landmarks the
+// cover radius δ — and the sampling term 2δ of the significance rule — is
+// larger: on the whitened cloud of three angles (six directions) 300
+// landmarks leave δ ≈ 1.0 against loops of persistence ≈ 1.3.
+//
+// So when the cloud has room for a three-torus (at least six directions
+// above noise) and three loops stand above half the threshold τ (the
+// stability bound used at its worst case, see the significance rule) and
+// above noise and sampling gap, the
+// barcodes are read again on a denser landmark set, its size chosen so
+// that the cover radius falls to half the third loop's persistence: the
+// cover radius of N landmarks on a d-dimensional hull falls as N^(−1/d),
+// so N' = N·(2δ/P₃)³ with P₃ the third loop's persistence at δ, bounded by
+// maxTorus3Landmarks. The rule itself is unchanged: τ is 2·max(δ', ε)
+// of the denser set, and 3·s.
+//
+// That barcode is computed up to the scale at which the first of the three
+// loops closes (its death in the sparser barcode), not to the cloud's
+// radius: the complex grows steeply past it (a 3-torus has many short-lived
+// 2-cycles born where its loops die) and a 2-cycle of the hull has been
+// born long before. A bar still alive at that cut counts with the
+// persistence it has reached there, a lower bound of its own: the cut can
+// only leave a long bar uncounted, never count a short one. H3 is not
+// computed; b3 = 1 of a three-torus is not checked, (1, 3, 3) already
+// names no other hull p·C(d, k).
+func torus3Landmarks(n int, cover, p3 float64) int {
+	if !(p3 > 0) {
+		return maxTorus3Landmarks
+	}
+	want := float64(n) * math.Pow(2*cover/p3, 3)
+	return int(min(max(want, torusLandmarks), maxTorus3Landmarks))
+}
 
 // reading is what the barcodes of a cloud say, over its landmark
 // subsamples.
@@ -96,8 +149,11 @@ type reading struct {
 	// persistence reports the main barcode and every subsample's numbers.
 	persistence Persistence
 	// diagram is the main barcode, with cocycles, and landmarks the points
-	// behind it.
+	// behind it. A main barcode read up to a cut has its cocycles in
+	// cocycles instead: the H1 barcode of the same landmarks to the
+	// cloud's radius, whose bars all end.
 	diagram   *rips.Diagram
+	cocycles  *rips.Diagram
 	landmarks [][]float64
 	// eps and merge are the main barcode's sampling gap and the scale at
 	// which its components merge (+Inf for one).
@@ -119,28 +175,48 @@ func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) 
 	}
 	nLandmarks := max(opt.Landmarks, len(c.landmarkIdx))
 
+	// The landmark sets are read side by side, on as many goroutines as
+	// the engine may use: each is independent of the others, and the
+	// readings are gathered in order, so the result does not depend on
+	// the number of workers.
 	r := &reading{}
-	var main bettiReading
-	votes := map[[3]int]int{}
+	readings := make([]bettiReading, opt.Subsamples)
+	errs := make([]error, opt.Subsamples)
+	sem := make(chan struct{}, workers(opt))
+	var wg sync.WaitGroup
 	for s := range opt.Subsamples {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		lm, cover := c.landmarks, c.cover
-		if s > 0 {
-			idx, cv, err := embed.Landmarks(c.points, nLandmarks, opt.Seed+uint64(s))
-			if err != nil {
-				return nil, err
+		wg.Add(1)
+		sem <- struct{}{}
+		go func() {
+			defer func() { <-sem; wg.Done() }()
+			if err := ctx.Err(); err != nil {
+				errs[s] = err
+				return
 			}
-			lm, cover = pick(c.points, idx), cv
-		}
-		br, err := barcodes(ctx, c, lm, cover, opt, opt.Seed+uint64(s), s == 0, r)
+			var lm [][]float64
+			var cover float64
+			if s == 0 {
+				lm, cover = c.landmarks, c.cover
+			} else {
+				idx, cv, err := embed.Landmarks(c.points, nLandmarks, opt.Seed+uint64(s))
+				if err != nil {
+					errs[s] = err
+					return
+				}
+				lm, cover = pick(c.points, idx), cv
+			}
+			readings[s], errs[s] = barcodes(ctx, c, lm, cover, opt, opt.Seed+uint64(s), s == 0, r)
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
 		if err != nil {
 			return nil, err
 		}
-		if s == 0 {
-			main = br
-		}
+	}
+	main := readings[0]
+	votes := map[[3]int]int{}
+	for _, br := range readings {
 		votes[br.betti]++
 		r.persistence.Subsamples = append(r.persistence.Subsamples, br.betti[:])
 	}
@@ -150,18 +226,31 @@ func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) 
 	return r, nil
 }
 
+// workers is the number of landmark sets read at once: Options.Workers,
+// or every core.
+func workers(o Options) int {
+	if o.Workers > 0 {
+		return o.Workers
+	}
+	return runtime.GOMAXPROCS(0)
+}
+
 // coordinates returns the circular coordinates, in turns, of every point
 // of c for the k most persistent loops of the main barcode (de Silva,
 // Morozov & Vejdemo-Johansson 2011): coordinates[i][j] is the i-th
 // coordinate of point j.
 func (r *reading) coordinates(c *cloud, k int) ([][]float64, error) {
-	cocycles, err := topCocycles(r.diagram, k)
+	dg := r.diagram
+	if r.cocycles != nil {
+		dg = r.cocycles
+	}
+	cocycles, err := topCocycles(dg, k)
 	if err != nil {
 		return nil, err
 	}
 	out := make([][]float64, 0, k)
 	for _, co := range cocycles {
-		scale, err := topology.DefaultScale(r.diagram.Bars[co.Bar])
+		scale, err := topology.DefaultScale(dg.Bars[co.Bar])
 		if err != nil {
 			return nil, err
 		}
@@ -306,42 +395,75 @@ func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Op
 		return bettiReading{}, err
 	}
 	tau, eps, merge := threshold(dg.Bars, cover, c.noise)
-	b := count(dg.Bars, tau, merge)
+	cut := math.Inf(1) // the scale the bars are read up to (see torus3Landmarks)
+	b := count(dg.Bars, tau, merge, cut)
 	// Two loops that stand out above noise and sampling gap but not yet
 	// above the cover radius ask for a denser cover too: a torus's loops
 	// are longer than a sparse cover lets them show.
-	loose := count(dg.Bars, math.Max(samplingFactor*eps, noiseFactor*c.noise), merge)
-	if b[1] >= 2 || loose[1] >= 2 {
+	looseTau := math.Max(samplingFactor*eps, noiseFactor*c.noise)
+	loose := count(dg.Bars, looseTau, merge, cut)
+	// Room for a three-torus: six directions or more, and three loops
+	// above half the significance threshold and the noise term (see
+	// torus3Landmarks).
+	loops := loopBars(dg.Bars, math.Max(tau/2, noiseFactor*c.noise), merge, 3)
+	torus3 := c.components >= 6 && len(loops) == 3
+	if b[1] >= 2 || loose[1] >= 2 || torus3 {
 		// A 2-cycle needs a denser cover than a loop: H2 is computed on at
 		// least torusLandmarks landmarks.
-		if want := max(o.Landmarks, torusLandmarks); len(lm) < want && len(lm) < len(c.points) {
+		want := max(o.Landmarks, torusLandmarks)
+		// Cycles born after the components merge do not count, so a
+		// cloud of several components is computed up to that scale only:
+		// its components then stay apart as essential H0 bars.
+		split := merge
+		if torus3 {
+			// A denser cover still, read up to the scale where the first
+			// of the three loops closes.
+			want = max(want, torus3Landmarks(len(lm), cover, loops[2].Persistence()))
+			for _, l := range loops {
+				cut = min(cut, l.Death)
+			}
+			split = min(split, cut)
+		}
+		if len(lm) < want && len(lm) < len(c.points) {
 			idx, cv, err := embed.Landmarks(c.points, want, seed)
 			if err != nil {
 				return bettiReading{}, err
 			}
 			lm, cover = pick(c.points, idx), cv
+			if main {
+				c.landmarkIdx, c.landmarks, c.cover = idx, lm, cv
+			}
 		}
 		opt.MaxDim = 2
-		// Cycles born after the components merge do not count, so a
-		// cloud of several components is computed up to that scale only:
-		// its components then stay apart as essential H0 bars.
-		split := merge
 		if !math.IsInf(split, 1) {
 			opt.Threshold = split
+		}
+		if !math.IsInf(cut, 1) && main {
+			// The circular coordinates need the cocycles of bars that
+			// end: they come from the H1 barcode to the cloud's radius.
+			h1 := opt
+			h1.MaxDim, h1.Threshold = 1, 0
+			if r.cocycles, err = rips.VietorisRipsContext(ctx, lm, h1); err != nil {
+				return bettiReading{}, err
+			}
+			opt.Cocycles = false
 		}
 		if dg, err = rips.VietorisRipsContext(ctx, lm, opt); err != nil {
 			return bettiReading{}, err
 		}
 		tau, eps, merge = threshold(dg.Bars, cover, c.noise)
 		merge = min(merge, split)
-		b = count(dg.Bars, tau, merge)
+		b = count(dg.Bars, tau, merge, cut)
 	}
-	br := bettiReading{betti: b, band: band(dg.Bars, tau)}
+	br := bettiReading{betti: b, band: band(dg.Bars, tau, cut)}
 	if main {
 		r.diagram, r.landmarks, r.eps, r.merge = dg, lm, eps, merge
 		p := &r.persistence
 		p.Threshold, p.CoverRadius, p.SamplingGap, p.NoiseScale = tau, cover, eps, c.noise
-		p.Bars = reportBars(dg.Bars, tau)
+		p.Bars = reportBars(dg.Bars, tau, cut)
+		if !math.IsInf(cut, 1) {
+			p.MaxScale = cut
+		}
 	}
 	return br, nil
 }
@@ -393,30 +515,56 @@ func kthLargest(v []float64, k int) float64 {
 // counts the H0 bars dying at or after it, and a bar of dimension ≥ 1
 // counts only when born before it: the homology of each component shows
 // while the components are apart, and cycles born as they join belong to
-// the space between them, not to the hull.
-func count(bars []rips.Bar, tau, merge float64) [3]int {
+// the space between them, not to the hull. A barcode read up to a finite
+// cut counts a bar of dimension ≥ 1 alive there by the persistence it has
+// reached at the cut (see cutPersistence).
+func count(bars []rips.Bar, tau, merge, cut float64) [3]int {
 	var b [3]int
 	for _, x := range bars {
 		switch {
 		case x.Dim == 0 && (x.Essential() || x.Death >= merge):
 			b[0]++
 		case x.Dim == 0:
-		case x.Dim <= 2 && x.Persistence() > tau && x.Birth < merge:
+		case x.Dim <= 2 && cutPersistence(x, cut) > tau && x.Birth < merge:
 			b[x.Dim]++
 		}
 	}
 	return b
 }
 
+// cutPersistence is the persistence of bar x of a barcode read up to scale
+// cut: its persistence, or for a bar still alive at a finite cut the
+// persistence it has reached there, cut − birth (a lower bound of its own).
+func cutPersistence(x rips.Bar, cut float64) float64 {
+	if x.Essential() && !math.IsInf(cut, 1) {
+		return cut - x.Birth
+	}
+	return x.Persistence()
+}
+
+// loopBars returns the k most persistent H1 bars longer than tau and born
+// before merge (fewer when there are fewer).
+func loopBars(bars []rips.Bar, tau, merge float64, k int) []rips.Bar {
+	var out []rips.Bar
+	for _, x := range bars {
+		if x.Dim == 1 && x.Persistence() > tau && x.Birth < merge {
+			out = append(out, x)
+		}
+	}
+	slices.SortStableFunc(out, rips.ComparePersistence)
+	return out[:min(k, len(out))]
+}
+
 // band returns the scales at which every significant bar of dimension ≥ 1
 // is alive: from the latest birth to the earliest death among them (nil
-// when there is none or they never overlap).
-func band(bars []rips.Bar, tau float64) []float64 {
+// when there is none or they never overlap). A barcode read up to a finite
+// cut has its bars alive there end at the cut.
+func band(bars []rips.Bar, tau, cut float64) []float64 {
 	lo, hi := 0.0, math.Inf(1)
 	any := false
 	for _, b := range bars {
-		if b.Dim >= 1 && b.Persistence() > tau {
-			lo, hi, any = math.Max(lo, b.Birth), math.Min(hi, b.Death), true
+		if b.Dim >= 1 && cutPersistence(b, cut) > tau {
+			lo, hi, any = math.Max(lo, b.Birth), math.Min(hi, math.Min(b.Death, cut)), true
 		}
 	}
 	if !any || !(hi > lo) || math.IsInf(hi, 1) {
@@ -427,7 +575,7 @@ func band(bars []rips.Bar, tau float64) []float64 {
 
 // reportBars lists the bars worth showing: every bar of dimension ≥ 1 and
 // the H0 bars above tau, sorted by dimension and then persistence.
-func reportBars(bars []rips.Bar, tau float64) []Bar {
+func reportBars(bars []rips.Bar, tau, cut float64) []Bar {
 	var out []Bar
 	var order []rips.Bar
 	for _, b := range bars {
@@ -437,7 +585,7 @@ func reportBars(bars []rips.Bar, tau float64) []Bar {
 	}
 	slices.SortStableFunc(order, rips.ComparePersistence)
 	for _, b := range order {
-		out = append(out, Bar{Bar: b, Significant: b.Persistence() > tau})
+		out = append(out, Bar{Bar: b, Significant: b.Dim >= 1 && cutPersistence(b, cut) > tau || b.Dim == 0 && b.Persistence() > tau})
 	}
 	if out == nil {
 		out = []Bar{}

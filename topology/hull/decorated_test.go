@@ -115,3 +115,33 @@ func TestCircleReadingThreeGaps(t *testing.T) {
 func generateTorus(t *testing.T, sites int, t1, t2, noise float64) *pattern.Pattern {
 	return generate(t, design.Spec{Family: "two-angle", Sites: sites, Theta: t1, Amp: 0.1, Theta2: t2, Amp2: 0.08, Noise: noise, Seed: 3})
 }
+
+// A torus modulated by θ1 and θ2, its two strongest lines, reports the
+// basis (θ1, θ2) folded and ascending (topology.ReduceBasis), within five
+// stated uncertainties; the design's angles are its closed form.
+func TestTorusReportsReducedBasis(t *testing.T) {
+	t1, t2 := math.Sqrt2-1, 2-math.Sqrt(3)
+	r := analyze(t, generateTorus(t, 2000, t1, t2, 0.005))
+	if r.Hull.Class != Torus {
+		t.Fatalf("class %s (%s), want torus", r.Hull.Class, r.Hull.Reason)
+	}
+	want := topology.CanonicalBasis([]float64{t1, t2})
+	for i, w := range want {
+		if math.Abs(r.Angles[i]-w) > 5*r.AngleUncertainty[i]+1e-9 {
+			t.Errorf("angles %v ± %v, want the generators %v", r.Angles, r.AngleUncertainty, want)
+			break
+		}
+	}
+}
+
+// A dimerised circle at 3% noise, whose two components blur together in
+// the H0 bars but not at the scale of the loop: the analysis must answer
+// (2 circles, or unresolved with the reason), not fail. The hull is 2
+// circles (see the decorated family).
+func TestBlurredComponentsAnswer(t *testing.T) {
+	p := generate(t, design.Spec{Family: "decorated", Sites: 2000, Cell: []float64{0.88, 1.12}, Theta: math.Sqrt2 - 1, Sin: []float64{0.1}, Phase: 0.13, Noise: 0.03, Seed: 1})
+	r := analyze(t, p)
+	if r.Hull.Class != Unresolved && (r.Hull.Class != Circle || r.Hull.Components != 2) {
+		t.Errorf("class %s with %d components (%s), want 2 circles or unresolved", r.Hull.Class, r.Hull.Components, r.Hull.Reason)
+	}
+}

@@ -54,9 +54,17 @@ type Result struct {
 
 	Hull Hull `json:"hull"`
 
-	// Angles are the effective step angles in turns, folded into [0, ½]:
-	// one for a circle, a canonical basis of two for a torus, none
-	// otherwise. AngleUncertainty holds one standard uncertainty each.
+	// Angles are the effective step angles in turns, folded into [0, ½]
+	// and ascending: one for a circle, a basis of the module
+	// Z + Zθ1 + … + Zθd for a d-torus, none otherwise. The basis of a
+	// torus is the reduced one (topology.ReduceBasis): the one in which
+	// the tones of the harmonic model of the positions, weighted by their
+	// fitted power, have the smallest integer coordinates (successive
+	// minima of an LLL-reduced lattice, ties broken by the smaller
+	// angles), so that a pattern modulated by θ1 and θ2 reports θ1 and θ2
+	// whichever basis the measurement first found. AngleUncertainty holds
+	// one standard uncertainty each, propagated through that unimodular
+	// change of basis as if the fitted angles' errors were independent.
 	Angles           []float64 `json:"angles"`
 	AngleUncertainty []float64 `json:"angle_uncertainty"`
 	// AngleMethod says how the angles were measured.
@@ -157,11 +165,17 @@ type Persistence struct {
 	// Threshold is the significance threshold τ on persistence, in
 	// whitened units, and what it is made of: the cover radius of the
 	// landmarks, the sampling gap of the trace (half the largest H0 death)
-	// and the noise scale (the longest bar no hull class explains).
+	// and the noise scale s (the root-mean-square displacement of a point
+	// of the cloud by the measured position noise).
 	Threshold   float64 `json:"threshold"`
 	CoverRadius float64 `json:"cover_radius"`
 	SamplingGap float64 `json:"sampling_gap"`
 	NoiseScale  float64 `json:"noise_scale"`
+	// MaxScale, when set, is the largest edge length the barcodes were
+	// computed to (a cloud that may be a three-torus is read up to the
+	// scale where its first loop closes): bars alive there are listed as
+	// essential and count with the persistence they have reached at it.
+	MaxScale float64 `json:"max_scale,omitempty"`
 	// Bars are the bars of dimension ≥ 1 (and H0 bars above the
 	// threshold), most persistent first per dimension; Significant marks
 	// those above Threshold.

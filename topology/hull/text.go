@@ -93,6 +93,9 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 		if len(h.ScaleBand) == 2 {
 			fmt.Fprintf(&b, "; Betti numbers hold on [%.3g, %.3g)", h.ScaleBand[0], h.ScaleBand[1])
 		}
+		if pr.MaxScale > 0 {
+			fmt.Fprintf(&b, "; computed up to scale %.4g", pr.MaxScale)
+		}
 		b.WriteString("\n")
 		shown := 0
 		for _, bar := range pr.Bars {
@@ -100,6 +103,9 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 				continue
 			}
 			death := "∞"
+			if pr.MaxScale > 0 {
+				death = fmt.Sprintf("past %.4g", pr.MaxScale)
+			}
 			if !bar.Essential() {
 				death = fmt.Sprintf("%.4g", bar.Death)
 			}

@@ -181,6 +181,32 @@ func decorated(cell []float64, theta, a, noise float64) Case {
 	return c
 }
 
+// decoratedAngles is a cell of spacings decorating the modulation
+// Σ_k a_k sin 2π(nθ_k+φ_k): p d-tori, p the cell's smallest period and d
+// the angles with a nonzero amplitude (the orbit of (n mod p, nθ_1, …)
+// is dense in Z_p × T^d; common practice); the module
+// (1/p)Z + Zθ_1 + … holds θ_k + j/p as well, and the comparison of angles
+// allows for it.
+func decoratedAngles(cell, thetas, amps []float64, noise float64) Case {
+	var angles []float64
+	for k, t := range thetas {
+		if amps[k] != 0 {
+			angles = append(angles, t)
+		}
+	}
+	c := Case{
+		Noise:       noise,
+		Spec:        design.Spec{Family: "decorated", Cell: cell, Thetas: thetas, Amps: amps, Phases: []float64{0.13, 0.71, 0.37}[:len(thetas)]},
+		Angles:      topology.CanonicalBasis(angles),
+		AngleSource: "θ_k of the construction, modulo 1/p",
+	}
+	c.setHull(cellPeriodOf(cell), len(angles))
+	if len(angles) == 0 {
+		c.Angles, c.AngleSource = nil, ""
+	}
+	return c
+}
+
 // multiAngle is x_n = n + Σ_k a_k sin 2π(nθ_k+φ_k): a d-torus for the d
 // angles with a nonzero amplitude, taken independent over the rationals
 // with 1 (Kronecker's theorem; common practice).
@@ -281,13 +307,16 @@ func Grid(cfg Config) ([]Case, error) {
 		c.Centroids = true
 		add(c, "circle/centroids/N500/σ1%")
 		// A slice of the issue-13 families: a dimerised circle, a small
-		// torus, a 3-torus, two short chains, the strong modulation.
+		// torus, a decorated torus, a 3-torus, two short chains, the strong modulation.
 		c = decorated(scaleToMean([]float64{0.88, 1.12}), sqrt2m1, 0.1, 0.01)
 		c.Spec.Sites, c.Spec.Noise = 2000, 0.01
 		add(c, "circle×2/dimer/N2000/σ1%")
 		c = twoAngle(sqrt2m1, 0.1, 2-math.Sqrt(3), 0.1, 0.01)
 		c.Spec.Sites, c.Spec.Noise = 300, 0.01
 		add(c, "torus/small/N300/σ1%")
+		c = decoratedAngles(scaleToMean([]float64{0.88, 1.12}), []float64{sqrt2m1, 2 - math.Sqrt(3)}, []float64{0.08, 0.06}, 0.01)
+		c.Spec.Sites, c.Spec.Noise = 2000, 0.01
+		add(c, "torus×2/cell2/N2000/σ1%")
 		c = multiAngle(threeAngles, []float64{0.1, 0.08, 0.06}, 0)
 		c.Spec.Sites = 5000
 		add(c, "torus3/N5000/σ0%")
@@ -405,6 +434,18 @@ func Grid(cfg Config) ([]Case, error) {
 		}
 	}
 
+	// Decorated tori: cells of p = 2, 3 spacings decorating two angles
+	// (√2−1, 2−√3), 2000 and 5000 sites, noise-free and at 1%.
+	for _, cell := range [][]float64{{0.88, 1.12}, {0.85, 1.1, 1.05}} {
+		for _, n := range []int{2000, 5000} {
+			for _, noise := range []float64{0, 0.01} {
+				c := decoratedAngles(scaleToMean(cell), []float64{sqrt2m1, 2 - math.Sqrt(3)}, []float64{0.08, 0.06}, noise)
+				c.Spec.Sites, c.Spec.Noise = n, noise
+				add(c, fmt.Sprintf("%s/cell%d/N%d/%s", label(c.Class, c.Period, c.Components), len(cell), n, noiseLabel(noise)))
+			}
+		}
+	}
+
 	// Tori on a few hundred sites, the angles of the issue (√2−1, 2−√3).
 	for _, n := range []int{200, 300, 500, 800} {
 		for _, noise := range []float64{0, 0.005, 0.01} {
@@ -414,11 +455,13 @@ func Grid(cfg Config) ([]Case, error) {
 		}
 	}
 
-	// 3-tori of 5000 sites.
-	for _, noise := range []float64{0, 0.005} {
-		c := multiAngle(threeAngles, []float64{0.1, 0.08, 0.06}, noise)
-		c.Spec.Sites, c.Spec.Noise = 5000, noise
-		add(c, fmt.Sprintf("torus3/N5000/%s", noiseLabel(noise)))
+	// 3-tori of 5000 and 20000 sites.
+	for _, n := range []int{5000, 20000} {
+		for _, noise := range []float64{0, 0.005, 0.01} {
+			c := multiAngle(threeAngles, []float64{0.1, 0.08, 0.06}, noise)
+			c.Spec.Sites, c.Spec.Noise = n, noise
+			add(c, fmt.Sprintf("torus3/N%d/%s", n, noiseLabel(noise)))
+		}
 	}
 
 	// Short chains of every class a fabricated sample may have.

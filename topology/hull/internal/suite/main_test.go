@@ -271,7 +271,7 @@ func TestHullOf(t *testing.T) {
 			t.Errorf("%s: %d components for a cell of period %d", c.Name, c.Components, cellPeriodOf(c.Spec.Cell))
 		}
 	}
-	for _, l := range []string{"circle×2", "circle×3", "circle×4", "torus3"} {
+	for _, l := range []string{"circle×2", "circle×3", "circle×4", "torus×2", "torus×3", "torus3"} {
 		if count[l] == 0 {
 			t.Errorf("no case of %s in the full grid", l)
 		}
@@ -298,6 +298,15 @@ func TestDecidingSites(t *testing.T) {
 	} {
 		if got := decidingSites(c.c); got != c.want {
 			t.Errorf("%s: deciding size %d, want %d", c.c.Name, got, c.want)
+		}
+	}
+	// A cell decorating two angles decides where its cell and its weaker
+	// line both do: where the same cell decorating that line alone does.
+	for _, noise := range []float64{0, 0.01, 0.1} {
+		two := decoratedAngles(scaleToMean([]float64{0.88, 1.12}), []float64{sqrt2m1, 2 - math.Sqrt(3)}, []float64{0.08, 0.06}, noise)
+		one := decorated(scaleToMean([]float64{0.88, 1.12}), sqrt2m1, 0.06, noise)
+		if a, b := decidingSites(two), decidingSites(one); a != b || a >= 1_000_000 {
+			t.Errorf("σ = %g: a cell decorating two angles decides at %d sites, the cell with the weaker line alone at %d", noise, a, b)
 		}
 	}
 	// A line of amplitude 0.1 under 3% noise decides where

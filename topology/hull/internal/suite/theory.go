@@ -165,8 +165,18 @@ func decidable(c Case, n int) bool {
 		}
 		return lineDetected(n, strongest(append(slices.Clone(s.Sin), s.Cos...)...), sigma)
 	case "decorated":
-		return cellResolved(n, s.Cell[:cellPeriodOf(s.Cell)], sigma) &&
-			lineDetected(n, strongest(append(slices.Clone(s.Sin), s.Cos...)...), sigma)
+		if !cellResolved(n, s.Cell[:cellPeriodOf(s.Cell)], sigma) {
+			return false
+		}
+		if len(s.Thetas) > 0 { // several angles: every one's line
+			for _, a := range s.Amps {
+				if a != 0 && !lineDetected(n, math.Abs(a), sigma) {
+					return false
+				}
+			}
+			return true
+		}
+		return lineDetected(n, strongest(append(slices.Clone(s.Sin), s.Cos...)...), sigma)
 	case "two-angle":
 		return lineDetected(n, math.Abs(s.Amp), sigma) && lineDetected(n, math.Abs(s.Amp2), sigma)
 	case "multi-angle":
