@@ -8,6 +8,8 @@ import (
 
 	"phasonhull/cmd/phasonhull/internal/flagval"
 	"phasonhull/cmd/phasonhull/internal/outfile"
+	"phasonhull/pattern"
+	"phasonhull/pattern/lattice"
 	"phasonhull/topology/hull"
 )
 
@@ -50,12 +52,22 @@ integrated density of states in any spectral gap of a pattern-equivariant
 operator on this chain takes one of these values. They say where gaps may
 open, not that they do.
 
+A plate — x,y centroids that do not lie along a line — is read on its
+average lattice (basis with uncertainties, missing and stray sites): the
+hull of the displacement field, read from patches of --window × --window
+lattice steps, and the rotation matrix A (turns per lattice step) with its
+uncertainties; its gap labels form Z + Σ Z·A_ij + Z·det A, the coefficient
+of det A a second Chern number. A plate with no average lattice is
+disordered. --plot draws its sites with their displacements and its
+structure factor.
+
 --json prints one object (schema phasonhull.analysis/1, documented in the
 README).`,
 		Example: `  phasonhull analyze testdata/demo/lw0412_cmm.csv
   phasonhull analyze sample.csv --json > sample.analysis.json
   phasonhull generate modulated --sites 600 --theta 0.4142136 --amp 0.1 | phasonhull analyze -
-  phasonhull analyze word.txt --tiles A=1,B=1.618`,
+  phasonhull analyze word.txt --tiles A=1,B=1.618
+  phasonhull analyze testdata/demo/lw0519_plate.csv --plot figures/`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runAnalyze(cmd, args[0], &f)
@@ -63,7 +75,7 @@ README).`,
 	}
 	fs := cmd.Flags()
 	f.in.register(fs)
-	fs.IntVar(&f.opt.Window, "window", 0, "delay window (0: choose it from the data)")
+	fs.IntVar(&f.opt.Window, "window", 0, "delay window of a chain, side of the patches of a plate in lattice steps (0: choose it)")
 	fs.IntVar(&f.opt.Landmarks, "landmarks", hull.DefaultLandmarks, "landmarks for the barcodes")
 	fs.IntVar(&f.opt.Subsamples, "subsamples", hull.DefaultSubsamples, "landmark subsamples whose Betti numbers must agree")
 	fs.IntVar(&f.opt.MaxCoeff, "max-coeff", hull.DefaultMaxCoeff, "largest |m| of the listed gap labels")
@@ -88,7 +100,7 @@ func classList() string {
 }
 
 func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
-	p, err := f.in.load(path, cmd.InOrStdin())
+	sites, err := f.in.loadSites(path, cmd.InOrStdin())
 	if err != nil {
 		return err
 	}
@@ -96,8 +108,12 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 		return err
 	}
 	opt := f.opt
-	if opt.Noise, err = noiseFraction(f.noise, p); err != nil {
-		return err
+	if p := sites.Chain; p != nil {
+		if opt.Noise, err = noiseFraction(f.noise, p); err != nil {
+			return err
+		}
+	} else if cmd.Flags().Changed("noise") {
+		return fmt.Errorf("--noise: %s is a plate, whose noise is measured from its displacement field; --noise applies to chains", sites.Plane.Source)
 	}
 	if f.memory != "" {
 		if opt.MemoryBudget, err = flagval.ParseBytes(f.memory); err != nil {
@@ -106,14 +122,14 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 	}
 	progress := progressOf(cmd)
 	defer progress.Close()
-	progress.Stage(fmt.Sprintf("analysing %s (%d sites)", p.Source, p.Len()))
-	res, err := hull.AnalyzeContext(cmd.Context(), p, opt)
+	progress.Stage(fmt.Sprintf("analysing %s", sitesName(sites)))
+	res, l, err := hull.AnalyzeSites(cmd.Context(), sites, lattice.Options{}, opt)
 	if err != nil {
 		return err
 	}
 	progress.Stage("drawing the figures")
 	f.plot.list = listTo(cmd)
-	if err := f.plot.writeAnalysis(cmd.ErrOrStderr(), res); err != nil {
+	if err := f.plot.writeAnalysis(cmd.ErrOrStderr(), res, sites.Plane, l); err != nil {
 		return err
 	}
 	progress.Close()
@@ -122,4 +138,12 @@ func runAnalyze(cmd *cobra.Command, path string, f *analyzeFlags) error {
 		return writeJSON(out, res)
 	}
 	return res.WriteText(out, f.allLabels)
+}
+
+// sitesName names what was read, for the progress line.
+func sitesName(s pattern.Sites) string {
+	if s.Plane != nil {
+		return fmt.Sprintf("%s (%d sites on a plane)", s.Plane.Source, s.Plane.Len())
+	}
+	return fmt.Sprintf("%s (%d sites)", s.Chain.Source, s.Chain.Len())
 }

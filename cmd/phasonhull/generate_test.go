@@ -162,3 +162,67 @@ func TestGenerateExamples(t *testing.T) {
 		}
 	}
 }
+
+// TestGeneratePlate: for a plate family the command writes what
+// design.GeneratePlane and pattern.WritePlane produce, ReadSites reads it
+// back as the same plane bit for bit, and its "# spec:" line and
+// --print-spec give the design back; lengths take their unit.
+func TestGeneratePlate(t *testing.T) {
+	args := []string{"generate", "twisted", "--twist", "13.2", "--scale", "0.618034", "--amp", "40nm", "--spacing", "1.2", "--unit", "um",
+		"--sites", "12", "--noise", "1%", "--missing", "0.02", "--extra", "0.01", "--seed", "4"}
+	code, out, stderr := runCmd(args...)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	s := design.NewSpec(design.Twisted)
+	s.Sites, s.Twist, s.Scale, s.Amp, s.Spacing, s.Unit, s.Noise, s.Missing, s.Extra, s.Seed = 12, 13.2, 0.618034, 0.04, 1.2, "um", 0.012, 0.02, 0.01, 4
+	p, err := design.GeneratePlane(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want bytes.Buffer
+	if err := pattern.WritePlane(&want, p, s.Comments()); err != nil {
+		t.Fatal(err)
+	}
+	if out != want.String() {
+		t.Fatalf("command output differs from design.GeneratePlane + WritePlane:\n%.400s\nwant\n%.400s", out, want.String())
+	}
+	sites, err := pattern.ReadSites(strings.NewReader(out), "out.csv", pattern.ReadOptions{})
+	if err != nil || sites.Plane == nil {
+		t.Fatalf("read back: %v (chain %v)", err, sites.Chain != nil)
+	}
+	q := sites.Plane
+	if q.Len() != p.Len() || q.Unit != "um" {
+		t.Fatalf("read back %d sites in %q, generated %d", q.Len(), q.Unit, p.Len())
+	}
+	for i := range p.Points {
+		if p.Points[i] != q.Points[i] {
+			t.Fatalf("site %d read back as %v, generated %v", i, q.Points[i], p.Points[i])
+		}
+	}
+	// The file's "# spec:" line holds the design, and so does the printed spec.
+	_, line, _ := strings.Cut(out, "# spec: ")
+	line, _, _ = strings.Cut(line, "\n")
+	spec, err := design.ReadSpec(strings.NewReader(line), "spec line")
+	if err != nil {
+		t.Fatalf("the spec line of the written file: %v", err)
+	}
+	// A = s·R(twist): A21 = s·sin(twist) (common practice: the rotation matrix).
+	if got := spec.Rotation(); len(got) != 2 || math.Abs(got[1][0]-0.618034*math.Sin(13.2*math.Pi/180)) > 1e-12 {
+		t.Errorf("the file's spec has A = %v", got)
+	}
+	dir := t.TempDir()
+	printed := filepath.Join(dir, "plate.json")
+	if code, _, stderr := runCmd(append(args, "--print-spec", "--out", printed)...); code != exitOK {
+		t.Fatalf("--print-spec: exit %d: %s", code, stderr)
+	}
+	if _, again, _ := runCmd("generate", "--spec", printed); again != out {
+		t.Errorf("generate --spec of the printed spec differs from the flags' output")
+	}
+	// Flags of the chain families are refused for a plate, and a drift.
+	for _, bad := range [][]string{{"generate", "plate", "--theta", "0.3"}, {"generate", "twisted", "--twist", "10", "--drift", "0.01"}, {"generate", "plate", "--rotation", "0.3"}} {
+		if code, _, _ := runCmd(bad...); code != exitInput {
+			t.Errorf("%v: exit %d, want %d", bad, code, exitInput)
+		}
+	}
+}

@@ -12,6 +12,8 @@ import (
 	"phasonhull/cmd/phasonhull/internal/outfile"
 	"phasonhull/cmd/phasonhull/internal/picture"
 	"phasonhull/cmd/phasonhull/internal/report"
+	"phasonhull/pattern"
+	"phasonhull/pattern/lattice"
 	"phasonhull/topology/audit"
 	"phasonhull/topology/hull"
 	"phasonhull/topology/spectrum"
@@ -55,14 +57,15 @@ func (f *plotFlags) writeSpectrum(stderr io.Writer, r *spectrum.Result, source, 
 	return f.write([]*picture.Picture{p})
 }
 
-// writeAnalysis writes the figures of a hull result, when --plot is set.
-// A result with nothing to draw is said so on stderr, not refused: the
-// analysis itself succeeded.
-func (f *plotFlags) writeAnalysis(stderr io.Writer, r *hull.Result) error {
+// writeAnalysis writes the figures of a hull result (picture.Figures:
+// of a plate when plane is not nil), when --plot is set. A result with
+// nothing to draw is said so on stderr, not refused: the analysis itself
+// succeeded.
+func (f *plotFlags) writeAnalysis(stderr io.Writer, r *hull.Result, plane *pattern.Plane, l *lattice.Lattice) error {
 	if f.dir == "" {
 		return nil
 	}
-	pics, err := picture.Analysis(r)
+	pics, err := picture.Figures(r, plane, l)
 	if errors.Is(err, picture.ErrNoTrace) {
 		fmt.Fprintf(stderr, "phasonhull: --plot: no figure written: %v\n", err)
 		return nil
@@ -173,9 +176,12 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	p, err := f.in.load(path, cmd.InOrStdin())
+	sites, err := f.in.loadSites(path, cmd.InOrStdin())
 	if err != nil {
 		return err
+	}
+	if sites.Plane != nil && f.audit.designPath != "" {
+		return fmt.Errorf("--design: %s is a plate; report audits chains only, analyse the plate without --design", sites.Plane.Source)
 	}
 	progress := progressOf(cmd)
 	defer progress.Close()
@@ -183,14 +189,16 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	progress.Stage(fmt.Sprintf("analysing %s (%d sites)", p.Source, p.Len()))
+	progress.Stage("analysing " + sitesName(sites))
 	var page report.Page
 	var res *hull.Result
+	var l *lattice.Lattice
 	if d == nil {
-		if res, err = hull.AnalyzeContext(cmd.Context(), p, opt.Hull); err != nil {
+		if res, l, err = hull.AnalyzeSites(cmd.Context(), sites, lattice.Options{}, opt.Hull); err != nil {
 			return err
 		}
 	} else {
+		p := sites.Chain
 		rep, err := audit.Run(cmd.Context(), d, p, opt)
 		if err != nil {
 			return err
@@ -222,8 +230,7 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	page.Analysis = res
 	page.Files = append([]report.File{{Name: report.AnalysisFile, Data: js}}, page.Files...)
 	progress.Stage("drawing the figures")
-	pics, err := picture.Analysis(res)
-	if err == nil {
+	if pics, err := picture.Figures(res, sites.Plane, l); err == nil {
 		figs := page.Figures
 		page.Figures = nil
 		for _, pic := range pics {

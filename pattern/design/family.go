@@ -215,11 +215,11 @@ func (f Family) Dimension() int {
 	return max(fam.dim, 1)
 }
 
-// FamilyNames returns the names of the design families of chains joined
-// by ", ", for messages and help texts.
+// FamilyNames returns the names of the design families, those of chains
+// and then those of plates, joined by ", ", for messages and help texts.
 func FamilyNames() string {
 	var b strings.Builder
-	for i, f := range Families() {
+	for i, f := range append(Families(), PlaneFamilies()...) {
 		if i > 0 {
 			b.WriteString(", ")
 		}

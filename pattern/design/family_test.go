@@ -23,7 +23,7 @@ func TestFamilyTable(t *testing.T) {
 			t.Errorf("%s: phase parameter %q does not match its field or is not a parameter of the family", f.name, f.phase)
 		}
 	}
-	if got := FamilyNames(); got != "periodic, modulated, decorated, loop, circle-map, two-angle, multi-angle, sturmian, substitution, random" {
+	if got := FamilyNames(); got != "periodic, modulated, decorated, loop, circle-map, two-angle, multi-angle, sturmian, substitution, random, plate, twisted" {
 		t.Errorf("FamilyNames() = %q", got)
 	}
 	if Family("helix").Help() != "" || Family("helix").PhaseParam() != "" {

@@ -34,10 +34,13 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	if unit == "" {
 		unit = "(no unit)"
 	}
-	if r.Dimension == 2 {
+	switch {
+	case r.Dimension == 2 && r.Lattice == nil:
+		fmt.Fprintf(&b, "pattern     %s: %d sites on a plane (%s), no average lattice\n", r.Source, r.Sites, unit)
+	case r.Dimension == 2:
 		fmt.Fprintf(&b, "pattern     %s: %d sites on a plane, lattice spacing |a1| = %.6g %s\n", r.Source, r.Sites, r.MeanSpacing, unit)
 		r.writeLattice(&b)
-	} else {
+	default:
 		fmt.Fprintf(&b, "pattern     %s: %d sites, mean spacing %.6g %s\n", r.Source, r.Sites, r.MeanSpacing, unit)
 	}
 	h := r.Hull
@@ -71,15 +74,20 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	r.writeDisorder(&b)
 	r.writeLabels(&b, allLabels)
 	e := r.Embedding
-	if r.Dimension == 2 {
+	switch {
+	case r.Dimension == 2 && r.Lattice == nil:
+		// No lattice, no patches: nothing was embedded.
+	case r.Dimension == 2:
 		fmt.Fprintf(&b, "embedding   patches of %d×%d lattice steps, %d component(s), %d vectors", e.Window, e.Window, e.Components, e.Vectors)
-	} else {
+	default:
 		fmt.Fprintf(&b, "embedding   window %d, %d component(s), %d vectors", e.Window, e.Components, e.Vectors)
 	}
-	if e.Excluded > 0 {
-		fmt.Fprintf(&b, " (%d left out)", e.Excluded)
+	if r.Dimension != 2 || r.Lattice != nil {
+		if e.Excluded > 0 {
+			fmt.Fprintf(&b, " (%d left out)", e.Excluded)
+		}
+		fmt.Fprintf(&b, ", %d landmarks, cover radius %.3g\n", e.Landmarks, e.CoverRadius)
 	}
-	fmt.Fprintf(&b, ", %d landmarks, cover radius %.3g\n", e.Landmarks, e.CoverRadius)
 	if pr := r.Persistence; pr.Threshold > 0 || len(pr.Bars) > 0 {
 		fmt.Fprintf(&b, "barcodes    significance threshold %.3g (whitened units)", pr.Threshold)
 		if len(h.ScaleBand) == 2 {

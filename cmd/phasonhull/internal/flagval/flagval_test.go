@@ -68,6 +68,30 @@ func TestParseBytes(t *testing.T) {
 	}
 }
 
+// A matrix flag collects rows from one value ("a,b;c,d") or from repeated
+// uses, and refuses a row of the wrong width or a word.
+func TestRows(t *testing.T) {
+	m := [][]float64{{9, 9}}
+	v := NewRows(&m, 2)
+	if err := v.Set("0.25,0; 0,0.5"); err != nil {
+		t.Fatal(err)
+	}
+	if err := v.Set("1,-2"); err != nil {
+		t.Fatal(err)
+	}
+	if len(m) != 3 || !slices.Equal(m[0], []float64{0.25, 0}) || !slices.Equal(m[2], []float64{1, -2}) {
+		t.Errorf("rows %v", m)
+	}
+	if v.String() != "0.25,0;0,0.5;1,-2" {
+		t.Errorf("String() = %q", v.String())
+	}
+	for _, bad := range []string{"1", "1,2,3", "a,1", "1,2;"} {
+		if err := v.Set(bad); err == nil {
+			t.Errorf("Set(%q) accepted", bad)
+		}
+	}
+}
+
 // A grid START:STOP:COUNT spaces COUNT lengths evenly, both ends included,
 // the unit of one end applying to the other; a list stays a list.
 func TestLengthGrid(t *testing.T) {

@@ -139,12 +139,23 @@ func Projections(r *hull.Result) (*Picture, error) {
 		Name:   "hull-projections",
 		Width:  6 * vg.Inch,
 		Height: max(h, 2.6*vg.Inch) + 1.3*vg.Inch,
-		title: fmt.Sprintf("%s — %s hull: %d delay vectors, window %d, axes in whitened units",
-			filepath.Base(r.Source), r.Hull.Class, len(tr.Cloud), r.Embedding.Window),
+		title:  projectionsTitle(r),
 		panels: rows,
 		key:    key,
 		Caption: "Pairwise projections of the first whitened delay components; colour is the circular coordinate, keyed by the colour wheel " +
 			"(a closed loop of colours: a hull that is a circle shows the colours in order around it), rings mark the landmarks.",
 	}
 	return pic, nil
+}
+
+// projectionsTitle names the cloud drawn: delay vectors of a chain, patch
+// vectors of a plate.
+func projectionsTitle(r *hull.Result) string {
+	w := r.Embedding.Window
+	if r.Dimension == 2 {
+		return fmt.Sprintf("%s — %s hull: %d patches of %d×%d lattice steps, axes in whitened units",
+			filepath.Base(r.Source), r.Hull.Class, len(r.Trace.Cloud), w, w)
+	}
+	return fmt.Sprintf("%s — %s hull: %d delay vectors, window %d, axes in whitened units",
+		filepath.Base(r.Source), r.Hull.Class, len(r.Trace.Cloud), w)
 }

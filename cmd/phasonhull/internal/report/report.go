@@ -168,7 +168,21 @@ func view(p *Page) viewModel {
 	if unit == "" {
 		unit = "(no unit)"
 	}
-	add("sample", fmt.Sprintf("%s: %d sites, mean spacing %.6g %s", r.Source, r.Sites, r.MeanSpacing, unit))
+	plate := r.Dimension == 2
+	switch {
+	case plate && r.Lattice == nil:
+		add("sample", fmt.Sprintf("%s: %d sites on a plane (%s), no average lattice", r.Source, r.Sites, unit))
+	case plate:
+		l := r.Lattice
+		vec := func(i int) string {
+			return fmt.Sprintf("(%s, %s)", notation.PlusMinus(l.Basis[i][0], l.BasisUncertainty[i][0]), notation.PlusMinus(l.Basis[i][1], l.BasisUncertainty[i][1]))
+		}
+		add("sample", fmt.Sprintf("%s: %d sites on a plane", r.Source, r.Sites))
+		add("lattice", fmt.Sprintf("a1 = %s, a2 = %s %s (one standard uncertainty); %d sites on it, %d lattice points missing, %d sites off it",
+			vec(0), vec(1), unit, l.Sites, l.Missing, l.OffLattice))
+	default:
+		add("sample", fmt.Sprintf("%s: %d sites, mean spacing %.6g %s", r.Source, r.Sites, r.MeanSpacing, unit))
+	}
 	class := string(r.Hull.Class)
 	if r.Hull.Period > 0 {
 		class += fmt.Sprintf(", period %d", r.Hull.Period)
@@ -197,6 +211,28 @@ func view(p *Page) viewModel {
 		}
 		add(name, fmt.Sprintf("%s turns (one standard uncertainty; folded into [0, ½])", notation.PlusMinus(a, r.AngleUncertainty[i])))
 	}
+	if len(r.Rotation) > 0 {
+		rows := make([]string, len(r.Rotation))
+		for k, row := range r.Rotation {
+			cells := make([]string, len(row))
+			for j, a := range row {
+				u := 0.0
+				if k < len(r.RotationUncertainty) && j < len(r.RotationUncertainty[k]) {
+					u = r.RotationUncertainty[k][j]
+				}
+				cells[j] = notation.PlusMinus(a, u)
+			}
+			rows[k] = "(" + strings.Join(cells, ", ") + ")"
+		}
+		add("rotation A", fmt.Sprintf("%s turns per lattice step (rows: torus coordinates; columns: a1, a2; one standard uncertainty), reduced: any V·A·U + N with V, U invertible over Z and N integer is the same hull", strings.Join(rows, "; ")))
+	}
+	if plate && len(r.Rotation) > 0 {
+		gens := "not resolved (see the warnings)"
+		if len(r.GapLabels.Generators) > 1 {
+			gens = floatList(r.GapLabels.Generators) + ", reduced over Z"
+		}
+		add("gap-label group", fmt.Sprintf("Z + Σ Z·A_ij%s; generators %s", detNote(len(r.Rotation)), gens))
+	}
 	if r.AngleMethod != "" {
 		add("angle method", r.AngleMethod)
 	}
@@ -212,9 +248,17 @@ func view(p *Page) viewModel {
 		add("disorder", line)
 	}
 	e := r.Embedding
-	add("embedding", fmt.Sprintf("window %d (chosen %d), %d component(s), %d vectors, %d landmarks", e.Window, e.ChosenWindow, e.Components, e.Vectors, e.Landmarks))
-	add("threshold τ", fmt.Sprintf("%.3g whitened units (cover radius %.3g, sampling gap %.3g, noise scale %.3g)",
-		r.Persistence.Threshold, r.Persistence.CoverRadius, r.Persistence.SamplingGap, r.Persistence.NoiseScale))
+	switch {
+	case plate && r.Lattice == nil:
+	case plate:
+		add("embedding", fmt.Sprintf("patches of %d×%d lattice steps, %d component(s), %d vectors, %d landmarks", e.Window, e.Window, e.Components, e.Vectors, e.Landmarks))
+	default:
+		add("embedding", fmt.Sprintf("window %d (chosen %d), %d component(s), %d vectors, %d landmarks", e.Window, e.ChosenWindow, e.Components, e.Vectors, e.Landmarks))
+	}
+	if !plate || r.Lattice != nil {
+		add("threshold τ", fmt.Sprintf("%.3g whitened units (cover radius %.3g, sampling gap %.3g, noise scale %.3g)",
+			r.Persistence.Threshold, r.Persistence.CoverRadius, r.Persistence.SamplingGap, r.Persistence.NoiseScale))
+	}
 	// Lowest order first, each IDS to the digits its uncertainty
 	// justifies, as the text lists them.
 	for i, l := range r.ListLabels() {
@@ -238,6 +282,26 @@ func view(p *Page) viewModel {
 	}
 	v.Cautions = cautions
 	return v
+}
+
+// floatList writes numbers as "1, 0.25, 0.3819660".
+func floatList(v []float64) string {
+	parts := make([]string, len(v))
+	for i, x := range v {
+		parts[i] = strconv.FormatFloat(x, 'g', 10, 64)
+	}
+	return strings.Join(parts, ", ")
+}
+
+// detNote writes the terms of a plate's label group beyond the entries of A.
+func detNote(d int) string {
+	switch d {
+	case 2:
+		return " + Z·det A (the coefficient of det A in a label is a second Chern number)"
+	case 3:
+		return " + Σ Z·(2×2 minors of A)"
+	}
+	return ""
 }
 
 // cautions are the notes on reading the statistical figures of the page.
