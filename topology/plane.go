@@ -36,7 +36,10 @@ const maxPlaneLabels = 20000
 // (A11 = A22, A12 = −A21) gives 1, A11, A12 and det A. The result starts
 // with 1; a rational part (1/q)Z with q > 1 follows as 1/q; then the
 // independent generators, each in [0, 1/(2q)]. A label is IDS = c_0 +
-// Σ c_i·g_i over the generators g_i after 1.
+// Σ c_i·g_i over the generators g_i after 1. When eps is too coarse to
+// test a number for a relation with the ones before it, the rank is not
+// established: the generators are returned with an error wrapping
+// ErrPrecision, and the caller must say so beside any label listed.
 func PlaneGenerators(A [][]float64, eps float64) ([]float64, error) {
 	d := len(A)
 	if d > 3 {
@@ -74,7 +77,18 @@ func PlaneGenerators(A [][]float64, eps float64) ([]float64, error) {
 	if m.Denominator > 1 {
 		out = append(out, m.Basis[0])
 	}
-	return append(out, m.Basis[1:]...), nil
+	out = append(out, m.Basis[1:]...)
+	// A number that could not be tested for a relation with the ones before
+	// it (coefficient bound 0: at this precision even a relation with
+	// coefficients ±1 would turn up by chance) raised the rank whether or
+	// not it is independent: the generators are returned, but the rank is
+	// not established, and two labels of the list may be one gap.
+	for i, b := range m.Bounds {
+		if b < 1 {
+			return out, fmt.Errorf("plane generators: %w: number %d of %d (the entries of A, then its minors) could not be tested for an integer relation with the ones before it at the error bound %.2g, so the rank of the group is an upper bound: labels closer together than that bound may be one gap", ErrPrecision, i+1, len(x), eps*math.Max(1, 4*big))
+		}
+	}
+	return out, nil
 }
 
 // PlaneLabels lists the gap labels of the group that generators (as

@@ -744,7 +744,9 @@ func (a *planeAnalysis) labels() {
 			}
 		}
 		gens, err := topology.PlaneGenerators(a.res.Rotation, eps)
-		if err != nil {
+		if errors.Is(err, topology.ErrPrecision) && gens != nil {
+			a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the rank of the gap-label group is not established: %v; more sites or less noise would establish it", err))
+		} else if err != nil {
 			a.res.Warnings = append(a.res.Warnings, fmt.Sprintf("the gap-label group is not resolved: %v; more sites or less noise would resolve it", err))
 			return
 		}

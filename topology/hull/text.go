@@ -225,6 +225,8 @@ func (r *Result) writeDisorder(b *strings.Builder) {
 func (r *Result) writeLabels(b *strings.Builder, all bool) {
 	h, g := r.Hull, r.GapLabels
 	switch {
+	case r.Dimension == 2 && len(r.Rotation) > 0 && h.Class != Finite && len(g.Generators) < 2:
+		fmt.Fprintf(b, "gap labels  %s: not resolved (see the warnings)\n", planeGroup(len(r.Rotation)))
 	case r.Dimension == 2 && len(r.Rotation) > 0 && h.Class != Finite:
 		fmt.Fprintf(b, "gap labels  %s, reduced over Z to the generators %s: IDS = c0 + Σ c_i·g_i in (0, 1), |c_i| ≤ %d (%d labels, lowest order first)\n", planeGroup(len(r.Rotation)), floats(g.Generators[1:]), g.MaxCoeff, len(g.Labels))
 	case h.Class == Finite:
