@@ -192,6 +192,7 @@ var killCases = map[string]killCase{
 	"audit --plot":     {args: []string{"audit", "--design", "design.json", "in.csv", "--plot", "figs"}, target: "figs"},
 	"batch --out":      {args: []string{"batch", "in.csv", "--out", "out.csv"}, target: "out.csv"},
 	"batch --out-json": {args: []string{"batch", "in.csv", "--out", "out.csv", "--out-json", "out.json"}, target: "out.json", later: true},
+	"budget --plot":    {args: []string{"budget", "--design", "design.json", "--hopping", "exp", "--decay", "3", "--trials", "4", "--hull-trials", "0", "--edge-trials", "0", "--sigma", "0,0.05", "--plot", "figs"}, target: "figs"},
 	"report --out":     {args: []string{"report", "in.csv", "--design", "design.json", "--out", "rep"}, target: "rep"},
 }
 

@@ -5,6 +5,7 @@ import (
 	"phasonhull/cmd/phasonhull/internal/buildinfo"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 )
 
 // newRootCmd builds the command tree. Each command is built by a function
@@ -45,7 +46,23 @@ homology.`,
 		newBatchCmd(),
 		newSpectrumCmd(),
 		newReportCmd(),
+		newBudgetCmd(),
 	// commands are added here as they land
 	)
+	emptyListsShowNoDefault(root)
 	return root
+}
+
+// emptyListsShowNoDefault clears the default text of list flags whose
+// default is the empty list, so that help does not end their line with
+// "(default [])".
+func emptyListsShowNoDefault(c *cobra.Command) {
+	c.Flags().VisitAll(func(f *pflag.Flag) {
+		if f.DefValue == "[]" {
+			f.DefValue = ""
+		}
+	})
+	for _, sub := range c.Commands() {
+		emptyListsShowNoDefault(sub)
+	}
 }

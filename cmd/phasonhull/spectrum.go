@@ -12,6 +12,7 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"phasonhull/pattern"
 	"phasonhull/pattern/design"
@@ -60,6 +61,20 @@ func (f *spectrumFlags) register(cmd *cobra.Command) {
 	fs.StringVar(&f.eigenvalues, "eigenvalues", "", "analyse measured levels from `FILE` (one per line: frequencies, ω² or energies) instead of an operator")
 	fs.StringVar(&f.patternFile, "pattern", "", "with --eigenvalues: recover the angle(s) for the labels from this pattern `FILE`")
 
+	f.registerOperator(fs)
+
+	fs.BoolVar(&f.edgeModes, "edge-modes", false, "with --design: sweep the design's phase through one turn and count boundary states crossing the widest gaps")
+	fs.IntVar(&f.samples, "samples", spectrum.DefaultSamples, "with --edge-modes: phases of the first pass over the turn")
+	fs.IntVar(&f.edgeGaps, "edge-gaps", spectrum.DefaultEdgeGaps, "with --edge-modes: number of widest gaps followed")
+	fs.StringVar(&f.thetaGrid, "theta-grid", "", "with --design: the spectrum over `START:STOP:COUNT` values of θ, as CSV rows theta,eigenvalue,ids")
+
+	fs.BoolVar(&f.json, "json", false, "print the report as one JSON object")
+	fs.StringVarP(&f.out, "out", "o", "", "write the levels (or the staircase, or the θ scan) as CSV to `FILE` (nothing is written on error)")
+}
+
+// registerOperator registers the flags that describe the operator and its
+// labels, which budget shares.
+func (f *spectrumFlags) registerOperator(fs *pflag.FlagSet) {
 	fs.StringVar(&f.model, "model", string(spectrum.Hopping), "operator: hopping (tight binding, eigenvalues are energies) or springs (unit masses, eigenvalues are ω²)")
 	fs.StringVar(&f.law, "hopping", "exp", "coupling law of hoppings or springs: exp, power or table")
 	fs.Float64Var(&f.t0, "t0", 1, "coupling at the mean spacing d̄ (exp and power laws)")
@@ -80,14 +95,6 @@ func (f *spectrumFlags) register(cmd *cobra.Command) {
 	fs.IntVar(&f.period, "period", 0, "label the gaps k/p of a periodic chain with p sites per cell")
 	fs.IntVar(&f.maxCoeff, "max-coeff", spectrum.DefaultMaxCoeff, "largest |m| of the labels tried")
 	fs.Float64Var(&f.minGap, "min-gap", 0, "smallest gap reported, relative to the width of the spectrum (0: the larger of 0.001 and 4 mean level spacings)")
-
-	fs.BoolVar(&f.edgeModes, "edge-modes", false, "with --design: sweep the design's phase through one turn and count boundary states crossing the widest gaps")
-	fs.IntVar(&f.samples, "samples", spectrum.DefaultSamples, "with --edge-modes: phases of the first pass over the turn")
-	fs.IntVar(&f.edgeGaps, "edge-gaps", spectrum.DefaultEdgeGaps, "with --edge-modes: number of widest gaps followed")
-	fs.StringVar(&f.thetaGrid, "theta-grid", "", "with --design: the spectrum over `START:STOP:COUNT` values of θ, as CSV rows theta,eigenvalue,ids")
-
-	fs.BoolVar(&f.json, "json", false, "print the report as one JSON object")
-	fs.StringVarP(&f.out, "out", "o", "", "write the levels (or the staircase, or the θ scan) as CSV to `FILE` (nothing is written on error)")
 }
 
 // newSpectrumCmd builds "phasonhull spectrum".
@@ -285,12 +292,18 @@ func (f *spectrumFlags) check(cmd *cobra.Command, args []string) error {
 	if f.edgeModes && f.ends == string(spectrum.Periodic) {
 		return errors.New("--edge-modes counts states on the ends of an open chain; drop --ends periodic")
 	}
-	if len(f.theta) > 0 && f.period > 0 {
-		return errors.New("--theta and --period are two ways to label; give one")
-	}
 	if f.period < 0 || f.maxCoeff < 1 || f.samples < 1 || f.edgeGaps < 1 {
 		return fmt.Errorf("--period %d, --max-coeff %d, --samples %d, --edge-gaps %d: the period must not be negative, the others must be positive",
 			f.period, f.maxCoeff, f.samples, f.edgeGaps)
+	}
+	return f.checkOperator(cmd)
+}
+
+// checkOperator refuses contradictory operator and label flags.
+func (f *spectrumFlags) checkOperator(cmd *cobra.Command) error {
+	changed := cmd.Flags().Changed
+	if len(f.theta) > 0 && f.period > 0 {
+		return errors.New("--theta and --period are two ways to label; give one")
 	}
 	if (f.law == "table") != (f.table != "") {
 		return errors.New("--hopping table and --table FILE go together")

@@ -145,7 +145,7 @@ func AnalyzeContext(ctx context.Context, p *pattern.Pattern, opt Options) (*Resu
 		return nil, fmt.Errorf("hull analysis: %w", err)
 	}
 	res := &Result{
-		Schema: Schema, Source: p.Source, Sites: p.Len(), Unit: p.Unit,
+		Schema: Schema, Dimension: 1, Source: p.Source, Sites: p.Len(), Unit: p.Unit,
 		MeanSpacing: p.MeanSpacing(), Notes: append([]string{}, p.Notes...),
 		Warnings: []string{}, Angles: []float64{}, AngleUncertainty: []float64{},
 		Trace: &Trace{},

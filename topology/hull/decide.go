@@ -103,22 +103,90 @@ func (a *analysis) decide(ctx context.Context) error {
 				return err
 			}
 		}
-		ci := info(v.class)
-		p, d := v.components, ci.TorusDimension
-		if p == 0 {
-			p = max(v.period, 1)
-		}
-		if d < 0 {
-			p, d = 0, 0
-		}
-		betti := v.betti
-		if betti == nil {
-			betti = ci.betti(p)
-		}
-		a.res.Hull = Hull{Class: v.class, Betti: betti, Period: v.period, Components: p, TorusDimension: d, Confidence: v.confidence, ScaleBand: v.band, Reason: v.reason}
+		a.res.setHull(v)
 		return nil
 	}
 	panic("hull: the decision list ended without a verdict")
+}
+
+// setHull sets Result.Hull from the verdict that stood: the one place
+// where the class of a chain or a plane is set.
+func (r *Result) setHull(v *verdict) {
+	ci := info(v.class)
+	p, d := v.components, ci.TorusDimension
+	if p == 0 {
+		p = max(v.period, 1)
+	}
+	if d < 0 {
+		p, d = 0, 0
+	}
+	betti := v.betti
+	if betti == nil {
+		betti = ci.betti(p)
+	}
+	r.Hull = Hull{Class: v.class, Betti: betti, Period: v.period, Components: p, TorusDimension: d, Confidence: v.confidence, ScaleBand: v.band, Reason: v.reason}
+}
+
+// planeRule and planeCheck are rule and check for a plane
+// (AnalyzePlane).
+type (
+	planeRule  func(a *planeAnalysis, ctx context.Context) (*verdict, error)
+	planeCheck func(a *planeAnalysis, ctx context.Context, v *verdict) (*verdict, error)
+)
+
+// planeRules is the decision list of a plane, in order; the first verdict
+// stands. The algebraic reading of the displacement field (its spectral
+// lines) and the barcodes of the patch cloud must agree before a class
+// with angles stands.
+var planeRules = []planeRule{
+	// No spectral line above the noise: point (a shaken lattice), or
+	// disordered when the scatter washes the lattice out, unresolved in
+	// between.
+	(*planeAnalysis).flatFieldRule,
+	// Every line rational and the displacements repeating over the period
+	// lattice: finite, with the supercell index as the period.
+	(*planeAnalysis).supercellRule,
+	// Barcodes of the patch cloud naming a d-torus, d the rank of the
+	// lines: circle, torus, torus3; otherwise undecided.
+	(*planeAnalysis).patchBarcodeRule,
+	// Nothing decided: unresolved, with what would decide.
+	(*planeAnalysis).planeUnresolvedRule,
+}
+
+// planeChecks run, in order, on the first verdict of planeRules.
+var planeChecks = []planeCheck{
+	// A class with angles: the rotation matrix fitted to the displacement
+	// field must reproduce it within the measured noise, else neither A
+	// nor class.
+	(*planeAnalysis).rotationCheck,
+}
+
+// decide walks the plane's decision list and checks and sets the class
+// from what stands.
+func (a *planeAnalysis) decide(ctx context.Context) error {
+	for _, r := range planeRules {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		v, err := r(a, ctx)
+		if err != nil {
+			return err
+		}
+		if v == nil {
+			continue
+		}
+		for _, c := range planeChecks {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			if v, err = c(a, ctx, v); err != nil {
+				return err
+			}
+		}
+		a.res.setHull(v)
+		return nil
+	}
+	panic("hull: the plane's decision list ended without a verdict")
 }
 
 // anglesCheck measures the angles of a class with angles (see

@@ -1,10 +1,13 @@
 package hull_test
 
 import (
+	"context"
 	"fmt"
 	"log"
+	"math"
 
 	"phasonhull/pattern/design"
+	"phasonhull/pattern/lattice"
 	"phasonhull/topology/hull"
 )
 
@@ -27,4 +30,35 @@ func ExampleAnalyze() {
 	// class: circle Betti [1 1 0]
 	// angle: 0.276300
 	// labels: 12 first [-1 4] 0.1052
+}
+
+// A square plate of 30×30 sites, each displaced along the wave vector by
+// u_n = 0.05 sin 2π(q·n), q = ((√2 − 1)/1.5, (√3 − 1)/5.3) turns per
+// lattice step: its hull is a circle moved by the 1×2 rotation matrix
+// A = q, and its gap labels lie in Z + Z·A11 + Z·A12. (A decimal q such as
+// (0.2763, 0.1382) is rational, and the group of exact data is then
+// (1/q)Z with q in the thousands.)
+func ExampleAnalyzePlane() {
+	q := [2]float64{(math.Sqrt(2) - 1) / 1.5, (math.Sqrt(3) - 1) / 5.3}
+	e := [2]float64{q[0] / math.Hypot(q[0], q[1]), q[1] / math.Hypot(q[0], q[1])}
+	l := &lattice.Lattice{Basis: [2][2]float64{{1, 0}, {0, 1}}, Unit: "mm"}
+	for n1 := range 30 {
+		for n2 := range 30 {
+			s := 0.05 * math.Sin(2*math.Pi*(q[0]*float64(n1)+q[1]*float64(n2)))
+			l.Index = append(l.Index, [2]int{n1, n2})
+			l.OnLattice = append(l.OnLattice, true)
+			l.Displacement = append(l.Displacement, [2]float64{s * e[0], s * e[1]})
+		}
+	}
+	r, err := hull.AnalyzePlane(context.Background(), l, hull.Options{})
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println("class:", r.Hull.Class, "Betti", r.Hull.Betti)
+	fmt.Printf("A = (%.4f, %.4f)\n", r.Rotation[0][0], r.Rotation[0][1])
+	fmt.Println("generators:", len(r.GapLabels.Generators))
+	// Output:
+	// class: circle Betti [1 1 0]
+	// A = (0.2761, 0.1381)
+	// generators: 3
 }

@@ -43,7 +43,10 @@ const (
 // Result is everything Analyze found. Its JSON form is documented field by
 // field in the README.
 type Result struct {
-	Schema      string  `json:"schema"`
+	Schema string `json:"schema"`
+	// Dimension is 1 for a chain (Analyze) and 2 for a plane
+	// (AnalyzePlane).
+	Dimension   int     `json:"dimension"`
 	Source      string  `json:"source"`
 	Sites       int     `json:"sites"`
 	Unit        string  `json:"unit"`
@@ -58,6 +61,16 @@ type Result struct {
 	AngleUncertainty []float64 `json:"angle_uncertainty"`
 	// AngleMethod says how the angles were measured.
 	AngleMethod string `json:"angle_method,omitempty"`
+
+	// Lattice is the average lattice of a plane; nil for a chain.
+	Lattice *LatticeReport `json:"lattice,omitempty"`
+	// Rotation is the rotation matrix A of a plane's hull, d rows (the
+	// torus coordinates) of 2 entries (the lattice steps a1, a2), in turns
+	// per lattice step, in the reduced form AnalyzePlane describes; for a
+	// finite hull the rational A of its supercell. RotationUncertainty
+	// holds one standard uncertainty of each entry. Both nil for a chain.
+	Rotation            [][]float64 `json:"rotation,omitempty"`
+	RotationUncertainty [][]float64 `json:"rotation_uncertainty,omitempty"`
 
 	GapLabels GapLabels `json:"gap_labels"`
 

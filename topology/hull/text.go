@@ -34,7 +34,12 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	if unit == "" {
 		unit = "(no unit)"
 	}
-	fmt.Fprintf(&b, "pattern     %s: %d sites, mean spacing %.6g %s\n", r.Source, r.Sites, r.MeanSpacing, unit)
+	if r.Dimension == 2 {
+		fmt.Fprintf(&b, "pattern     %s: %d sites on a plane, lattice spacing |a1| = %.6g %s\n", r.Source, r.Sites, r.MeanSpacing, unit)
+		r.writeLattice(&b)
+	} else {
+		fmt.Fprintf(&b, "pattern     %s: %d sites, mean spacing %.6g %s\n", r.Source, r.Sites, r.MeanSpacing, unit)
+	}
 	h := r.Hull
 	fmt.Fprintf(&b, "hull        %s", h.Class)
 	if h.Components > 1 && h.TorusDimension > 0 {
@@ -59,13 +64,18 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 			fmt.Fprintf(&b, "angle %d     θ%d = %s turns\n", i+1, i+1, notation.PlusMinus(a, r.AngleUncertainty[i]))
 		}
 	}
+	r.writeRotation(&b)
 	if r.AngleMethod != "" {
 		fmt.Fprintf(&b, "            %s\n", r.AngleMethod)
 	}
 	r.writeDisorder(&b)
 	r.writeLabels(&b, allLabels)
 	e := r.Embedding
-	fmt.Fprintf(&b, "embedding   window %d, %d component(s), %d vectors", e.Window, e.Components, e.Vectors)
+	if r.Dimension == 2 {
+		fmt.Fprintf(&b, "embedding   patches of %d×%d lattice steps, %d component(s), %d vectors", e.Window, e.Window, e.Components, e.Vectors)
+	} else {
+		fmt.Fprintf(&b, "embedding   window %d, %d component(s), %d vectors", e.Window, e.Components, e.Vectors)
+	}
 	if e.Excluded > 0 {
 		fmt.Fprintf(&b, " (%d left out)", e.Excluded)
 	}
@@ -101,6 +111,53 @@ func (r *Result) WriteText(w io.Writer, allLabels bool) error {
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// writeLattice writes the average lattice of a plane.
+func (r *Result) writeLattice(b *strings.Builder) {
+	l := r.Lattice
+	if l == nil {
+		return
+	}
+	vec := func(i int) string {
+		return fmt.Sprintf("(%s, %s)", notation.PlusMinus(l.Basis[i][0], l.BasisUncertainty[i][0]), notation.PlusMinus(l.Basis[i][1], l.BasisUncertainty[i][1]))
+	}
+	fmt.Fprintf(b, "lattice     a1 = %s, a2 = %s%s; %d sites on it, %d missing, %d off it\n", vec(0), vec(1), notation.Unit(r.Unit), l.Sites, l.Missing, l.OffLattice)
+}
+
+// writeRotation writes the rotation matrix of a plane's hull, one row per
+// torus coordinate, each entry with its uncertainty.
+func (r *Result) writeRotation(b *strings.Builder) {
+	if len(r.Rotation) == 0 {
+		return
+	}
+	fmt.Fprintf(b, "rotation    A in turns per lattice step (rows: torus coordinates; columns: a1, a2), reduced: any V·A·U + N with V, U, N integer and V, U invertible over Z is the same hull\n")
+	cells := make([][2]string, len(r.Rotation))
+	w := 0
+	for k, row := range r.Rotation {
+		for j := range 2 {
+			u := 0.0
+			if k < len(r.RotationUncertainty) {
+				u = r.RotationUncertainty[k][j]
+			}
+			cells[k][j] = notation.PlusMinus(row[j], u)
+			w = max(w, utf8.RuneCountInString(cells[k][j]))
+		}
+	}
+	for _, c := range cells {
+		fmt.Fprintf(b, "            ( %s%s   %s%s )\n", strings.Repeat(" ", w-utf8.RuneCountInString(c[0])), c[0], strings.Repeat(" ", w-utf8.RuneCountInString(c[1])), c[1])
+	}
+}
+
+// planeGroup writes the gap-label group of a d-torus moved by Z².
+func planeGroup(d int) string {
+	switch d {
+	case 1:
+		return "Z + Z·A11 + Z·A12"
+	case 2:
+		return "Z + Σ Z·A_ij + Z·det A (det A: the second-Chern term)"
+	}
+	return "Z + Σ Z·A_ij + Σ Z·(2×2 minors of A)"
 }
 
 // writeTiles writes the tiles of a chain read as a tiling and the class
@@ -154,6 +211,8 @@ func (r *Result) writeDisorder(b *strings.Builder) {
 func (r *Result) writeLabels(b *strings.Builder, all bool) {
 	h, g := r.Hull, r.GapLabels
 	switch {
+	case r.Dimension == 2 && len(r.Rotation) > 0 && h.Class != Finite:
+		fmt.Fprintf(b, "gap labels  %s, reduced over Z to the generators %s: IDS = c0 + Σ c_i·g_i in (0, 1), |c_i| ≤ %d (%d labels, lowest order first)\n", planeGroup(len(r.Rotation)), floats(g.Generators[1:]), g.MaxCoeff, len(g.Labels))
 	case h.Class == Finite:
 		fmt.Fprintf(b, "gap labels  Z + Z/%d: IDS = k/%d, k = 1..%d\n", h.Period, h.Period, h.Period-1)
 	case len(r.Angles) > 0 && h.Components > 1:

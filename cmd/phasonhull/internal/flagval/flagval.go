@@ -94,3 +94,59 @@ func (v *LengthList) Resolve(unit string) error {
 	*v.dst = out
 	return nil
 }
+
+// LengthGrid is a flag value holding lengths given as a comma-separated
+// list ("0.01,0.02mm") or as an even grid START:STOP:COUNT, both ends
+// included ("0:0.2mm:5"; a unit on either end applies to both, as on
+// each element of a list).
+type LengthGrid struct {
+	list LengthList
+}
+
+// NewLengthGrid returns a LengthGrid that fills dst.
+func NewLengthGrid(dst *[]float64) *LengthGrid { return &LengthGrid{list: LengthList{dst: dst}} }
+
+// Set parses a list or a grid; each Set replaces the earlier one.
+func (v *LengthGrid) Set(s string) error {
+	parts := strings.Split(s, ":")
+	if len(parts) == 1 {
+		return v.list.Set(s)
+	}
+	if len(parts) != 3 {
+		return fmt.Errorf("%q: want a list of lengths or START:STOP:COUNT", s)
+	}
+	a, err := pattern.ParseSignedLength(parts[0])
+	if err != nil {
+		return fmt.Errorf("%q: %w", s, err)
+	}
+	b, err := pattern.ParseSignedLength(parts[1])
+	if err != nil {
+		return fmt.Errorf("%q: %w", s, err)
+	}
+	n, err := strconv.Atoi(strings.TrimSpace(parts[2]))
+	if err != nil || n < 2 {
+		return fmt.Errorf("%q: COUNT must be a whole number of at least 2", s)
+	}
+	switch {
+	case a.Unit == "":
+		a.Unit = b.Unit
+	case b.Unit == "":
+		b.Unit = a.Unit
+	case a.Unit != b.Unit:
+		return fmt.Errorf("%q: the two ends have different units", s)
+	}
+	v.list.ls = v.list.ls[:0]
+	for i := range n {
+		x := a.Value + (b.Value-a.Value)*float64(i)/float64(n-1)
+		v.list.ls = append(v.list.ls, pattern.Length{Value: x, Unit: a.Unit})
+	}
+	return nil
+}
+
+func (v *LengthGrid) String() string { return v.list.String() }
+
+// Type names the value in help.
+func (v *LengthGrid) Type() string { return "lengths" }
+
+// Resolve stores the lengths in unit into its slice.
+func (v *LengthGrid) Resolve(unit string) error { return v.list.Resolve(unit) }

@@ -1,6 +1,7 @@
 package flagval
 
 import (
+	"math"
 	"slices"
 	"testing"
 )
@@ -63,6 +64,42 @@ func TestParseBytes(t *testing.T) {
 	for _, bad := range []string{"", "0", "-1GiB", "lots", "1e30TB"} {
 		if _, err := ParseBytes(bad); err == nil {
 			t.Errorf("ParseBytes(%q) accepted", bad)
+		}
+	}
+}
+
+// A grid START:STOP:COUNT spaces COUNT lengths evenly, both ends included,
+// the unit of one end applying to the other; a list stays a list.
+func TestLengthGrid(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want []float64
+	}{
+		{"0:0.2mm:5", []float64{0, 0.05, 0.1, 0.15, 0.2}},
+		{"10um:30um:3", []float64{0.01, 0.02, 0.03}},
+		{"0.01,20um", []float64{0.01, 0.02}},
+	} {
+		var got []float64
+		g := NewLengthGrid(&got)
+		if err := g.Set(c.in); err != nil {
+			t.Fatal(err)
+		}
+		if err := g.Resolve("mm"); err != nil {
+			t.Fatal(err)
+		}
+		if len(got) != len(c.want) {
+			t.Fatalf("%s: %v, want %v", c.in, got, c.want)
+		}
+		for i := range got {
+			if math.Abs(got[i]-c.want[i]) > 1e-12 {
+				t.Errorf("%s: %v, want %v", c.in, got, c.want)
+			}
+		}
+	}
+	for _, bad := range []string{"0:1", "0:1mm:1", "0nm:1mm:3", "a:1:3"} {
+		var got []float64
+		if err := NewLengthGrid(&got).Set(bad); err == nil {
+			t.Errorf("%q accepted", bad)
 		}
 	}
 }
