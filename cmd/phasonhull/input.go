@@ -124,6 +124,19 @@ func (f *inputFlags) load(path string, stdin io.Reader) (*pattern.Pattern, error
 	return pattern.ReadFile(path, opt)
 }
 
+// loadSites reads the chain or plate at path as the flags say (the one
+// 1D/2D rule of pattern.ReadSites); path "-" reads stdin.
+func (f *inputFlags) loadSites(path string, stdin io.Reader) (pattern.Sites, error) {
+	opt, err := f.options()
+	if err != nil {
+		return pattern.Sites{}, err
+	}
+	if path == "-" {
+		return pattern.ReadSites(stdin, "-", opt)
+	}
+	return pattern.ReadSitesFile(path, opt)
+}
+
 // readInput reads the file at path with read, one of pattern's readers;
 // path "-" reads stdin. A file that cannot be opened is refused like bad
 // input, with an *pattern.InputError naming it (exit status 2).

@@ -179,6 +179,9 @@ func CompareWith(design, measured *Result, ref *Reference) Comparison {
 		return c
 	}
 
+	if design.Dimension == 2 && measured.Dimension == 2 {
+		return comparePlanes(c, design, measured)
+	}
 	// Circle or torus: angles against the design's analysis, and against
 	// the reference when it fixes them.
 	modelTol := 0.0
