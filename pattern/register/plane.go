@@ -138,8 +138,9 @@ func (r *PlaneResult) Predict(d [2]float64) [2]float64 { return r.m.predict(d) }
 // candidate rotations and scales: one for an oblique lattice, two for a
 // rectangular, four for a square, six for a hexagonal one, up to the
 // half-turn every lattice has. Each is tried with the offset that puts the
-// coordinatewise medians of the two sets together and with that offset
-// moved by up to Reach lattice steps along each basis vector. From each
+// design site nearest the design's coordinatewise median on the measured
+// site nearest where the medians put it, and with that offset moved by up
+// to Reach lattice steps along each basis vector. From each
 // start, matching and fitting alternate until the matching repeats:
 //
 //  1. Matching: each design site, mapped through the current
@@ -185,7 +186,13 @@ func RegisterPlane(ctx context.Context, design, measured [][2]float64, opt Plane
 	var cands []planeCand
 	cd, cm := medianPoint(design), medianPoint(measured)
 	for _, L := range similarities(ld.Basis, lm.Basis) {
+		// The medians may fall between sites (an even number of rows):
+		// put the design site nearest its median on the measured site
+		// nearest where L puts it, so that the lattice vectors from
+		// there reach the true offset.
 		t0 := sub(cm, apply(L, cd))
+		dc := apply(L, nearestPoint(design, cd))
+		t0 = sub(nearestPoint(measured, add(dc, t0)), dc)
 		for n1 := -opt.Reach; n1 <= opt.Reach; n1++ {
 			for n2 := -opt.Reach; n2 <= opt.Reach; n2++ {
 				t := t0
@@ -568,4 +575,15 @@ func medianPoint(pts [][2]float64) [2]float64 {
 		out[c] = median(v)
 	}
 	return out
+}
+
+// nearestPoint returns the point of pts nearest p.
+func nearestPoint(pts [][2]float64, p [2]float64) [2]float64 {
+	best := pts[0]
+	for _, q := range pts[1:] {
+		if norm2(sub(q, p)) < norm2(sub(best, p)) {
+			best = q
+		}
+	}
+	return best
 }
