@@ -78,6 +78,9 @@ type Design struct {
 func NewDesign(ctx context.Context, f *design.File, opt hull.Options) *Design {
 	d := &Design{File: f}
 	if f.Plane != nil {
+		if f.Spec != nil {
+			d.Reference = &hull.Reference{Family: f.Spec.Family, Rotation: f.Spec.Rotation()}
+		}
 		d.Hull, d.HullErr = analyzePlane(ctx, f.Plane, opt)
 		return d
 	}

@@ -129,10 +129,10 @@ func RunPlane(ctx context.Context, d *Design, sample *pattern.Plane, opt Options
 		a.fillPlane(reg, sample)
 	}
 	if d.HullErr == nil && rep.Hull.Measured != nil {
-		c := hull.CompareWith(d.Hull, rep.Hull.Measured, nil)
+		c := hull.CompareWith(d.Hull, rep.Hull.Measured, d.Reference)
 		rep.Hull.Comparison = &c
 	}
-	rep.Hull.Design = d.Hull
+	rep.Hull.Design, rep.Hull.Reference = d.Hull, d.Reference
 	a.decide()
 	return rep, nil
 }

@@ -143,6 +143,17 @@ func (r *Report) WriteText(w io.Writer) error {
 		}
 		fmt.Fprintf(&b, "            spec:   angle(s) %s exactly (%s family)\n", strings.Join(s, ", "), h.Reference.Family)
 	}
+	if h.Reference != nil && len(h.Reference.Rotation) > 0 {
+		rows := make([]string, len(h.Reference.Rotation))
+		for i, row := range h.Reference.Rotation {
+			e := make([]string, len(row))
+			for j, x := range row {
+				e[j] = strconv.FormatFloat(x, 'g', 10, 64)
+			}
+			rows[i] = "(" + strings.Join(e, ", ") + ")"
+		}
+		fmt.Fprintf(&b, "            spec:   A = %s exactly (%s family)\n", strings.Join(rows, "; "), h.Reference.Family)
+	}
 	if c := h.Comparison; c != nil {
 		fmt.Fprintf(&b, "            %s\n", c.Verdict)
 		for _, n := range c.Notes {
