@@ -136,24 +136,11 @@ missing, extra, merged, outliers, sites, hull {design, measured,
 comparison, reference}. --out writes the report to a file instead (nothing
 is written on bad input).
 
-Plates. A sample whose sites lie in the plane (x,y centroids that
-pattern's one 1D/2D rule calls planar) is audited against a plate design
-(a plate or twisted spec, or planar centroids); a chain against a plate,
-or a plate against a chain, is refused with the reason. The registration
-is a similarity, x = offset + scale·R(rotation)·d: the first calibrations
-come from the average lattices of both sets, one per rotation the lattice
-allows, the offset is searched over lattice vectors, and the matching (each
-design site takes the nearest measured site within --gate, below 0.5, of
-its nearest design neighbour's distance) and the robust fit alternate until
-they settle. Alignments the modulation cannot tell apart (a symmetry of the
-lattice) are listed as ties (lattice_shift, turn). Residuals are vectors;
-their lengths meet --tolerance and the 4-sigma outlier cut (sigma per
-coordinate). The hulls are compared by their rotation matrices as modules:
-any integer change of lattice basis or torus coordinates is the same hull.
---fit-drift and --plot do not apply to plates; --json adds dimension 2,
-transform {offset, offset_uncertainty, rotation_degrees,
-rotation_uncertainty, scale, scale_uncertainty}, and per site point and
-residual_xy.
+Plates. Sites in the plane are audited against a plate design (a chain
+against a plate is refused): a similarity x = offset + scale·R(rotation)·d
+from both average lattices, the offset searched over lattice vectors, ties
+by lattice symmetries listed; hulls compared by rotation matrices as
+modules. --fit-drift and --plot do not apply (see the README).
 
 Exit status: 0 when the verdict is pass, 3 when it is fail, 2 for bad input
 or flags, 1 for a bug.`,
@@ -249,11 +236,14 @@ func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
 	if err != nil {
 		return err
 	}
+	var src string
+	var n int
 	if sites.Plane != nil {
-		progress.Stage(fmt.Sprintf("auditing %s (%d sites in the plane)", sites.Plane.Source, sites.Plane.Len()))
+		src, n = sites.Plane.Source, sites.Plane.Len()
 	} else {
-		progress.Stage(fmt.Sprintf("auditing %s (%d sites)", sites.Chain.Source, sites.Chain.Len()))
+		src, n = sites.Chain.Source, sites.Chain.Len()
 	}
+	progress.Stage(fmt.Sprintf("auditing %s (%d sites)", src, n))
 	rep, err := audit.Sites(cmd.Context(), d, sites, opt)
 	if err != nil {
 		return err // a design of the other dimension is the user's to fix
