@@ -138,9 +138,10 @@ is written on bad input).
 
 Plates. Sites in the plane are audited against a plate design (a chain
 against a plate is refused): a similarity x = offset + scale·R(rotation)·d
-from both average lattices, the offset searched over lattice vectors, ties
-by lattice symmetries listed; hulls compared by rotation matrices as
-modules. --fit-drift and --plot do not apply (see the README).
+(through a reflection for a mirror image) from both average lattices, the
+offset searched over lattice vectors, ties by lattice symmetries listed;
+hulls compared by rotation matrices as modules. --fit-drift and --plot do
+not apply (see the README).
 
 Exit status: 0 when the verdict is pass, 3 when it is fail, 2 for bad input
 or flags, 1 for a bug.`,

@@ -47,13 +47,19 @@ type PlaneOptions struct {
 //
 //	x(d) = Offset + Scale·R(Rotation)·d
 //
-// with R the counter-clockwise rotation by Rotation degrees: a similarity
-// that keeps handedness (a mirrored sample does not register). Indices
+// with R the counter-clockwise rotation by Rotation degrees, or, for a
+// sample that is the design's mirror image, a reflection first (see
+// Mirrored). Indices
 // are 0-based positions in the slices given to RegisterPlane.
 type PlaneResult struct {
 	Offset, OffsetErr     [2]float64
 	Scale, ScaleErr       float64
 	Rotation, RotationErr float64 // degrees, counter-clockwise
+	// Mirrored says the sample is the design's mirror image: the
+	// calibration is x(d) = Offset + Scale·R(Rotation)·F·d with F the
+	// reflection (x, y) → (x, −y) (an image whose y axis points down,
+	// say).
+	Mirrored bool
 
 	// Matches are the matched pairs in design order. Residual is the
 	// measured point minus the calibrated design point.
@@ -119,6 +125,10 @@ type PlaneTie struct {
 	// R(Turn)·d + Shift·Basis (about the design's centre).
 	Shift [2]int
 	Turn  float64
+	// Mirrored says the tie is the mirror image of the reported
+	// alignment; Turn and Shift then describe its rotation and offset
+	// after the reflection (x, y) → (x, −y).
+	Mirrored bool
 	// Cost and CostErr are the tie's alignment cost and its uncertainty.
 	Cost, CostErr float64
 	// Missing and Extra count the sites the tie leaves unmatched.
@@ -126,7 +136,19 @@ type PlaneTie struct {
 }
 
 // Predict returns where the calibration puts the design point d.
-func (r *PlaneResult) Predict(d [2]float64) [2]float64 { return r.m.predict(d) }
+func (r *PlaneResult) Predict(d [2]float64) [2]float64 { return r.m.predict(r.m.g.in(d)) }
+
+// flip mirrors a point or vector: (x, y) → (x, −y).
+func flip(p [2]float64) [2]float64 { return [2]float64{p[0], -p[1]} }
+
+// in maps a design point into the geometry's coordinates: mirrored or
+// not.
+func (g *planeGeometry) in(d [2]float64) [2]float64 {
+	if g.mirror {
+		return flip(d)
+	}
+	return d
+}
 
 // RegisterPlane matches measured sites in the plane to design sites and
 // fits the similarity between them.
@@ -180,50 +202,64 @@ func RegisterPlane(ctx context.Context, design, measured [][2]float64, opt Plane
 	if err != nil {
 		return nil, err
 	}
-	g := newPlaneGeometry(design, ld.Basis, opt.Gate)
 	ms := newGrid(measured, math.Sqrt(norm2(lm.Basis[0])))
-
 	var cands []planeCand
-	cd, cm := medianPoint(design), medianPoint(measured)
-	for _, L := range similarities(ld.Basis, lm.Basis) {
-		// The medians may fall between sites (an even number of rows):
-		// put the design site nearest its median on the measured site
-		// nearest where L puts it, so that the lattice vectors from
-		// there reach the true offset.
-		t0 := sub(cm, apply(L, cd))
-		dc := apply(L, nearestPoint(design, cd))
-		t0 = sub(nearestPoint(measured, add(dc, t0)), dc)
-		for n1 := -opt.Reach; n1 <= opt.Reach; n1++ {
-			for n2 := -opt.Reach; n2 <= opt.Reach; n2++ {
-				t := t0
-				for c := range 2 {
-					t[c] += float64(n1)*lm.Basis[0][c] + float64(n2)*lm.Basis[1][c]
-				}
-				if err := ctx.Err(); err != nil {
-					return nil, fmt.Errorf("registering: %w", err)
-				}
-				r, err := g.solve(g.similarity(L, t), ms, opt.MaxIter)
-				if err != nil {
-					continue
-				}
-				if slices.ContainsFunc(cands, func(c planeCand) bool { return slices.Equal(c.r.pairs, r.pairs) }) {
-					continue
-				}
-				cands = append(cands, g.cost(r, ms))
-			}
+	for _, mirror := range []bool{false, true} {
+		g := newPlaneGeometry(design, ld.Basis, opt.Gate, mirror)
+		if err := g.search(ctx, &cands, measured, ms, lm.Basis, opt); err != nil {
+			return nil, err
 		}
 	}
 	if len(cands) == 0 {
-		return nil, errors.New("registering: no rotation and offset of the design puts enough of its sites on measured sites to fit the calibration")
+		return nil, errors.New("registering: no rotation and offset of the design, as it is or mirrored, puts enough of its sites on measured sites to fit the calibration")
 	}
 	win, tied := settlePlane(cands)
-	res := &PlaneResult{m: win.r.m, Basis: ld.Basis, Cost: win.cost, CostErr: win.costErr,
+	g := win.r.m.g
+	res := &PlaneResult{m: win.r.m, Basis: ld.Basis, Mirrored: g.mirror, Cost: win.cost, CostErr: win.costErr,
 		Iterations: win.r.iterations, Converged: win.r.converged, Ties: []PlaneTie{}}
 	for _, c := range tied {
 		res.Ties = append(res.Ties, g.tie(win.r.m, c))
 	}
 	res.fill(g, ms, win.r)
 	return res, nil
+}
+
+// search adds to cands the settled alignments of the design (mirrored or
+// not, as g says) from every rotation the two lattices allow and every
+// offset within opt.Reach lattice steps of the first.
+func (g *planeGeometry) search(ctx context.Context, cands *[]planeCand, measured [][2]float64, ms *grid, mbasis [2][2]float64, opt PlaneOptions) error {
+	cd, cm := medianPoint(g.d), medianPoint(measured)
+	for _, L := range similarities(g.basis, mbasis) {
+		// The medians may fall between sites (an even number of rows):
+		// put the design site nearest its median on the measured site
+		// nearest where L puts it, so that the lattice vectors from
+		// there reach the true offset.
+		t0 := sub(cm, apply(L, cd))
+		dc := apply(L, nearestPoint(g.d, cd))
+		t0 = sub(nearestPoint(measured, add(dc, t0)), dc)
+		for n1 := -opt.Reach; n1 <= opt.Reach; n1++ {
+			for n2 := -opt.Reach; n2 <= opt.Reach; n2++ {
+				t := t0
+				for c := range 2 {
+					t[c] += float64(n1)*mbasis[0][c] + float64(n2)*mbasis[1][c]
+				}
+				if err := ctx.Err(); err != nil {
+					return fmt.Errorf("registering: %w", err)
+				}
+				r, err := g.solve(g.similarity(L, t), ms, opt.MaxIter)
+				if err != nil {
+					continue
+				}
+				if slices.ContainsFunc(*cands, func(c planeCand) bool {
+					return c.r.m.g.mirror == g.mirror && slices.Equal(c.r.pairs, r.pairs)
+				}) {
+					continue
+				}
+				*cands = append(*cands, g.cost(r, ms))
+			}
+		}
+	}
+	return nil
 }
 
 // planeLattice recovers the average lattice of a set of sites.
@@ -269,18 +305,30 @@ func similarities(d, m [2][2]float64) [][2][2]float64 {
 	return out
 }
 
-// planeGeometry holds the design and the normalised coordinates of the
-// fit: (d − centre)/radius, inside the unit disc.
+// planeGeometry holds the design, possibly mirrored, and the normalised
+// coordinates of the fit: (d − centre)/radius, inside the unit disc.
 type planeGeometry struct {
 	d      [][2]float64
-	gate   []float64 // gate of each design site, in design units
-	basis  [2][2]float64
+	gate   []float64     // gate of each design site, in design units
+	basis  [2][2]float64 // the design's lattice basis, mirrored with it
+	basis0 [2][2]float64 // the design's lattice basis as given
+	mirror bool          // d holds the design mirrored: (x, y) → (x, −y)
 	centre [2]float64
 	radius float64
 }
 
-func newPlaneGeometry(d [][2]float64, basis [2][2]float64, gate float64) *planeGeometry {
-	g := &planeGeometry{d: d, gate: make([]float64, len(d)), basis: basis}
+func newPlaneGeometry(design [][2]float64, basis [2][2]float64, gate float64, mirror bool) *planeGeometry {
+	d := design
+	g := &planeGeometry{gate: make([]float64, len(d)), basis: basis, basis0: basis, mirror: mirror}
+	if mirror {
+		d = make([][2]float64, len(design))
+		for i, p := range design {
+			d[i] = flip(p)
+		}
+		// The mirrored basis, reordered to stay right-handed.
+		g.basis = [2][2]float64{flip(basis[1]), flip(basis[0])}
+	}
+	g.d = d
 	for _, p := range d {
 		g.centre[0] += p[0] / float64(len(d))
 		g.centre[1] += p[1] / float64(len(d))
@@ -458,8 +506,9 @@ func (g *planeGeometry) cost(r *planeRun, ms *grid) planeCand {
 }
 
 // settlePlane keeps, among the alignments that tie with the cheapest, the
-// cheapest of those that leave the fewest sites unmatched, and returns the
-// others that leave as many unmatched and tie with it.
+// cheapest of those that leave the fewest sites unmatched — one of the
+// design as it is when one of those ties with a mirrored one — and
+// returns the others that leave as many unmatched and tie with it.
 func settlePlane(cands []planeCand) (planeCand, []planeCand) {
 	best := slices.MinFunc(cands, func(a, b planeCand) int { return cmp.Compare(a.cost, b.cost) })
 	var near []planeCand
@@ -472,6 +521,16 @@ func settlePlane(cands []planeCand) (planeCand, []planeCand) {
 	win := slices.MinFunc(near, func(a, b planeCand) int {
 		return cmp.Or(unmatched(a)-unmatched(b), cmp.Compare(a.cost, b.cost))
 	})
+	// A mirror image is kept only when it is clearly better: the design
+	// as it is wins a tie (a design that is nearly its own mirror image).
+	if win.r.m.g.mirror {
+		for _, c := range near {
+			if !c.r.m.g.mirror && unmatched(c) == unmatched(win) && costsTie(c.cost, c.costErr, win.cost, win.costErr) &&
+				(win.r.m.g.mirror || c.cost < win.cost) {
+				win = c
+			}
+		}
+	}
 	var tied []planeCand
 	for _, c := range near {
 		if c.r != win.r && unmatched(c) == unmatched(win) && costsTie(c.cost, c.costErr, win.cost, win.costErr) {
@@ -489,17 +548,19 @@ func (g *planeGeometry) tie(m planeModel, c planeCand) PlaneTie {
 	turn = math.Remainder(turn, 2*math.Pi)
 	// Where m puts the point c puts the design centre: the design point
 	// m⁻¹(c(centre)), minus the centre, is the shift.
-	y := sub(cm.predict(g.centre), m.predict(g.centre))
+	centre := g.in(g.centre) // the design's own coordinates
+	y := sub(cm.predict(cm.g.in(centre)), m.predict(g.centre))
 	p, q := m.b[2]/g.radius, m.b[3]/g.radius
 	det := p*p + q*q
-	shift := [2]float64{(p*y[0] + q*y[1]) / det, (-q*y[0] + p*y[1]) / det}
-	return PlaneTie{Turn: turn * 180 / math.Pi, Shift: g.steps(shift), Cost: c.cost, CostErr: c.costErr, Missing: c.missing, Extra: c.extra}
+	shift := g.in([2]float64{(p*y[0] + q*y[1]) / det, (-q*y[0] + p*y[1]) / det})
+	return PlaneTie{Turn: turn * 180 / math.Pi, Shift: g.steps(shift), Mirrored: cm.g.mirror != g.mirror,
+		Cost: c.cost, CostErr: c.costErr, Missing: c.missing, Extra: c.extra}
 }
 
 // steps returns the design-lattice vector nearest v, in steps of the
-// design basis.
+// design basis as given.
 func (g *planeGeometry) steps(v [2]float64) [2]int {
-	inv, _ := inverse(columns(g.basis))
+	inv, _ := inverse(columns(g.basis0))
 	n := apply(inv, v)
 	return [2]int{int(math.Round(n[0])), int(math.Round(n[1]))}
 }

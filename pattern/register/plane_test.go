@@ -154,7 +154,7 @@ func TestRegisterPlaneMissingExtra(t *testing.T) {
 }
 
 // A pure square lattice on a square patch maps onto itself by the
-// quarter turns about the patch's centre (common practice): the
+// quarter turns and reflections about the patch's centre: the
 // registration cannot tell them apart and must say so, while one wave of
 // modulation (TestRegisterPlaneRecoversTransform) breaks the tie.
 func TestRegisterPlaneLatticeTies(t *testing.T) {
@@ -169,14 +169,60 @@ func TestRegisterPlaneLatticeTies(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	turns := map[int]bool{}
+	type motion struct {
+		turn   int
+		mirror bool
+	}
+	seen := map[motion]bool{}
 	for _, tie := range r.Ties {
-		turns[int(math.Round(tie.Turn))] = true
-		if tie.Missing != 0 || tie.Extra != 0 {
-			t.Errorf("tie %+v leaves sites unmatched", tie)
+		turn := (int(math.Round(tie.Turn)) + 360) % 360
+		seen[motion{turn, tie.Mirrored}] = true
+		if tie.Missing != 0 || tie.Extra != 0 || tie.Shift != [2]int{} {
+			t.Errorf("tie %+v moves or leaves sites unmatched", tie)
 		}
 	}
-	if len(r.Ties) != 3 || !turns[90] || !turns[-90] || !turns[180] && !turns[-180] {
-		t.Errorf("ties %+v; want the three other quarter turns", r.Ties)
+	// The symmetries of a square about its centre: the dihedral group of
+	// order 8, four turns and four reflections (common practice).
+	for _, turn := range []int{0, 90, 180, 270} {
+		for _, mirror := range []bool{false, true} {
+			if want := turn != 0 || mirror; want != seen[motion{turn, mirror}] {
+				t.Errorf("turn %d, mirrored %v: tie %v, want %v (ties %+v)", turn, mirror, !want, want, r.Ties)
+			}
+		}
+	}
+	if r.Mirrored {
+		t.Error("a lattice that is its own mirror image registered mirrored")
+	}
+}
+
+// A sample that is the design's mirror image (a camera image whose y axis
+// points down) registers as one, with the transform of the mirror image;
+// the design as it is registers unmirrored.
+func TestRegisterPlaneMirrored(t *testing.T) {
+	d := testPlate(t, "hex")
+	flipped := make([][2]float64, len(d))
+	for i, p := range d {
+		flipped[i] = [2]float64{p[0], -p[1]}
+	}
+	m := moved(flipped, [2]float64{5, 50}, 0.999, 40, 0.005, 2)
+	r, err := RegisterPlane(context.Background(), d, m, PlaneOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !r.Mirrored || len(r.Missing) != 0 || len(r.Extra) != 0 {
+		t.Fatalf("mirrored %v, %d missing, %d extra; want a mirror image with every site matched", r.Mirrored, len(r.Missing), len(r.Extra))
+	}
+	if math.Abs(r.Rotation-40) > 4*r.RotationErr || math.Abs(r.Scale-0.999) > 4*r.ScaleErr {
+		t.Errorf("rotation %.6g ± %.2g, scale %.8g ± %.2g; want 40 and 0.999", r.Rotation, r.RotationErr, r.Scale, r.ScaleErr)
+	}
+	for i, p := range d {
+		q := r.Predict(p)
+		if math.Hypot(q[0]-m[i][0], q[1]-m[i][1]) > 0.05 {
+			t.Fatalf("design site %d predicted at %v, measured at %v", i, q, m[i])
+		}
+	}
+	r, err = RegisterPlane(context.Background(), d, moved(d, [2]float64{5, 50}, 0.999, 40, 0.005, 2), PlaneOptions{})
+	if err != nil || r.Mirrored {
+		t.Errorf("the design as it is: mirrored %v, err %v", r != nil && r.Mirrored, err)
 	}
 }

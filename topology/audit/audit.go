@@ -180,13 +180,14 @@ type Alignment struct {
 // ascending), leaving as many sites unmatched, at a cost within
 // register.TieFactor combined uncertainties.
 //
-// For a plate, LatticeShift (in steps of the design's lattice basis) and
-// Turn (degrees) say how the tie moves the design (register.PlaneTie), and
-// Shift is 0.
+// For a plate, LatticeShift (in steps of the design's lattice basis),
+// Turn (degrees) and Mirrored say how the tie moves the design
+// (register.PlaneTie), and Shift is 0.
 type Tie struct {
 	Shift        int      `json:"shift"`
 	LatticeShift *[2]int  `json:"lattice_shift,omitempty"`
 	Turn         *float64 `json:"turn,omitempty"`
+	Mirrored     bool     `json:"mirrored,omitempty"`
 	Cost         float64  `json:"cost"`
 	CostErr      float64  `json:"cost_uncertainty"`
 	Missing      int      `json:"missing"`

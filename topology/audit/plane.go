@@ -23,6 +23,9 @@ type Transform struct {
 	RotationErr float64    `json:"rotation_uncertainty"`
 	Scale       float64    `json:"scale"`
 	ScaleErr    float64    `json:"scale_uncertainty"`
+	// Mirrored says the sample is the design's mirror image: x = offset +
+	// scale·R(rotation)·F·d, F the reflection (x, y) → (x, −y).
+	Mirrored bool `json:"mirrored"`
 }
 
 // ErrDimensions is wrapped by Sites' error for a design and a sample of
@@ -158,11 +161,14 @@ func (a *audit) fillPlane(reg *register.PlaneResult, p *pattern.Plane) {
 	}
 	rep.Matched = len(reg.Matches)
 	rep.Transform = &Transform{Offset: reg.Offset, OffsetErr: reg.OffsetErr, Rotation: reg.Rotation,
-		RotationErr: reg.RotationErr, Scale: reg.Scale, ScaleErr: reg.ScaleErr}
+		RotationErr: reg.RotationErr, Scale: reg.Scale, ScaleErr: reg.ScaleErr, Mirrored: reg.Mirrored}
 	rep.Scale, rep.ScaleErr = &rep.Transform.Scale, &rep.Transform.ScaleErr
 	rep.Alignment = &Alignment{Cost: reg.Cost, CostErr: reg.CostErr, Ties: []Tie{}}
 	for _, t := range reg.Ties {
-		rep.Alignment.Ties = append(rep.Alignment.Ties, Tie{LatticeShift: &t.Shift, Turn: &t.Turn, Cost: t.Cost, CostErr: t.CostErr, Missing: t.Missing, Extra: t.Extra})
+		rep.Alignment.Ties = append(rep.Alignment.Ties, Tie{LatticeShift: &t.Shift, Turn: &t.Turn, Mirrored: t.Mirrored, Cost: t.Cost, CostErr: t.CostErr, Missing: t.Missing, Extra: t.Extra})
+	}
+	if reg.Mirrored {
+		rep.Notes = append(rep.Notes, "the sample is the design's mirror image (an image whose y axis points down, say): it is registered through the reflection (x, y) → (x, −y)")
 	}
 	if n := len(reg.Ties); n > 0 {
 		rep.Notes = append(rep.Notes, fmt.Sprintf("the matching is ambiguous: %d other alignment(s), the design moved by a symmetry of its lattice, leave as many sites unmatched at a cost within the uncertainty (alignment.ties): the modulation cannot tell them apart", n))

@@ -33,7 +33,11 @@ func (r *Report) WriteText(w io.Writer) error {
 		fmt.Fprintf(&b, "calibration offset (%s, %s)%s, rotation %s°, scale %s (%s ppm)\n",
 			notation.PlusMinus(t.Offset[0], t.OffsetErr[0]), notation.PlusMinus(t.Offset[1], t.OffsetErr[1]), u,
 			notation.PlusMinus(t.Rotation, t.RotationErr), notation.PlusMinus(t.Scale, t.ScaleErr), signed(notation.PlusMinus((t.Scale-1)*1e6, t.ScaleErr*1e6)))
-		fmt.Fprintf(&b, "            x = offset + scale·R(rotation)·d, a similarity (the sample's axes must have the design's handedness)\n")
+		if t.Mirrored {
+			fmt.Fprintf(&b, "            x = offset + scale·R(rotation)·F·d, F the reflection (x, y) → (x, −y): the sample is the design's mirror image\n")
+		} else {
+			fmt.Fprintf(&b, "            x = offset + scale·R(rotation)·d\n")
+		}
 	} else if r.Scale != nil {
 		ppm := notation.PlusMinus((math.Abs(*r.Scale)-1)*1e6, *r.ScaleErr*1e6)
 		if !strings.HasPrefix(ppm, "-") {
