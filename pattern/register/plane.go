@@ -162,8 +162,11 @@ func (g *planeGeometry) in(d [2]float64) [2]float64 {
 // half-turn every lattice has. Each is tried with the offset that puts the
 // design site nearest the design's coordinatewise median on the measured
 // site nearest where the medians put it, and with that offset moved by up
-// to Reach lattice steps along each basis vector. From each
-// start, matching and fitting alternate until the matching repeats:
+// to Reach lattice steps along each basis vector; the design mirrored,
+// (x, y) → (x, −y), is tried the same way. From each start whose own
+// matching could lead to a tie with the best alignment found (starts in
+// order of their matching's size), matching and fitting alternate until
+// the matching repeats:
 //
 //  1. Matching: each design site, mapped through the current
 //     calibration, takes the nearest measured site inside its gate; the
@@ -203,12 +206,41 @@ func RegisterPlane(ctx context.Context, design, measured [][2]float64, opt Plane
 		return nil, err
 	}
 	ms := newGrid(measured, math.Sqrt(norm2(lm.Basis[0])))
-	var cands []planeCand
+	var starts []planeStart
 	for _, mirror := range []bool{false, true} {
 		g := newPlaneGeometry(design, ld.Basis, opt.Gate, mirror)
-		if err := g.search(ctx, &cands, measured, ms, lm.Basis, opt); err != nil {
-			return nil, err
+		starts = append(starts, g.starts(measured, ms, lm.Basis, opt.Reach)...)
+	}
+	// The starts whose own matching is largest first; a start whose own
+	// matching leaves more sites unmatched than the cheapest settled
+	// alignment costs, plus the tie margin and 1% of the sites, is not
+	// settled: it cannot tie, as a settled alignment gains few pairs over
+	// its start's (the starts are placed to within the lattice's own
+	// precision, far inside the gates).
+	slices.SortStableFunc(starts, func(a, b planeStart) int { return b.pairs - a.pairs })
+	var cands []planeCand
+	slack := 0.01*float64(len(design)) + 2
+	for _, st := range starts {
+		if err := ctx.Err(); err != nil {
+			return nil, fmt.Errorf("registering: %w", err)
 		}
+		if len(cands) > 0 {
+			best := slices.MinFunc(cands, func(a, b planeCand) int { return cmp.Compare(a.cost, b.cost) })
+			if float64(len(design)+len(measured)-2*st.pairs) > best.cost+TieFactor*math.Sqrt2*best.costErr+slack {
+				continue
+			}
+		}
+		g := st.m.g
+		r, err := g.solve(st.m, ms, opt.MaxIter)
+		if err != nil {
+			continue
+		}
+		if slices.ContainsFunc(cands, func(c planeCand) bool {
+			return c.r.m.g == g && slices.Equal(c.r.pairs, r.pairs)
+		}) {
+			continue
+		}
+		cands = append(cands, g.cost(r, ms))
 	}
 	if len(cands) == 0 {
 		return nil, errors.New("registering: no rotation and offset of the design, as it is or mirrored, puts enough of its sites on measured sites to fit the calibration")
@@ -224,10 +256,18 @@ func RegisterPlane(ctx context.Context, design, measured [][2]float64, opt Plane
 	return res, nil
 }
 
-// search adds to cands the settled alignments of the design (mirrored or
-// not, as g says) from every rotation the two lattices allow and every
-// offset within opt.Reach lattice steps of the first.
-func (g *planeGeometry) search(ctx context.Context, cands *[]planeCand, measured [][2]float64, ms *grid, mbasis [2][2]float64, opt PlaneOptions) error {
+// planeStart is a first calibration and the number of pairs its own
+// matching makes.
+type planeStart struct {
+	m     planeModel
+	pairs int
+}
+
+// starts returns the first calibrations of the design (mirrored or not, as
+// g says): every rotation the two lattices allow, with every offset
+// within reach lattice steps of the first.
+func (g *planeGeometry) starts(measured [][2]float64, ms *grid, mbasis [2][2]float64, reach int) []planeStart {
+	var out []planeStart
 	cd, cm := medianPoint(g.d), medianPoint(measured)
 	for _, L := range similarities(g.basis, mbasis) {
 		// The medians may fall between sites (an even number of rows):
@@ -237,29 +277,18 @@ func (g *planeGeometry) search(ctx context.Context, cands *[]planeCand, measured
 		t0 := sub(cm, apply(L, cd))
 		dc := apply(L, nearestPoint(g.d, cd))
 		t0 = sub(nearestPoint(measured, add(dc, t0)), dc)
-		for n1 := -opt.Reach; n1 <= opt.Reach; n1++ {
-			for n2 := -opt.Reach; n2 <= opt.Reach; n2++ {
+		for n1 := -reach; n1 <= reach; n1++ {
+			for n2 := -reach; n2 <= reach; n2++ {
 				t := t0
 				for c := range 2 {
 					t[c] += float64(n1)*mbasis[0][c] + float64(n2)*mbasis[1][c]
 				}
-				if err := ctx.Err(); err != nil {
-					return fmt.Errorf("registering: %w", err)
-				}
-				r, err := g.solve(g.similarity(L, t), ms, opt.MaxIter)
-				if err != nil {
-					continue
-				}
-				if slices.ContainsFunc(*cands, func(c planeCand) bool {
-					return c.r.m.g.mirror == g.mirror && slices.Equal(c.r.pairs, r.pairs)
-				}) {
-					continue
-				}
-				*cands = append(*cands, g.cost(r, ms))
+				m := g.similarity(L, t)
+				out = append(out, planeStart{m: m, pairs: len(g.match(m, ms))})
 			}
 		}
 	}
-	return nil
+	return out
 }
 
 // planeLattice recovers the average lattice of a set of sites.

@@ -272,6 +272,9 @@ func Run(ctx context.Context, d *Design, sample *pattern.Pattern, opt Options) (
 	if err := opt.Validate(); err != nil {
 		return nil, err
 	}
+	if d != nil && d.File.Plane != nil {
+		return nil, fmt.Errorf("%w: the sample %s is a chain, the design %s a plate of sites in the plane; audit a chain against a chain design", ErrDimensions, sample.Source, d.File.Path)
+	}
 	rep := &Report{
 		Schema: Schema, Measured: sample.Source, Unit: sample.Unit, MeasuredSites: sample.Len(),
 		MeasuredOrder: "file", Reasons: []string{}, Missing: []int{}, Extra: []int{},

@@ -41,8 +41,6 @@ func Sites(ctx context.Context, d *Design, s pattern.Sites, opt Options) (*Repor
 	switch {
 	case s.Plane != nil && d != nil && d.File.Plane == nil:
 		return nil, fmt.Errorf("%w: the sample %s is a plate of sites in the plane, the design %s a chain; audit a plate against a plate design (a 2D spec such as the plate or twisted family, or x,y centroids)", ErrDimensions, s.Plane.Source, d.File.Path)
-	case s.Chain != nil && d != nil && d.File.Plane != nil:
-		return nil, fmt.Errorf("%w: the sample %s is a chain, the design %s a plate of sites in the plane; audit a chain against a chain design", ErrDimensions, s.Chain.Source, d.File.Path)
 	case s.Plane != nil:
 		return RunPlane(ctx, d, s.Plane, opt)
 	}
