@@ -136,6 +136,13 @@ missing, extra, merged, outliers, sites, hull {design, measured,
 comparison, reference}. --out writes the report to a file instead (nothing
 is written on bad input).
 
+Plates. Sites in the plane are audited against a plate design (a chain
+against a plate is refused): a similarity x = offset + scale·R(rotation)·d
+(through a reflection for a mirror image) from both average lattices, the
+offset searched over lattice vectors, ties by lattice symmetries listed;
+hulls compared by rotation matrices as modules. --fit-drift and --plot do
+not apply (see the README).
+
 Exit status: 0 when the verdict is pass, 3 when it is fail, 2 for bad input
 or flags, 1 for a bug.`,
 		Example: `  phasonhull audit --design testdata/demo/lw0412_design.json testdata/demo/lw0412_cmm.csv
@@ -217,9 +224,12 @@ func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
 			return err
 		}
 	}
-	p, err := f.in.load(path, cmd.InOrStdin())
+	sites, err := f.in.loadSites(path, cmd.InOrStdin())
 	if err != nil {
 		return err
+	}
+	if sites.Plane != nil && f.plot.dir != "" {
+		return errors.New("--plot: the figures of a plate's audit are not drawn yet; leave --plot out")
 	}
 	progress := progressOf(cmd)
 	defer progress.Close()
@@ -227,10 +237,17 @@ func runAudit(cmd *cobra.Command, path string, f *auditCmdFlags) error {
 	if err != nil {
 		return err
 	}
-	progress.Stage(fmt.Sprintf("auditing %s (%d sites)", p.Source, p.Len()))
-	rep, err := audit.Run(cmd.Context(), d, p, opt)
+	var src string
+	var n int
+	if sites.Plane != nil {
+		src, n = sites.Plane.Source, sites.Plane.Len()
+	} else {
+		src, n = sites.Chain.Source, sites.Chain.Len()
+	}
+	progress.Stage(fmt.Sprintf("auditing %s (%d sites)", src, n))
+	rep, err := audit.Sites(cmd.Context(), d, sites, opt)
 	if err != nil {
-		return err
+		return err // a design of the other dimension is the user's to fix
 	}
 	progress.Stage("drawing the figures")
 	f.plot.list = listTo(cmd)

@@ -178,3 +178,32 @@ func TestAuditUnitMismatch(t *testing.T) {
 		t.Errorf("alignment %v", rep["alignment"])
 	}
 }
+
+// audit dispatches on the dimension: the demo plate passes against its
+// spec (exit 0, the JSON a plate's), and a plate against a chain design,
+// or a chain against a plate design, is refused as bad input with the
+// reason.
+func TestAuditPlate(t *testing.T) {
+	plate := filepath.Join("..", "..", "testdata", "demo", "lw0907_plate_scan.csv")
+	spec := filepath.Join("..", "..", "testdata", "demo", "lw0907_plate_design.json")
+	chainDesign := filepath.Join("..", "..", "testdata", "demo", "lw0412_design.json")
+	chain := filepath.Join("..", "..", "testdata", "demo", "lw0412_cmm.csv")
+	code, stdout, stderr := runCmd("audit", "--json", "--design", spec, plate, "--allow-missing", "2", "--allow-extra", "2")
+	if code != exitOK {
+		t.Fatalf("the demo plate: exit %d (%s)", code, stderr)
+	}
+	for _, want := range []string{`"dimension": 2`, `"rotation_degrees"`, `"residual_xy"`} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("the plate's JSON lacks %s", want)
+		}
+	}
+	for name, args := range map[string][]string{
+		"plate against a chain": {"audit", "--design", chainDesign, plate},
+		"chain against a plate": {"audit", "--design", spec, chain},
+	} {
+		code, _, stderr := runCmd(args...)
+		if code != exitInput || !strings.Contains(stderr, "different dimensions") {
+			t.Errorf("%s: exit %d, stderr %q; want %d and the reason", name, code, stderr, exitInput)
+		}
+	}
+}

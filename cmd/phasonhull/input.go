@@ -124,8 +124,8 @@ func (f *inputFlags) load(path string, stdin io.Reader) (*pattern.Pattern, error
 	return pattern.ReadFile(path, opt)
 }
 
-// loadSites reads the chain or plate at path as the flags say
-// (pattern.ReadSites); path "-" reads stdin.
+// loadSites reads the chain or plate at path as the flags say (the one
+// 1D/2D rule of pattern.ReadSites); path "-" reads stdin.
 func (f *inputFlags) loadSites(path string, stdin io.Reader) (pattern.Sites, error) {
 	opt, err := f.options()
 	if err != nil {

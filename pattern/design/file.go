@@ -26,8 +26,12 @@ type File struct {
 	Path string
 	Kind Kind
 	// Pattern is the design's sites: the positions read, or the spec's
-	// unperturbed layout.
+	// unperturbed layout; nil for a plate.
 	Pattern *pattern.Pattern
+	// Plane is the design's sites when they lie in the plane (a plate
+	// family's spec, or centroids pattern.IsPlanar calls planar); nil for
+	// a chain. Exactly one of Pattern and Plane is set.
+	Plane *pattern.Plane
 	// Spec is the spec of a KindSpec file, its perturbations cleared; nil
 	// for positions.
 	Spec *Spec
@@ -36,8 +40,9 @@ type File struct {
 }
 
 // ReadFile reads the design at path. A JSON object with a "family" key is
-// a design Spec (see ReadSpec); anything else is a positions file for
-// pattern.ReadFile. A spec's fabrication perturbations (noise, missing,
+// a design Spec (see ReadSpec), generated as a chain (Pattern) or, for a
+// plate family, a plane (Plane); anything else is a positions file for
+// pattern.ReadSitesFile, a chain or a plane by its one rule. A spec's fabrication perturbations (noise, missing,
 // extra, drift) are cleared, with a note: the design is the unperturbed
 // layout. unit, when not empty, overrides the unit of the file or spec.
 //
@@ -65,19 +70,32 @@ func ReadFile(path, unit string) (*File, error) {
 		if len(left) > 0 {
 			f.Notes = append(f.Notes, "the design spec's fabrication perturbations ("+strings.Join(left, ", ")+") are left out: the design is the unperturbed layout")
 		}
-		if f.Pattern, err = Generate(spec); err != nil {
-			return nil, &pattern.InputError{File: path, Err: err}
+		if spec.Family.Dimension() == 2 {
+			if f.Plane, err = GeneratePlane(spec); err != nil {
+				return nil, &pattern.InputError{File: path, Err: err}
+			}
+			f.Plane.Source = path
+		} else {
+			if f.Pattern, err = Generate(spec); err != nil {
+				return nil, &pattern.InputError{File: path, Err: err}
+			}
+			f.Pattern.Source = path
 		}
-		f.Pattern.Source = path
 		f.Spec = &spec
 	} else {
 		f.Kind = KindPositions
-		if f.Pattern, err = pattern.ReadFile(path, pattern.ReadOptions{Unit: unit}); err != nil {
+		sites, err := pattern.ReadSitesFile(path, pattern.ReadOptions{Unit: unit})
+		if err != nil {
 			return nil, err
 		}
+		f.Pattern, f.Plane = sites.Chain, sites.Plane
 	}
 	if unit != "" {
-		f.Pattern.Unit = unit
+		if f.Plane != nil {
+			f.Plane.Unit = unit
+		} else {
+			f.Pattern.Unit = unit
+		}
 	}
 	return f, nil
 }

@@ -1,6 +1,7 @@
 package register
 
 import (
+	"context"
 	"math"
 	"math/rand/v2"
 	"strconv"
@@ -45,3 +46,32 @@ func BenchmarkRegister(b *testing.B) {
 func sin2pi(u float64) float64 { return math.Sin(2 * math.Pi * u) }
 
 func itoa(n int) string { return strconv.Itoa(n) }
+
+// BenchmarkRegisterPlane registers a side × side square plate with one
+// wave, turned by 7°, scaled by 1 + 3·10⁻⁴ and offset, with noise of 1% of
+// the step.
+func BenchmarkRegisterPlane(b *testing.B) {
+	for _, side := range []int{40, 100} {
+		b.Run("sites="+strconv.Itoa(side*side), func(b *testing.B) {
+			var d [][2]float64
+			for y := range side {
+				for x := range side {
+					u := 0.2763932*float64(x) + 0.1458980*float64(y)
+					d = append(d, [2]float64{float64(x) + 0.1*sin2pi(u), float64(y)})
+				}
+			}
+			rng := rand.New(rand.NewPCG(3, 4))
+			c, s := math.Cos(7*math.Pi/180), math.Sin(7*math.Pi/180)
+			m := make([][2]float64, len(d))
+			for i, p := range d {
+				m[i] = [2]float64{9 + (1+3e-4)*(c*p[0]-s*p[1]) + 0.01*rng.NormFloat64(), -4 + (1+3e-4)*(s*p[0]+c*p[1]) + 0.01*rng.NormFloat64()}
+			}
+			b.ResetTimer()
+			for range b.N {
+				if _, err := RegisterPlane(context.Background(), d, m, PlaneOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

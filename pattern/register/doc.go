@@ -37,6 +37,15 @@
 // do not derail it; both directions are tried, so that a chain measured
 // from its other end is registered too (with a negative scale).
 //
+// RegisterPlane does the same for sites in the plane: the calibration is
+// a similarity (offset, rotation, scale) fitted by the same robust fit;
+// the first calibrations come from the average lattices of both sets
+// (pattern/lattice), one per rotation the lattice allows, and the offset
+// search runs over lattice vectors, so that the modulation of the design
+// decides between alignments a lattice alone cannot tell apart, and the
+// ties it cannot decide are listed (PlaneResult.Ties). Merged and swapped
+// sites are a chain's notions and are not looked for in a plane.
+//
 // The result lists the matched pairs with their residuals, the missing,
 // extra, merged and swapped sites, robust outliers, the calibration
 // with its standard errors, and the cost of the alignment with its ties.

@@ -42,10 +42,26 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 	// The floor keeps exact data (zero residuals) from dividing by zero:
 	// 10⁻⁹ of the mean spacing in measured units.
 	floor := 1e-9 * math.Abs(start.b[1]) * 2 / float64(len(g.d)-1)
+	b, cov, w, err := robustFit(a, y, start.b, floor)
+	if err != nil {
+		return model{}, nil, err
+	}
+	return model{g: g, b: b, cov: cov}, w, nil
+}
 
-	b := append([]float64(nil), start.b...)
+// robustFit fits y ≈ A·b by iteratively reweighted least squares with
+// Tukey's biweight from the coefficients start, as fit describes, and
+// returns the coefficients, Huber's covariance of them and the final
+// weight of each row. floor is the smallest robust sigma taken seriously.
+// The first two coefficients carry the magnitude of the positions (the
+// offset), which bounds the rounding of every step. Registration of
+// chains (fit) and of planes (planeFit) share it: each row is one
+// coordinate of one matched pair.
+func robustFit(a *mat.Dense, y, start []float64, floor float64) (b []float64, cov [][]float64, w []float64, err error) {
+	n, p := a.Dims()
+	b = append([]float64(nil), start...)
 	r := make([]float64, n)
-	w := make([]float64, n)
+	w = make([]float64, n)
 	scratch := make([]float64, n)
 	var sigma float64
 	residuals := func() {
@@ -68,21 +84,21 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 			}
 		}
 		if used < p+1 {
-			return model{}, nil, fmt.Errorf("fitting the calibration: only %d matched site(s) carry weight", used)
+			return nil, nil, nil, fmt.Errorf("fitting the calibration: only %d matched site(s) carry weight", used)
 		}
 		// Solve for the change of b from the current residuals rather
 		// than for b from the positions: the residuals are small, so the
 		// sums of the normal equations lose nothing to rounding.
 		step, err := weightedSolve(a, r, w)
 		if err != nil {
-			return model{}, nil, fmt.Errorf("fitting the calibration: %w", err)
+			return nil, nil, nil, fmt.Errorf("fitting the calibration: %w", err)
 		}
 		moved := 0.0
 		for i := range b {
 			b[i] += step[i]
 			moved = math.Max(moved, math.Abs(step[i]))
 		}
-		// The coefficients are in measured units (t and u² are
+		// The coefficients are in measured units (the columns are
 		// dimensionless) and their standard errors about σ/√N: stop when
 		// they move by less than 10⁻⁴ of that, or by the rounding of b.
 		if moved <= max(1e-4*sigma/math.Sqrt(float64(n)), 4e-16*(math.Abs(b[0])+math.Abs(b[1]))) {
@@ -104,7 +120,7 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 	N, P := float64(n), float64(p)
 	meanD := sumDpsi / N
 	if !(meanD > 0) || n <= p {
-		return model{}, nil, errors.New("fitting the calibration: too few matched sites near the fit for an uncertainty")
+		return nil, nil, nil, errors.New("fitting the calibration: too few matched sites near the fit for an uncertainty")
 	}
 	varD := sumDpsi2/N - meanD*meanD
 	k := 1 + P/N*varD/(meanD*meanD)
@@ -113,20 +129,20 @@ func (g *geometry) fit(pairs []pair, x []float64, start model) (model, []float64
 	ata.SymOuterK(1, a.T())
 	var chol mat.Cholesky
 	if !chol.Factorize(&ata) {
-		return model{}, nil, errors.New("fitting the calibration: the matched design sites do not determine it")
+		return nil, nil, nil, errors.New("fitting the calibration: the matched design sites do not determine it")
 	}
 	var inv mat.SymDense
 	if err := chol.InverseTo(&inv); err != nil {
-		return model{}, nil, fmt.Errorf("fitting the calibration: %w", err)
+		return nil, nil, nil, fmt.Errorf("fitting the calibration: %w", err)
 	}
-	cov := make([][]float64, p)
+	cov = make([][]float64, p)
 	for i := range cov {
 		cov[i] = make([]float64, p)
 		for j := range cov[i] {
 			cov[i][j] = factor * inv.At(i, j)
 		}
 	}
-	return model{g: g, b: b, cov: cov}, w, nil
+	return b, cov, w, nil
 }
 
 // weightedSolve returns the b minimising Σ w_i (y_i − A_i b)² from the

@@ -58,19 +58,34 @@ func (g *geometry) cost(r *run, x, gates []float64) shifted {
 		}
 		c.missing--
 		c.extra--
-		c.cost += (res / gate) * (res / gate)
-		d := 2 * res * sigma / (gate * gate)
-		v += d * d
+		pc, pv := pairCost(res, gate, sigma)
+		c.cost += pc
+		v += pv
 	}
 	c.cost += float64(c.missing + c.extra)
 	c.costErr = math.Sqrt(v)
 	return c
 }
 
+// pairCost returns the cost (res/gate)² of a matched pair whose residual
+// has magnitude res, and the variance of that cost from a residual
+// scatter sigma per coordinate: ∂(res/g)²/∂res = 2·res/g², so
+// (2·res·σ/g²)² (first-order error propagation; common practice). A
+// residual vector r in the plane gives the same, its gradient 2·r/g²
+// having magnitude 2·|r|/g².
+func pairCost(res, gate, sigma float64) (cost, variance float64) {
+	d := 2 * res * sigma / (gate * gate)
+	return (res / gate) * (res / gate), d * d
+}
+
 // ties reports whether candidates a and b tie: their costs differ by no
 // more than TieFactor combined uncertainties.
-func ties(a, b shifted) bool {
-	return math.Abs(a.cost-b.cost) <= TieFactor*math.Hypot(a.costErr, b.costErr)
+func ties(a, b shifted) bool { return costsTie(a.cost, a.costErr, b.cost, b.costErr) }
+
+// costsTie reports whether two alignment costs with their standard
+// uncertainties differ by no more than TieFactor combined uncertainties.
+func costsTie(a, aErr, b, bErr float64) bool {
+	return math.Abs(a-b) <= TieFactor*math.Hypot(aErr, bErr)
 }
 
 // settle searches the offsets of the whole alignment of the converged run

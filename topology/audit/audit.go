@@ -77,6 +77,13 @@ type Design struct {
 // NewDesign analyses the hull of the design read into f.
 func NewDesign(ctx context.Context, f *design.File, opt hull.Options) *Design {
 	d := &Design{File: f}
+	if f.Plane != nil {
+		if f.Spec != nil {
+			d.Reference = &hull.Reference{Family: f.Spec.Family, Rotation: f.Spec.Rotation()}
+		}
+		d.Hull, d.HullErr = analyzePlane(ctx, f.Plane, opt)
+		return d
+	}
 	if f.Spec != nil {
 		ref := hull.SpecReference(*f.Spec)
 		d.Reference = &ref
@@ -97,7 +104,9 @@ const (
 // Report is the result of one audit. Its JSON form is the schema named
 // Schema; lengths are in the sample's unit (Unit).
 type Report struct {
-	Schema        string   `json:"schema"`
+	Schema string `json:"schema"`
+	// Dimension is 2 for a plate (RunPlane); absent for a chain.
+	Dimension     int      `json:"dimension,omitempty"`
 	Verdict       Verdict  `json:"verdict"`
 	Reasons       []string `json:"reasons"`
 	Measured      string   `json:"measured"`
@@ -121,6 +130,9 @@ type Report struct {
 	ScaleErr  *float64 `json:"scale_uncertainty,omitempty"`
 	Drift     *float64 `json:"drift,omitempty"`
 	DriftErr  *float64 `json:"drift_uncertainty,omitempty"`
+	// Transform is the registration of a plate (offset, rotation, scale);
+	// absent for a chain. Scale and ScaleErr repeat its scale.
+	Transform *Transform `json:"transform,omitempty"`
 	// MaxScaleError is the largest relative scale error allowed (a
 	// fraction; Options.MaxScaleError); absent without a design.
 	MaxScaleError *float64 `json:"max_scale_error,omitempty"`
@@ -146,6 +158,10 @@ type Report struct {
 
 	designPos, measuredPos []float64
 	reg                    *register.Result
+	// A plate's: design points in the sample's unit, measured points by
+	// file row, and the registration.
+	designPts, measuredPts [][2]float64
+	reg2                   *register.PlaneResult
 }
 
 // Alignment is the cost of the matching of the registration
@@ -163,12 +179,19 @@ type Alignment struct {
 // whole matching shifted by Shift sites along the sample (sorted
 // ascending), leaving as many sites unmatched, at a cost within
 // register.TieFactor combined uncertainties.
+//
+// For a plate, LatticeShift (in steps of the design's lattice basis),
+// Turn (degrees) and Mirrored say how the tie moves the design
+// (register.PlaneTie), and Shift is 0.
 type Tie struct {
-	Shift   int     `json:"shift"`
-	Cost    float64 `json:"cost"`
-	CostErr float64 `json:"cost_uncertainty"`
-	Missing int     `json:"missing"`
-	Extra   int     `json:"extra"`
+	Shift        int      `json:"shift"`
+	LatticeShift *[2]int  `json:"lattice_shift,omitempty"`
+	Turn         *float64 `json:"turn,omitempty"`
+	Mirrored     bool     `json:"mirrored,omitempty"`
+	Cost         float64  `json:"cost"`
+	CostErr      float64  `json:"cost_uncertainty"`
+	Missing      int      `json:"missing"`
+	Extra        int      `json:"extra"`
 }
 
 // Merge is one measured site midway between two missing design sites.
@@ -186,14 +209,18 @@ type Swap struct {
 }
 
 // Site is one site of the per-site report. Design is absent without a
-// design; WithinTolerance without a tolerance.
+// design; WithinTolerance without a tolerance. For a plate, Point is the
+// measured point, ResidualXY the residual vector, Residual its length and
+// Position 0.
 type Site struct {
-	Design          *int    `json:"design,omitempty"`
-	Measured        int     `json:"measured"`
-	Position        float64 `json:"position"`
-	Residual        float64 `json:"residual"`
-	Outlier         bool    `json:"outlier"`
-	WithinTolerance *bool   `json:"within_tolerance,omitempty"`
+	Design          *int        `json:"design,omitempty"`
+	Measured        int         `json:"measured"`
+	Position        float64     `json:"position"`
+	Point           *[2]float64 `json:"point,omitempty"`
+	ResidualXY      *[2]float64 `json:"residual_xy,omitempty"`
+	Residual        float64     `json:"residual"`
+	Outlier         bool        `json:"outlier"`
+	WithinTolerance *bool       `json:"within_tolerance,omitempty"`
 }
 
 // Flagged reports whether the site is a robust outlier or beyond the
@@ -245,6 +272,9 @@ func Run(ctx context.Context, d *Design, sample *pattern.Pattern, opt Options) (
 	if err := opt.Validate(); err != nil {
 		return nil, err
 	}
+	if d != nil && d.File.Plane != nil {
+		return nil, fmt.Errorf("%w: the sample %s is a chain, the design %s a plate of sites in the plane; audit a chain against a chain design", ErrDimensions, sample.Source, d.File.Path)
+	}
 	rep := &Report{
 		Schema: Schema, Measured: sample.Source, Unit: sample.Unit, MeasuredSites: sample.Len(),
 		MeasuredOrder: "file", Reasons: []string{}, Missing: []int{}, Extra: []int{},
@@ -268,6 +298,13 @@ func Run(ctx context.Context, d *Design, sample *pattern.Pattern, opt Options) (
 	} else if err := a.registerOnDesign(sample); err != nil {
 		return nil, err
 	}
+	a.decide()
+	return rep, nil
+}
+
+// decide applies the verdict rules in order.
+func (a *audit) decide() {
+	rep := a.rep
 	rep.Verdict = Pass
 	for _, r := range rules {
 		if reason := r.check(a); reason != "" {
@@ -277,7 +314,6 @@ func Run(ctx context.Context, d *Design, sample *pattern.Pattern, opt Options) (
 	if len(rep.Reasons) > 0 {
 		rep.Verdict = Fail
 	}
-	return rep, nil
 }
 
 // audit is one audit in progress: the report it fills and what the
@@ -292,6 +328,7 @@ type audit struct {
 	// came with ("" for none), for the scale rule's hint.
 	designUnit, sampleUnit string
 
+	registered  bool                // the sample was registered on the design
 	measuredErr error               // why the sample's hull could not be analysed
 	registerErr error               // why the sample could not be registered
 	noModel     bool                // the sample's hull has no model to screen against
@@ -306,24 +343,9 @@ func (a *audit) registerOnDesign(p *pattern.Pattern) error {
 	dp := d.File.Pattern
 	rep.Design, rep.DesignKind, rep.DesignSites = d.File.Path, string(d.File.Kind), dp.Len()
 	rep.Notes = append(rep.Notes, d.File.Notes...)
-	a.designUnit, a.sampleUnit = dp.Unit, p.Unit
-	maxErr := cmp.Or(a.opt.MaxScaleError, DefaultMaxScaleError)
-	rep.MaxScaleError = &maxErr
-	factor := 1.0
-	switch {
-	case dp.Unit == p.Unit:
-	case dp.Unit == "" || p.Unit == "":
-		known := dp.Unit + p.Unit
-		rep.Notes = append(rep.Notes, fmt.Sprintf("only one of design and sample names a unit (%s): both are taken to be in it", known))
-		if rep.Unit == "" {
-			rep.Unit = known
-		}
-	default:
-		var err error
-		if factor, err = pattern.UnitFactor(dp.Unit, p.Unit); err != nil {
-			return fmt.Errorf("design %s against sample %s: %w", d.File.Path, p.Source, err)
-		}
-		rep.Notes = append(rep.Notes, fmt.Sprintf("the design is in %s and the sample in %s: design positions are multiplied by %g", dp.Unit, p.Unit, factor))
+	factor, err := a.units(dp.Unit, p.Unit, p.Source)
+	if err != nil {
+		return err
 	}
 	rep.designPos = make([]float64, dp.Len())
 	for i, x := range dp.Positions {
@@ -344,10 +366,37 @@ func (a *audit) registerOnDesign(p *pattern.Pattern) error {
 	return nil
 }
 
+// units notes how the design's unit relates to the sample's and returns
+// the factor that converts design lengths to the sample's unit; an error
+// for units that cannot be compared.
+func (a *audit) units(designUnit, sampleUnit, source string) (float64, error) {
+	rep := a.rep
+	a.designUnit, a.sampleUnit = designUnit, sampleUnit
+	maxErr := cmp.Or(a.opt.MaxScaleError, DefaultMaxScaleError)
+	rep.MaxScaleError = &maxErr
+	factor := 1.0
+	switch {
+	case designUnit == sampleUnit:
+	case designUnit == "" || sampleUnit == "":
+		known := designUnit + sampleUnit
+		rep.Notes = append(rep.Notes, fmt.Sprintf("only one of design and sample names a unit (%s): both are taken to be in it", known))
+		if rep.Unit == "" {
+			rep.Unit = known
+		}
+	default:
+		var err error
+		if factor, err = pattern.UnitFactor(designUnit, sampleUnit); err != nil {
+			return 0, fmt.Errorf("design %s against sample %s: %w", a.design.File.Path, source, err)
+		}
+		rep.Notes = append(rep.Notes, fmt.Sprintf("the design is in %s and the sample in %s: design positions are multiplied by %g", designUnit, sampleUnit, factor))
+	}
+	return factor, nil
+}
+
 // fillRegistration copies a registration into the report.
 func (a *audit) fillRegistration(reg *register.Result) {
 	rep := a.rep
-	rep.reg = reg
+	rep.reg, a.registered = reg, true
 	rep.Matched = len(reg.Matches)
 	rep.Offset, rep.OffsetErr = &reg.Offset, &reg.OffsetErr
 	rep.Scale, rep.ScaleErr = &reg.Scale, &reg.ScaleErr

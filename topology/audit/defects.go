@@ -30,14 +30,20 @@ type Defect struct {
 	// the design site.
 	Position float64
 	// Residual is the measured minus the calibrated design position, for
-	// outliers and sites out of tolerance (0 otherwise).
+	// outliers and sites out of tolerance (0 otherwise); for a plate, the
+	// length of the residual vector.
 	Residual float64
+	// Point is where the site is on a plate (Position is then 0).
+	Point *[2]float64
 }
 
 // Defects lists every flagged site of the report, ordered by position. A
 // site that is both an outlier and out of tolerance is listed once, as out
 // of tolerance.
 func (r *Report) Defects() []Defect {
+	if r.reg2 != nil {
+		return r.planeDefects()
+	}
 	var out []Defect
 	for i, p := range r.MissingAt() {
 		out = append(out, Defect{Kind: DefectMissing, Design: []int{r.Missing[i]}, Position: p})
@@ -74,5 +80,33 @@ func (r *Report) Defects() []Defect {
 		out = append(out, d)
 	}
 	slices.SortStableFunc(out, func(a, b Defect) int { return cmp.Compare(a.Position, b.Position) })
+	return out
+}
+
+// planeDefects is Defects for a plate, ordered by y, then x.
+func (r *Report) planeDefects() []Defect {
+	var out []Defect
+	for i, p := range r.missingAtPlane() {
+		out = append(out, Defect{Kind: DefectMissing, Design: []int{r.Missing[i]}, Point: &p})
+	}
+	for _, k := range r.Extra {
+		p := r.measuredPts[k]
+		out = append(out, Defect{Kind: DefectExtra, Measured: []int{k}, Point: &p})
+	}
+	for _, s := range r.Sites {
+		kind := ""
+		switch {
+		case s.WithinTolerance != nil && !*s.WithinTolerance:
+			kind = DefectOutOfTolerance
+		case s.Outlier:
+			kind = DefectOutlier
+		default:
+			continue
+		}
+		out = append(out, Defect{Kind: kind, Design: []int{*s.Design}, Measured: []int{s.Measured}, Point: s.Point, Residual: s.Residual})
+	}
+	slices.SortStableFunc(out, func(a, b Defect) int {
+		return cmp.Or(cmp.Compare(a.Point[1], b.Point[1]), cmp.Compare(a.Point[0], b.Point[0]))
+	})
 	return out
 }

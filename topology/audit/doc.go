@@ -45,6 +45,16 @@
 // Robust outliers (beyond register.OutlierFactor robust sigmas) are
 // reported but decide nothing unless a tolerance is given.
 //
+// # Plates
+//
+// RunPlane audits a plate against a plate design by the same rules: the
+// registration is a similarity (register.RegisterPlane), residuals are
+// vectors whose lengths meet the tolerance and the outlier cut, merged and
+// swapped sites are not looked for, and the hull agreement compares the
+// rotation matrices as modules (any integer change of lattice basis or
+// torus coordinates is the same hull). Sites dispatches on the dimension
+// and refuses a design and a sample of different dimensions.
+//
 // # Indices
 //
 // Indices are 0-based: design indices count design sites in ascending

@@ -43,22 +43,22 @@ var rules = [...]rule{
 		return fmt.Sprintf("the sample could not be registered on the design: %v", a.registerErr)
 	}},
 	{"scale", func(a *audit) string {
-		reg := a.rep.reg
-		if reg == nil {
+		if !a.registered {
 			return ""
 		}
+		scale, scaleErr := *a.rep.Scale, *a.rep.ScaleErr
 		maxErr := *a.rep.MaxScaleError
-		if math.Abs(math.Abs(reg.Scale)-1) <= maxErr {
+		if math.Abs(math.Abs(scale)-1) <= maxErr {
 			return ""
 		}
-		reason := fmt.Sprintf("the registration scale %.6g ± %.2g is outside 1 ± %g (--max-scale-error)", reg.Scale, reg.ScaleErr, maxErr)
-		if hint := likelyUnits(reg.Scale, reg.ScaleErr, maxErr, a.designUnit, a.sampleUnit); hint != "" {
+		reason := fmt.Sprintf("the registration scale %.6g ± %.2g is outside 1 ± %g (--max-scale-error)", scale, scaleErr, maxErr)
+		if hint := likelyUnits(scale, scaleErr, maxErr, a.designUnit, a.sampleUnit); hint != "" {
 			reason += ": " + hint
 		}
 		return reason
 	}},
 	{"missing", func(a *audit) string {
-		if a.rep.reg == nil || len(a.rep.Missing) <= a.opt.AllowMissing {
+		if !a.registered || len(a.rep.Missing) <= a.opt.AllowMissing {
 			return ""
 		}
 		return fmt.Sprintf("%d design site(s) missing, %d allowed", len(a.rep.Missing), a.opt.AllowMissing)
@@ -68,7 +68,7 @@ var rules = [...]rule{
 		switch {
 		case n <= a.opt.AllowExtra:
 			return ""
-		case a.rep.reg != nil:
+		case a.registered:
 			return fmt.Sprintf("%d extra measured site(s), %d allowed", n, a.opt.AllowExtra)
 		case a.screen != nil:
 			return fmt.Sprintf("%d site(s) look spurious to the hull analysis (left out of its model), %d allowed", n, a.opt.AllowExtra)
@@ -86,7 +86,7 @@ var rules = [...]rule{
 		switch {
 		case beyond == 0:
 			return ""
-		case a.rep.reg != nil:
+		case a.registered:
 			return fmt.Sprintf("%d matched site(s) beyond the tolerance of %g%s (largest residual %.4g%s)", beyond, a.tol, u, a.rep.Max, u)
 		}
 		return fmt.Sprintf("%d site(s) beyond the tolerance of %g%s from the sample's own hull model (largest %.4g%s)", beyond, a.tol, u, a.rep.Max, u)

@@ -29,7 +29,16 @@ func (r *Report) WriteText(w io.Writer) error {
 		fmt.Fprintf(&b, "audit       %s against its own hull (no design given)\n", r.Measured)
 		fmt.Fprintf(&b, "sites       %d, %d in the hull model, %d left out as spurious\n", r.MeasuredSites, r.Matched, len(r.Extra))
 	}
-	if r.Scale != nil {
+	if t := r.Transform; t != nil {
+		fmt.Fprintf(&b, "calibration offset (%s, %s)%s, rotation %s°, scale %s (%s ppm)\n",
+			notation.PlusMinus(t.Offset[0], t.OffsetErr[0]), notation.PlusMinus(t.Offset[1], t.OffsetErr[1]), u,
+			notation.PlusMinus(t.Rotation, t.RotationErr), notation.PlusMinus(t.Scale, t.ScaleErr), signed(notation.PlusMinus((t.Scale-1)*1e6, t.ScaleErr*1e6)))
+		if t.Mirrored {
+			fmt.Fprintf(&b, "            x = offset + scale·R(rotation)·F·d, F the reflection (x, y) → (x, −y): the sample is the design's mirror image\n")
+		} else {
+			fmt.Fprintf(&b, "            x = offset + scale·R(rotation)·d\n")
+		}
+	} else if r.Scale != nil {
 		ppm := notation.PlusMinus((math.Abs(*r.Scale)-1)*1e6, *r.ScaleErr*1e6)
 		if !strings.HasPrefix(ppm, "-") {
 			ppm = "+" + ppm
@@ -70,6 +79,13 @@ func (r *Report) WriteText(w io.Writer) error {
 			fmt.Fprintf(&b, "tolerance   %.4g%s: %d site(s) beyond\n", *r.Tolerance, u, n)
 		}
 	}
+	pt := func(q [2]float64) string { return fmt.Sprintf("(%.6g, %.6g)%s", q[0], q[1], u) }
+	if at := r.missingAtPlane(); at != nil {
+		list(&b, "missing", len(r.Missing), func(i int) string {
+			j := r.Missing[i]
+			return fmt.Sprintf("design #%d at %s, expected at %s", j, pt(r.designPts[j]), pt(at[i]))
+		})
+	}
 	if at := r.MissingAt(); at != nil {
 		list(&b, "missing", len(r.Missing), func(i int) string {
 			j := r.Missing[i]
@@ -78,6 +94,9 @@ func (r *Report) WriteText(w io.Writer) error {
 	}
 	list(&b, "extra", len(r.Extra), func(i int) string {
 		k := r.Extra[i]
+		if r.measuredPts != nil {
+			return fmt.Sprintf("measured #%d at %s", k, pt(r.measuredPts[k]))
+		}
 		return fmt.Sprintf("measured #%d at %.6g%s", k, r.measuredPos[k], u)
 	})
 	list(&b, "merged", len(r.Merged), func(i int) string {
@@ -104,6 +123,9 @@ func (r *Report) WriteText(w io.Writer) error {
 		if s.Design != nil {
 			at = fmt.Sprintf("design #%d (measured #%d)", *s.Design, s.Measured)
 		}
+		if s.Point != nil {
+			return fmt.Sprintf("%s at %s: residual (%+.4g, %+.4g)%s, length %.4g%s (%.1f sigma)", at, pt(*s.Point), s.ResidualXY[0], s.ResidualXY[1], u, s.Residual, u, s.Residual/r.Sigma)
+		}
 		return fmt.Sprintf("%s at %.6g%s: residual %+.4g%s (%.1f sigma)", at, s.Position, u, s.Residual, u, math.Abs(s.Residual)/r.Sigma)
 	})
 	h := r.Hull
@@ -125,6 +147,17 @@ func (r *Report) WriteText(w io.Writer) error {
 		}
 		fmt.Fprintf(&b, "            spec:   angle(s) %s exactly (%s family)\n", strings.Join(s, ", "), h.Reference.Family)
 	}
+	if h.Reference != nil && len(h.Reference.Rotation) > 0 {
+		rows := make([]string, len(h.Reference.Rotation))
+		for i, row := range h.Reference.Rotation {
+			e := make([]string, len(row))
+			for j, x := range row {
+				e[j] = strconv.FormatFloat(x, 'g', 10, 64)
+			}
+			rows[i] = "(" + strings.Join(e, ", ") + ")"
+		}
+		fmt.Fprintf(&b, "            spec:   A = %s exactly (%s family)\n", strings.Join(rows, "; "), h.Reference.Family)
+	}
 	if c := h.Comparison; c != nil {
 		fmt.Fprintf(&b, "            %s\n", c.Verdict)
 		for _, n := range c.Notes {
@@ -141,6 +174,14 @@ func (r *Report) WriteText(w io.Writer) error {
 	}
 	_, err := w.Write(b.Bytes())
 	return err
+}
+
+// signed puts a plus sign before a non-negative number.
+func signed(s string) string {
+	if strings.HasPrefix(s, "-") {
+		return s
+	}
+	return "+" + s
 }
 
 // list writes up to maxListed entries of a defect list.
@@ -163,6 +204,17 @@ func hullLine(r *hull.Result) string {
 	s := string(r.Hull.Class)
 	if r.Hull.Period > 0 {
 		s += fmt.Sprintf(", period %d", r.Hull.Period)
+	}
+	if len(r.Rotation) > 0 {
+		rows := make([]string, len(r.Rotation))
+		for i, row := range r.Rotation {
+			e := make([]string, len(row))
+			for j, x := range row {
+				e[j] = notation.PlusMinus(x, r.RotationUncertainty[i][j])
+			}
+			rows[i] = "(" + strings.Join(e, ", ") + ")"
+		}
+		s += ", A = " + strings.Join(rows, "; ")
 	}
 	for i, a := range r.Angles {
 		sub := ""

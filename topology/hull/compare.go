@@ -72,6 +72,10 @@ type Reference struct {
 	// Angles are the exact angles, folded into [0, ½] and sorted; nil when
 	// the spec does not fix them.
 	Angles []float64 `json:"angles,omitempty"`
+	// Rotation is the exact rotation matrix of a plate family's spec
+	// (design.Spec.Rotation), d rows of 2 numbers in turns per lattice
+	// step; nil for a chain.
+	Rotation [][]float64 `json:"rotation,omitempty"`
 	// Note says why something is not fixed ("" when all is).
 	Note string `json:"note,omitempty"`
 }
@@ -179,6 +183,9 @@ func CompareWith(design, measured *Result, ref *Reference) Comparison {
 		return c
 	}
 
+	if design.Dimension == 2 && measured.Dimension == 2 {
+		return comparePlanes(c, design, measured, ref)
+	}
 	// Circle or torus: angles against the design's analysis, and against
 	// the reference when it fixes them.
 	modelTol := 0.0
