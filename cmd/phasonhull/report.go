@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
@@ -15,6 +17,7 @@ import (
 	"phasonhull/pattern"
 	"phasonhull/pattern/lattice"
 	"phasonhull/topology/audit"
+	"phasonhull/topology/budget"
 	"phasonhull/topology/hull"
 	"phasonhull/topology/spectrum"
 )
@@ -123,9 +126,10 @@ func (f *plotFlags) write(pics []*picture.Picture) error {
 
 // reportFlags holds the flags of "phasonhull report".
 type reportFlags struct {
-	in    inputFlags
-	audit auditFlags
-	out   string
+	in     inputFlags
+	audit  auditFlags
+	out    string
+	budget string
 }
 
 // newReportCmd builds "phasonhull report".
@@ -143,6 +147,9 @@ does, when --design is given) and writes into DIR:
                  embedded in the page) and notes on reading the figures
   analysis.json  the analysis, as analyze --json prints it
   audit.json     the audit, as audit --json prints it (with --design only)
+
+With --budget FILE (what budget --json printed for the design) the page
+also shows the fabrication error budget.
 
 DIR is created; it must not hold an input file. Either every file is
 written or none: they are staged out of sight and put in place in one short
@@ -162,8 +169,10 @@ does not change the exit status.`,
 	f.in.register(fs)
 	f.audit.register(fs)
 	fs.StringVarP(&f.out, "out", "o", "", "write the report into `DIR` (required)")
+	fs.StringVar(&f.budget, "budget", "", "add the fabrication error budget in `FILE` (the output of budget --json) to the page")
 	outfile.FileArgs(cmd)
 	outfile.Mark(cmd.Flags(), outfile.Input, "design")
+	outfile.Mark(cmd.Flags(), outfile.Input, "budget")
 	outfile.Mark(cmd.Flags(), outfile.OutputDir, "out")
 	return cmd
 }
@@ -189,8 +198,11 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 	if err != nil {
 		return err
 	}
-	progress.Stage("analysing " + sitesName(sites))
 	var page report.Page
+	if page.Budget, err = readBudget(f.budget); err != nil {
+		return err
+	}
+	progress.Stage("analysing " + sitesName(sites))
 	var res *hull.Result
 	var l *lattice.Lattice
 	if d == nil {
@@ -250,4 +262,26 @@ func runReport(cmd *cobra.Command, path string, f *reportFlags) error {
 		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(f.out, file.Name))
 	}
 	return nil
+}
+
+// readBudget reads the budget --json output at path for the page; nil
+// without a path.
+func readBudget(path string) (*report.Budget, error) {
+	if path == "" {
+		return nil, nil
+	}
+	fh, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("--budget: %w", err)
+	}
+	defer fh.Close()
+	res, err := budget.ReadJSON(fh)
+	if err != nil {
+		return nil, fmt.Errorf("--budget %s: %w", path, err)
+	}
+	var b strings.Builder
+	if err := res.WriteText(&b); err != nil {
+		return nil, internalErr(err)
+	}
+	return &report.Budget{Design: res.Source, Text: b.String()}, nil
 }

@@ -322,3 +322,39 @@ func TestPlotListsFilesWritten(t *testing.T) {
 		t.Errorf("--quiet: exit %d, stderr %q, same stdout %v", code, quietErr, quietOut == out)
 	}
 }
+
+// TestReportBudget: --budget adds the budget --json of a design to the
+// page, with its verdict line; a file that is not a budget is refused and
+// nothing is written.
+func TestReportBudget(t *testing.T) {
+	dir := t.TempDir()
+	code, js, stderr := runCmd("budget", "--design", demoDesign, "--hopping", "exp", "--decay", "3",
+		"--sigma", "0.1mm", "--trials", "20", "--hull-trials", "0", "--edge-trials", "0", "--json", "--quiet")
+	if code != 0 {
+		t.Fatalf("budget: exit %d: %s", code, stderr)
+	}
+	saved := filepath.Join(dir, "budget.json")
+	if err := os.WriteFile(saved, []byte(js), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "rep")
+	if code, _, stderr := runCmd("report", demoSample, "--budget", saved, "--out", out, "--quiet"); code != 0 {
+		t.Fatalf("report --budget: exit %d: %s", code, stderr)
+	}
+	page, err := os.ReadFile(filepath.Join(out, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"Fabrication error budget of", "20 trials per level", "(0, 1)"} {
+		if !strings.Contains(string(page), want) {
+			t.Errorf("the page lacks %q", want)
+		}
+	}
+	bad := filepath.Join(dir, "bad")
+	if code, _, stderr := runCmd("report", demoSample, "--budget", demoDesign, "--out", bad); code != exitInput || !strings.Contains(stderr, "budget --json") {
+		t.Errorf("report --budget on a design: exit %d, %q", code, stderr)
+	}
+	if _, err := os.Stat(bad); err == nil {
+		t.Error("a refused report left its folder behind")
+	}
+}

@@ -2,8 +2,10 @@ package budget
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"runtime"
 	"slices"
@@ -457,4 +459,18 @@ func sd(v []float64) float64 {
 		s += (x - m) * (x - m)
 	}
 	return math.Sqrt(s / float64(len(v)-1))
+}
+
+// ReadJSON reads a Result as "phasonhull budget --json" writes it,
+// refusing another schema.
+func ReadJSON(r io.Reader) (*Result, error) {
+	var res Result
+	dec := json.NewDecoder(r)
+	if err := dec.Decode(&res); err != nil {
+		return nil, fmt.Errorf("reading a budget: %w", err)
+	}
+	if res.Schema != Schema {
+		return nil, fmt.Errorf("reading a budget: schema %q, want %q (the output of budget --json)", res.Schema, Schema)
+	}
+	return &res, nil
 }

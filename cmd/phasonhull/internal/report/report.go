@@ -27,10 +27,21 @@ type Page struct {
 	Analysis *hull.Result
 	// Audit is the audit against a design; nil without one.
 	Audit *Audit
+	// Budget is the fabrication error budget of a design, as its text
+	// form; nil without one.
+	Budget *Budget
 	// Figures are drawn in this order.
 	Figures []Figure
 	// Files are written next to report.html and linked from it.
 	Files []File
+}
+
+// Budget is a fabrication error budget as the page shows it: the design
+// it was run on and its text form (the table, the budget and its Monte
+// Carlo error, the notes on what the figure means).
+type Budget struct {
+	Design string
+	Text   string
 }
 
 // Audit is the part of an audit the page shows.
@@ -136,6 +147,7 @@ func Write(dir string, p *Page) error {
 type viewModel struct {
 	R        *hull.Result
 	Audit    *Audit
+	Budget   *Budget
 	Summary  [][2]string
 	Labels   []labelRow
 	Blurred  bool
@@ -162,7 +174,7 @@ const maxLabels = 16
 
 func view(p *Page) viewModel {
 	r := p.Analysis
-	v := viewModel{R: r, Audit: p.Audit}
+	v := viewModel{R: r, Audit: p.Audit, Budget: p.Budget}
 	add := func(k, val string) { v.Summary = append(v.Summary, [2]string{k, val}) }
 	unit := r.Unit
 	if unit == "" {
@@ -356,7 +368,10 @@ code { font-size: .92em; }
 {{end}}</table>
 {{else}}<p>No site is missing, extra, merged, swapped, an outlier or out of tolerance.</p>{{end}}
 {{end}}
-<h2>Gap labels</h2>
+{{with .Budget}}<h2>Fabrication error budget of {{.Design}}</h2>
+<p>Simulated fabrications of the design (budget --json): for each position error, the share of samples in which each labelled gap stays open, with its 95% interval; the budget is the largest error keeping the target gap open with the probability asked for, with its Monte Carlo bracket. It holds for the error model and coupling law it was run with.</p>
+<pre>{{.Text}}</pre>
+{{end}}<h2>Gap labels</h2>
 {{if .Labels}}<table>
 <tr><th>IDS</th><th>coefficients</th></tr>
 {{range .Labels}}<tr><td>{{.IDS}}</td><td>{{.Coeffs}}{{if .Blurred}} ?{{end}}</td></tr>
