@@ -43,7 +43,7 @@ import (
 func (a *analysis) measureAngles(ctx context.Context, k, p int) (string, error) {
 	var rough []float64
 	if p <= 1 {
-		coords, err := a.reading.coordinates(a.cloud, k)
+		coords, err := a.reading.coordinates(ctx, a.cloud, k, a.opt)
 		if errors.Is(err, topology.ErrDisconnected) {
 			// The loops stand out, but at their scale the landmarks fall
 			// apart into pieces the H0 bars did not count as components

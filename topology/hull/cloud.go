@@ -97,9 +97,9 @@ const (
 	componentGap   = 3
 	// torusLandmarks is the least number of landmarks H2 is computed on.
 	torusLandmarks = 300
-	// maxTorus3Landmarks bounds the landmarks a cloud that may be a
-	// three-torus is read on (see torus3Landmarks).
-	maxTorus3Landmarks = 1000
+	// maxDenseLandmarks bounds the landmarks of the denser cover a
+	// cloud is read on again (see denserCover).
+	maxDenseLandmarks = 1000
 )
 
 // A three-torus needs a denser cover than a two-torus. Its loops and
@@ -109,32 +109,58 @@ const (
 // larger: on the whitened cloud of three angles (six directions) 300
 // landmarks leave δ ≈ 1.0 against loops of persistence ≈ 1.3.
 //
-// So when the cloud has room for a three-torus (at least six directions
-// above noise) and three loops stand above half the threshold τ (the
-// stability bound used at its worst case, see the significance rule) and
-// above noise and sampling gap, the
-// barcodes are read again on a denser landmark set, its size chosen so
-// that the cover radius falls to half the third loop's persistence: the
-// cover radius of N landmarks on a d-dimensional hull falls as N^(−1/d),
-// so N' = N·(2δ/P₃)³ with P₃ the third loop's persistence at δ, bounded by
-// maxTorus3Landmarks. The rule itself is unchanged: τ is 2·max(δ', ε)
-// of the denser set, and 3·s.
+// Hulls of several components (a cell of p sites decorating two angles:
+// p two-tori) meet the same wall from the other term of the sampling
+// scale: at 300 landmarks the gaps inside each component are not yet
+// componentGap times shorter than the gaps between them, so the components
+// are not told apart, ε is half a gap between components, and the 2p loops
+// (persistence ≈ 1.3–1.8) stay under τ = 2ε ≈ 2.
 //
-// That barcode is computed up to the scale at which the first of the three
+// So when a cloud has loops that stand above half the threshold τ (the
+// stability bound used at its worst case, see the significance rule) and
+// above the noise term but that no reading so far counts — three loops in
+// a cloud with room for a three-torus (six directions or more above
+// noise), or 2p loops (p ≥ 2) in one with room for p two-tori (four or
+// more) of which fewer than two stand above τ and above the sampling gap
+// — its main landmark set is read again on a denser cover, its size
+// chosen so that the sampling scale falls to half the k-th loop's
+// persistence P_k (k = 3, or 2p): the cover radius of N landmarks on a
+// d-dimensional hull falls as N^(−1/d), and so do the gaps inside each
+// component, so N' = N·(2·max(δ, ε)/P_k)^d with d = 3 or 2, bounded by
+// maxDenseLandmarks. Once the gaps inside the components are short
+// enough, the components are told apart and ε is measured inside them.
+// The rule itself is unchanged: τ is 2·max(δ', ε') of the denser set, and
+// 3·s; a denser cover that still shows no class leaves the chain
+// unresolved, as before.
+//
+// That barcode is computed up to the scale at which the first of the k
 // loops closes (its death in the sparser barcode), not to the cloud's
-// radius: the complex grows steeply past it (a 3-torus has many short-lived
-// 2-cycles born where its loops die) and a 2-cycle of the hull has been
-// born long before. A bar still alive at that cut counts with the
-// persistence it has reached there, a lower bound of its own: the cut can
-// only leave a long bar uncounted, never count a short one. H3 is not
-// computed; b3 = 1 of a three-torus is not checked, (1, 3, 3) already
+// radius: the complex grows steeply past it (a 3-torus has many
+// short-lived 2-cycles born where its loops die) and a 2-cycle of the
+// hull has been born long before. A bar still alive at that cut counts
+// with the persistence it has reached there, a lower bound of its own: the
+// cut can only leave a long bar uncounted, never count a short one. H3 is
+// not computed; b3 = 1 of a three-torus is not checked, (1, 3, 3) already
 // names no other hull p·C(d, k).
-func torus3Landmarks(n int, cover, p3 float64) int {
-	if !(p3 > 0) {
-		return maxTorus3Landmarks
+func denserCover(bars []rips.Bar, n, directions int, cover, eps, tau, noise, merge float64) (landmarks int, cut float64, ok bool) {
+	loops := loopBars(bars, math.Max(tau/2, noiseFactor*noise), merge, 2*maxComponents)
+	var k, d int
+	switch {
+	case directions >= 6 && len(loops) >= 3:
+		k, d = 3, 3
+	case directions >= 4 && len(loops) >= 4 && len(loops)%2 == 0 &&
+		len(loopBars(bars, math.Max(samplingFactor*eps, noiseFactor*noise), merge, 2)) < 2:
+		k, d = len(loops), 2
+	default:
+		return 0, 0, false
 	}
-	want := float64(n) * math.Pow(2*cover/p3, 3)
-	return int(min(max(want, torusLandmarks), maxTorus3Landmarks))
+	cut = math.Inf(1)
+	for _, l := range loops[:k] {
+		cut = min(cut, l.Death)
+	}
+	pk := loops[k-1].Persistence()
+	want := float64(n) * math.Pow(2*math.Max(cover, eps)/pk, float64(d))
+	return int(min(max(want, torusLandmarks), maxDenseLandmarks)), cut, true
 }
 
 // reading is what the barcodes of a cloud say, over its landmark
@@ -150,11 +176,14 @@ type reading struct {
 	persistence Persistence
 	// diagram is the main barcode, with cocycles, and landmarks the points
 	// behind it. A main barcode read up to a cut has its cocycles in
-	// cocycles instead: the H1 barcode of the same landmarks to the
-	// cloud's radius, whose bars all end.
+	// cocycles instead, once coordinates has computed them: the H1
+	// barcode of the same landmarks to the cloud's radius, whose bars all
+	// end.
 	diagram   *rips.Diagram
 	cocycles  *rips.Diagram
 	landmarks [][]float64
+	// plan is how the main set was read, for the subsamples to follow.
+	plan densePlan
 	// eps and merge are the main barcode's sampling gap and the scale at
 	// which its components merge (+Inf for one).
 	eps, merge float64
@@ -165,6 +194,10 @@ type reading struct {
 // reads their Betti numbers by the significance rule. A cloud that may be
 // a torus has its main landmark set made denser first: c.landmarkIdx,
 // c.landmarks and c.cover are updated.
+//
+// The main set is read first and fixes how the others are read (see
+// densePlan): the subsamples confirm the main reading, they do not search
+// for one of their own.
 func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) {
 	if c.components >= 4 && opt.Landmarks < torusLandmarks && len(c.landmarkIdx) < len(c.points) {
 		idx, cover, err := embed.Landmarks(c.points, torusLandmarks, opt.Seed)
@@ -175,16 +208,27 @@ func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) 
 	}
 	nLandmarks := max(opt.Landmarks, len(c.landmarkIdx))
 
-	// The landmark sets are read side by side, on as many goroutines as
-	// the engine may use: each is independent of the others, and the
-	// readings are gathered in order, so the result does not depend on
-	// the number of workers.
 	r := &reading{}
 	readings := make([]bettiReading, opt.Subsamples)
+	var err error
+	if readings[0], err = barcodes(ctx, c, c.landmarks, c.cover, opt, opt.Seed, nil, r); err != nil {
+		return nil, err
+	}
+	follow := r.plan
+	if _, _, named := namedByBetti(readings[0].betti); follow.dense && !named {
+		// The denser cover named no class: the verdict cannot be one,
+		// and the subsamples are read on the sparser cover.
+		follow = densePlan{}
+	}
+
+	// The other landmark sets are read side by side, on as many
+	// goroutines as the engine may use: each is independent of the
+	// others, and the readings are gathered in order, so the result does
+	// not depend on the number of workers.
 	errs := make([]error, opt.Subsamples)
 	sem := make(chan struct{}, workers(opt))
 	var wg sync.WaitGroup
-	for s := range opt.Subsamples {
+	for s := 1; s < opt.Subsamples; s++ {
 		wg.Add(1)
 		sem <- struct{}{}
 		go func() {
@@ -193,19 +237,16 @@ func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) 
 				errs[s] = err
 				return
 			}
-			var lm [][]float64
-			var cover float64
-			if s == 0 {
-				lm, cover = c.landmarks, c.cover
-			} else {
-				idx, cv, err := embed.Landmarks(c.points, nLandmarks, opt.Seed+uint64(s))
-				if err != nil {
-					errs[s] = err
-					return
-				}
-				lm, cover = pick(c.points, idx), cv
+			n := nLandmarks
+			if follow.dense {
+				n = follow.landmarks
 			}
-			readings[s], errs[s] = barcodes(ctx, c, lm, cover, opt, opt.Seed+uint64(s), s == 0, r)
+			idx, cover, err := embed.Landmarks(c.points, n, opt.Seed+uint64(s))
+			if err != nil {
+				errs[s] = err
+				return
+			}
+			readings[s], errs[s] = barcodes(ctx, c, pick(c.points, idx), cover, opt, opt.Seed+uint64(s), &follow, r)
 		}()
 	}
 	wg.Wait()
@@ -215,15 +256,39 @@ func readBarcodes(ctx context.Context, c *cloud, opt Options) (*reading, error) 
 		}
 	}
 	main := readings[0]
+	// The sets vote with readings made the same way: when the subsamples
+	// stayed on the sparser cover, the main set votes with its reading
+	// there.
+	ref := main.betti
+	if r.plan.dense && !follow.dense {
+		ref = main.sparse
+		readings[0].betti = ref
+	}
 	votes := map[[3]int]int{}
 	for _, br := range readings {
 		votes[br.betti]++
 		r.persistence.Subsamples = append(r.persistence.Subsamples, br.betti[:])
 	}
 	r.betti = main.betti
-	r.confidence = float64(votes[r.betti]) / float64(opt.Subsamples)
+	r.confidence = float64(votes[ref]) / float64(opt.Subsamples)
 	r.band = main.band
 	return r, nil
+}
+
+// densePlan is how the main landmark set was read, for the subsamples to
+// follow: whether it was read again on a denser cover (see denserCover),
+// on how many landmarks and up to which scale. When the main set's denser
+// reading names a class, every subsample is read straight on a cover of
+// as many landmarks, up to the same cut: the same question asked of other
+// landmarks. Otherwise the verdict cannot be a class the barcodes name,
+// and the subsamples skip the denser cover: they are read on the sparser
+// one, and the confidence is their agreement with the main set's reading
+// there. Either way the class is the main set's reading; the subsamples
+// only set the confidence.
+type densePlan struct {
+	dense     bool
+	landmarks int
+	cut       float64
 }
 
 // workers is the number of landmark sets read at once: Options.Workers,
@@ -239,9 +304,20 @@ func workers(o Options) int {
 // of c for the k most persistent loops of the main barcode (de Silva,
 // Morozov & Vejdemo-Johansson 2011): coordinates[i][j] is the i-th
 // coordinate of point j.
-func (r *reading) coordinates(c *cloud, k int) ([][]float64, error) {
+//
+// A main barcode read up to a cut (see denserCover) has bars alive there,
+// whose cocycles give no scale: the cocycles then come from the H1 barcode
+// of the same landmarks to the cloud's radius, computed here once.
+func (r *reading) coordinates(ctx context.Context, c *cloud, k int, o Options) ([][]float64, error) {
 	dg := r.diagram
-	if r.cocycles != nil {
+	if r.persistence.MaxScale > 0 {
+		if r.cocycles == nil {
+			h1, err := rips.VietorisRipsContext(ctx, r.landmarks, rips.Options{MaxDim: 1, Prime: cocyclePrime, Cocycles: true, MemoryBudget: o.MemoryBudget, Workers: o.Workers})
+			if err != nil {
+				return nil, err
+			}
+			r.cocycles = h1
+		}
 		dg = r.cocycles
 	}
 	cocycles, err := topCocycles(dg, k)
@@ -340,7 +416,7 @@ func (r *reading) componentCoordinates(ctx context.Context, c *cloud, k int, opt
 			return nil, err
 		}
 		sr := &reading{diagram: dg, landmarks: sub}
-		cc, err := sr.coordinates(&cloud{points: pick(c.points, out[ci].points)}, k)
+		cc, err := sr.coordinates(ctx, &cloud{points: pick(c.points, out[ci].points)}, k, opt)
 		if err != nil {
 			return nil, fmt.Errorf("component %d: %w", ci+1, err)
 		}
@@ -382,48 +458,65 @@ func topCocycles(dg *rips.Diagram, k int) ([]rips.Cocycle, error) {
 type bettiReading struct {
 	betti [3]int
 	band  []float64
+	// sparse is the reading of the main set before it was read again on
+	// a denser cover for a possible three-torus.
+	sparse [3]int
 }
 
 // barcodes computes the barcode of one landmark set lm of c and reads its
-// Betti numbers; the main set's barcode and figures go into r. H2 is
+// Betti numbers; the main set (follow nil) has its barcode, its figures and
+// its densePlan go into r, a subsample follows the main set's plan. H2 is
 // computed only when H1 shows two loops or more: a circle needs no H2, a
 // torus does.
-func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Options, seed uint64, main bool, r *reading) (bettiReading, error) {
+func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Options, seed uint64, follow *densePlan, r *reading) (bettiReading, error) {
+	main := follow == nil
 	opt := rips.Options{MaxDim: 1, Prime: cocyclePrime, Cocycles: main, MemoryBudget: o.MemoryBudget, Workers: o.Workers}
+	if !main && follow.dense {
+		// The main set named a class on its denser cover: this set, as
+		// dense, is read up to the same cut.
+		opt.MaxDim, opt.Threshold, opt.Cocycles = 2, follow.cut, false
+		dg, err := rips.VietorisRipsContext(ctx, lm, opt)
+		if err != nil {
+			return bettiReading{}, err
+		}
+		tau, _, merge := threshold(dg.Bars, cover, c.noise)
+		merge = min(merge, follow.cut)
+		return bettiReading{betti: count(dg.Bars, tau, merge, follow.cut), band: band(dg.Bars, tau, follow.cut)}, nil
+	}
 	dg, err := rips.VietorisRipsContext(ctx, lm, opt)
 	if err != nil {
 		return bettiReading{}, err
 	}
 	tau, eps, merge := threshold(dg.Bars, cover, c.noise)
-	cut := math.Inf(1) // the scale the bars are read up to (see torus3Landmarks)
+	cut := math.Inf(1) // the scale the bars are read up to (see denserCover)
 	b := count(dg.Bars, tau, merge, cut)
 	// Two loops that stand out above noise and sampling gap but not yet
 	// above the cover radius ask for a denser cover too: a torus's loops
 	// are longer than a sparse cover lets them show.
 	looseTau := math.Max(samplingFactor*eps, noiseFactor*c.noise)
 	loose := count(dg.Bars, looseTau, merge, cut)
-	// Room for a three-torus: six directions or more, and three loops
-	// above half the significance threshold and the noise term (see
-	// torus3Landmarks).
-	loops := loopBars(dg.Bars, math.Max(tau/2, noiseFactor*c.noise), merge, 3)
-	torus3 := c.components >= 6 && len(loops) == 3
-	if b[1] >= 2 || loose[1] >= 2 || torus3 {
+	// Loops that a denser cover may lift above τ: a three-torus, or p
+	// two-tori whose components are not yet told apart (see
+	// denserCover). Only the main set looks for them.
+	var dense int
+	denser := false
+	if main {
+		dense, cut, denser = denserCover(dg.Bars, len(lm), c.components, cover, eps, tau, c.noise, merge)
+		if !denser {
+			cut = math.Inf(1)
+		}
+	}
+	sparse := b
+	if b[1] >= 2 || loose[1] >= 2 || denser {
 		// A 2-cycle needs a denser cover than a loop: H2 is computed on at
 		// least torusLandmarks landmarks.
-		want := max(o.Landmarks, torusLandmarks)
+		want := max(o.Landmarks, torusLandmarks, dense)
 		// Cycles born after the components merge do not count, so a
 		// cloud of several components is computed up to that scale only:
-		// its components then stay apart as essential H0 bars.
-		split := merge
-		if torus3 {
-			// A denser cover still, read up to the scale where the first
-			// of the three loops closes.
-			want = max(want, torus3Landmarks(len(lm), cover, loops[2].Persistence()))
-			for _, l := range loops {
-				cut = min(cut, l.Death)
-			}
-			split = min(split, cut)
-		}
+		// its components then stay apart as essential H0 bars. A denser
+		// cover is read up to the scale where the first of its loops
+		// closes.
+		split := min(merge, cut)
 		if len(lm) < want && len(lm) < len(c.points) {
 			idx, cv, err := embed.Landmarks(c.points, want, seed)
 			if err != nil {
@@ -438,15 +531,12 @@ func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Op
 		if !math.IsInf(split, 1) {
 			opt.Threshold = split
 		}
-		if !math.IsInf(cut, 1) && main {
+		if denser {
 			// The circular coordinates need the cocycles of bars that
-			// end: they come from the H1 barcode to the cloud's radius.
-			h1 := opt
-			h1.MaxDim, h1.Threshold = 1, 0
-			if r.cocycles, err = rips.VietorisRipsContext(ctx, lm, h1); err != nil {
-				return bettiReading{}, err
-			}
+			// end: reading.coordinates computes them, to the cloud's
+			// radius, when they are asked for.
 			opt.Cocycles = false
+			r.plan = densePlan{dense: true, landmarks: len(lm), cut: cut}
 		}
 		if dg, err = rips.VietorisRipsContext(ctx, lm, opt); err != nil {
 			return bettiReading{}, err
@@ -455,7 +545,7 @@ func barcodes(ctx context.Context, c *cloud, lm [][]float64, cover float64, o Op
 		merge = min(merge, split)
 		b = count(dg.Bars, tau, merge, cut)
 	}
-	br := bettiReading{betti: b, band: band(dg.Bars, tau, cut)}
+	br := bettiReading{betti: b, band: band(dg.Bars, tau, cut), sparse: sparse}
 	if main {
 		r.diagram, r.landmarks, r.eps, r.merge = dg, lm, eps, merge
 		p := &r.persistence

@@ -145,3 +145,34 @@ func TestBlurredComponentsAnswer(t *testing.T) {
 		t.Errorf("class %s with %d components (%s), want 2 circles or unresolved", r.Hull.Class, r.Hull.Components, r.Hull.Reason)
 	}
 }
+
+// A cell of two sites decorating two angles,
+// x_n = n + c_{n mod 2} + 0.08 sin 2π(nθ1 + φ1) + 0.06 sin 2π(nθ2 + φ2),
+// has a hull of 2 two-tori (common practice, as for the decorated circle:
+// the product of a rotation by ½ on 2 points and a rotation by (θ1, θ2) on
+// the two-torus). Its Betti numbers are 2·C(2, k) = (2, 4, 2) (Künneth and
+// additivity; common practice). On 300 landmarks the two components are
+// not yet told apart and the four loops stay under τ; the denser cover
+// (denserCover) separates them.
+func TestDecoratedTorus(t *testing.T) {
+	thetas := []float64{math.Sqrt2 - 1, 2 - math.Sqrt(3)}
+	p, err := design.Generate(design.Spec{Family: "decorated", Sites: 2000, Cell: []float64{0.88, 1.12}, Thetas: thetas, Amps: []float64{0.08, 0.06}, Phases: []float64{0.13, 0.71}, Seed: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := analyze(t, p)
+	h := r.Hull
+	if h.Class != Torus || h.Components != 2 || h.TorusDimension != 2 {
+		t.Fatalf("class %s × %d components, torus dimension %d (%s), want torus × 2, 2", h.Class, h.Components, h.TorusDimension, h.Reason)
+	}
+	if want := []int{2 * 1, 2 * 2, 2 * 1}; !slices.Equal(h.Betti, want) {
+		t.Errorf("Betti %v, want 2·C(2, k) = %v", h.Betti, want)
+	}
+	if len(r.Angles) != 2 || len(r.AngleUncertainty) != 2 {
+		t.Fatalf("angles %v ± %v, want two", r.Angles, r.AngleUncertainty)
+	}
+	tol := 5 * slices.Max(r.AngleUncertainty)
+	if !topology.SameModule(thetas, r.Angles, 2, tol) {
+		t.Errorf("angles %v ± %v do not generate the module of %v within %.3g", r.Angles, r.AngleUncertainty, thetas, tol)
+	}
+}

@@ -509,7 +509,7 @@ func (a *planeAnalysis) rotationCheck(ctx context.Context, v *verdict) (*verdict
 	if d == 0 || a.reading == nil {
 		return v, nil
 	}
-	coords, err := a.reading.coordinates(a.cloud, d)
+	coords, err := a.reading.coordinates(ctx, a.cloud, d, a.opt)
 	if err != nil {
 		return nil, err
 	}

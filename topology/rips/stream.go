@@ -413,6 +413,17 @@ func (w *working) next(s *stream) bool {
 					return true
 				}
 			}
+		case 3:
+			r0 := rank[int(s.v[0])*n : int(s.v[0])*n+n]
+			r1 := rank[int(s.v[1])*n : int(s.v[1])*n+n]
+			r2 := rank[int(s.v[2])*n : int(s.v[2])*n+n]
+			for x := int(s.x1); x >= 0; x-- {
+				if r0[x] <= s.r && r1[x] <= s.r && r2[x] <= s.r {
+					s.x1 = int32(x - 1)
+					w.emit(s, x, s.r)
+					return true
+				}
+			}
 		default:
 		scan:
 			for x := int(s.x1); x >= 0; x-- {
