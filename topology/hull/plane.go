@@ -526,7 +526,7 @@ func (a *planeAnalysis) rotationCheck(ctx context.Context, v *verdict) (*verdict
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		fit, err := bestPlaneFit(a.f, A0)
+		fit, err := bestPlaneFit(a.f, A0, a.opt.Seed)
 		if err != nil {
 			why = "the least-squares fit of the displacement field failed (" + err.Error() + ")"
 			continue
