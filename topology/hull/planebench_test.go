@@ -14,7 +14,7 @@ import (
 // BenchmarkAnalyzePlate times what analyze does with a generated plate:
 // the average lattice (lattice.Recover) and the hull (AnalyzePlane), on a
 // square plate displaced by two incommensurate waves with 0.3% position
-// noise, 2% missing and 1% spurious sites, at 100×100 (goal: under 2 s)
+// noise, at 100×100 (goal: under 2 s)
 // and 1000×1000 sites (goal: under 60 s and 4 GiB; run it alone with
 // -bench 'AnalyzePlate/sites=1000000' -benchtime 1x under /usr/bin/time -v
 // for the peak memory). The class is checked once before timing.

@@ -120,7 +120,8 @@ func fitSample(f *field, seed uint64) *field {
 func designRow(x []float64, t [2]float64, g [][2]float64) {
 	x[0], x[1], x[2] = 1, t[0], t[1]
 	for k, q := range g {
-		x[3+2*k], x[4+2*k] = math.Sincos(2 * math.Pi * math.Mod(q[0]*t[0]+q[1]*t[1], 1))
+		ph := q[0]*t[0] + q[1]*t[1]
+		x[3+2*k], x[4+2*k] = math.Sincos(2 * math.Pi * (ph - math.Floor(ph)))
 	}
 }
 
