@@ -456,6 +456,11 @@ func (a *planeAnalysis) withinNoise(rss float64, params int) string {
 func (a *planeAnalysis) patchBarcodeRule(ctx context.Context) (*verdict, error) {
 	all, d := a.mod.rational()
 	switch {
+	case a.mod.unsure() >= 0:
+		k := a.mod.unsure()
+		b, se := a.mod.basis[k], a.mod.se[k]
+		a.undecided = &verdict{class: Unresolved, betti: []int{}, reason: fmt.Sprintf("the spectral line at (%.4g, %.4g) ± (%.2g, %.2g) turns per step sits within its uncertainty of a fraction of small denominator but is not measured finely enough to tell which (a supercell) or none (a torus); more sites or less noise would decide", b[0], b[1], se[0], se[1])}
+		return nil, nil
 	case a.mod.beyond > 0:
 		a.undecided = &verdict{class: Unresolved, betti: []int{}, reason: fmt.Sprintf("the displacement field shows more than three independent spectral lines (%d lines): no hull of dimension three or less at this resolution, or lines too close to resolve; more sites would decide", len(a.lines))}
 		return nil, nil
@@ -526,7 +531,7 @@ func (a *planeAnalysis) rotationCheck(ctx context.Context, v *verdict) (*verdict
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		fit, err := bestPlaneFit(a.f, A0)
+		fit, err := bestPlaneFit(a.f, A0, a.opt.Seed)
 		if err != nil {
 			why = "the least-squares fit of the displacement field failed (" + err.Error() + ")"
 			continue

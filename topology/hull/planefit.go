@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/rand/v2"
+	"slices"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -17,7 +19,8 @@ import (
 // 2-vectors), over the tones m ∈ Z^d, 1 ≤ |m|₁ ≤ h, one of ±m. The linear
 // coefficients are re-solved at every trial A (variable projection, as
 // topology.RefineFrequencies does on a chain) and A moves by Gauss–Newton
-// steps on the full parameter vector with backtracking; the standard
+// steps on the full parameter vector with backtracking, both solved by
+// normal equations accumulated one site at a time; the standard
 // errors are the square roots of the diagonal of σ̂²(JᵀJ)⁻¹, σ̂² the
 // residual variance. In white displacement noise this is the
 // maximum-likelihood estimate of A.
@@ -87,86 +90,207 @@ func toneFreqs(A [][]float64, terms [][]int, size [2]int) ([][2]float64, error) 
 	return g, nil
 }
 
-// designMatrix builds the linear design matrix of the model at A: columns 1, n1,
-// n2 (centred) and sin, cos of each tone.
-func designMatrix(f *field, mid [2]float64, g [][2]float64) *mat.Dense {
-	X := mat.NewDense(len(f.n), 3+2*len(g), nil)
-	for i, n := range f.n {
-		t := [2]float64{float64(n[0]) - mid[0], float64(n[1]) - mid[1]}
-		X.Set(i, 0, 1)
-		X.Set(i, 1, t[0])
-		X.Set(i, 2, t[1])
-		for k, q := range g {
-			s, c := math.Sincos(2 * math.Pi * math.Mod(q[0]*t[0]+q[1]*t[1], 1))
-			X.Set(i, 3+2*k, s)
-			X.Set(i, 4+2*k, c)
-		}
+// maxFitSites caps the sites the fit of A runs on: a larger field is fitted
+// on a seeded uniform subsample of this many sites (the same subsample at
+// every trial A and harmonic order), which keeps the index box and so the
+// frequency resolution; the residuals and their sum of squares are then
+// taken over every site. The normal equations are accumulated one site at
+// a time, so the memory does not grow with the field beyond the field
+// itself.
+const maxFitSites = 1 << 17
+
+// fitSample returns f itself, or a seeded subsample of maxFitSites of its
+// sites with the same index box.
+func fitSample(f *field, seed uint64) *field {
+	if len(f.n) <= maxFitSites {
+		return f
 	}
-	return X
+	rng := rand.New(rand.NewPCG(seed, 0x706c616e65666974))
+	idx := rng.Perm(len(f.n))[:maxFitSites]
+	slices.Sort(idx)
+	s := &field{lo: f.lo, size: f.size, n: make([][2]int, len(idx)), u: make([][2]float64, len(idx)), site: make([]int, len(idx))}
+	for k, i := range idx {
+		s.n[k], s.u[k], s.site[k] = f.n[i], f.u[i], f.site[i]
+	}
+	return s
 }
 
-// project solves the linear part at A and returns the coefficients (one
-// column per component), the residuals and their sum of squares.
-func project(f *field, mid [2]float64, g [][2]float64) (*mat.Dense, *mat.Dense, [][2]float64, float64, error) {
-	X := designMatrix(f, mid, g)
-	Y := mat.NewDense(len(f.n), 2, nil)
-	for i, u := range f.u {
-		Y.Set(i, 0, u[0])
-		Y.Set(i, 1, u[1])
+// designRow fills x with the linear columns of the model at one site: 1,
+// n1, n2 (centred) and sin, cos of each tone; t is the centred index.
+func designRow(x []float64, t [2]float64, g [][2]float64) {
+	x[0], x[1], x[2] = 1, t[0], t[1]
+	for k, q := range g {
+		ph := q[0]*t[0] + q[1]*t[1]
+		x[3+2*k], x[4+2*k] = math.Sincos(2 * math.Pi * (ph - math.Floor(ph)))
 	}
-	var qr mat.QR
-	qr.Factorize(X)
-	var beta mat.Dense
-	if err := qr.SolveTo(&beta, false, Y); err != nil {
-		return nil, nil, nil, 0, err
+}
+
+// solveNormal solves the symmetric positive definite system G·x = b (G
+// given by its upper triangle, row-major n×n; b with m columns) after
+// scaling G to a unit diagonal, which keeps the normal equations as well
+// conditioned as the columns' angles allow; it returns x (n×m) and, when
+// inv is true, G⁻¹.
+func solveNormal(G []float64, n int, b *mat.Dense, inv bool) (*mat.Dense, *mat.SymDense, error) {
+	sc := make([]float64, n)
+	for i := range n {
+		if !(G[i*n+i] > 0) {
+			return nil, nil, errors.New("a column of the model is zero")
+		}
+		sc[i] = 1 / math.Sqrt(G[i*n+i])
 	}
-	var fit mat.Dense
-	fit.Mul(X, &beta)
+	S := mat.NewSymDense(n, nil)
+	for i := range n {
+		for j := i; j < n; j++ {
+			S.SetSym(i, j, G[i*n+j]*sc[i]*sc[j])
+		}
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(S) {
+		return nil, nil, errors.New("the normal matrix is singular")
+	}
+	_, m := b.Dims()
+	bs := mat.NewDense(n, m, nil)
+	for i := range n {
+		for c := range m {
+			bs.Set(i, c, b.At(i, c)*sc[i])
+		}
+	}
+	var x mat.Dense
+	if err := ch.SolveTo(&x, bs); err != nil {
+		return nil, nil, err
+	}
+	for i := range n {
+		for c := range m {
+			x.Set(i, c, x.At(i, c)*sc[i])
+		}
+	}
+	if !inv {
+		return &x, nil, nil
+	}
+	var iv mat.SymDense
+	if err := ch.InverseTo(&iv); err != nil {
+		return nil, nil, err
+	}
+	for i := range n {
+		for j := i; j < n; j++ {
+			iv.SetSym(i, j, iv.At(i, j)*sc[i]*sc[j])
+		}
+	}
+	return &x, &iv, nil
+}
+
+// project solves the linear part at A by its normal equations and returns
+// the coefficients (one column per component), the residuals and their
+// sum of squares.
+func project(f *field, mid [2]float64, g [][2]float64) (*mat.Dense, [][2]float64, float64, error) {
+	K := 3 + 2*len(g)
+	G := make([]float64, K*K)
+	XtY := mat.NewDense(K, 2, nil)
+	x := make([]float64, K)
+	for i, n := range f.n {
+		designRow(x, [2]float64{float64(n[0]) - mid[0], float64(n[1]) - mid[1]}, g)
+		for a, xa := range x {
+			row := G[a*K : a*K+K]
+			for b := a; b < K; b++ {
+				row[b] += xa * x[b]
+			}
+			XtY.Set(a, 0, XtY.At(a, 0)+xa*f.u[i][0])
+			XtY.Set(a, 1, XtY.At(a, 1)+xa*f.u[i][1])
+		}
+	}
+	beta, _, err := solveNormal(G, K, XtY, false)
+	if err != nil {
+		return nil, nil, 0, err
+	}
+	r, rss := residuals(f, mid, g, beta)
+	return beta, r, rss, nil
+}
+
+// residuals returns the residuals of the field about the model at tones g
+// with coefficients beta, and their sum of squares.
+func residuals(f *field, mid [2]float64, g [][2]float64, beta *mat.Dense) ([][2]float64, float64) {
+	K := 3 + 2*len(g)
+	x := make([]float64, K)
 	r := make([][2]float64, len(f.n))
 	var rss float64
-	for i := range r {
+	for i, n := range f.n {
+		designRow(x, [2]float64{float64(n[0]) - mid[0], float64(n[1]) - mid[1]}, g)
 		for c := range 2 {
-			r[i][c] = f.u[i][c] - fit.At(i, c)
-			rss += r[i][c] * r[i][c]
+			v := f.u[i][c]
+			for k, xk := range x {
+				v -= xk * beta.At(k, c)
+			}
+			r[i][c] = v
+			rss += v * v
 		}
 	}
-	return X, &beta, r, rss, nil
+	return r, rss
 }
 
-// jacobian returns the Jacobian of the residuals (both components
-// stacked) with respect to every parameter: the linear coefficients of
-// each component, then the entries A_kj.
-func jacobian(f *field, mid [2]float64, X, beta *mat.Dense, terms [][]int, d int) *mat.Dense {
-	N, K := X.Dims()
-	J := mat.NewDense(2*N, 2*K+2*d, nil)
+// gaussNewton accumulates the normal equations JᵀJ and Jᵀr of the model's
+// Jacobian J with respect to every parameter — the linear coefficients of
+// each component (K each), then the entries A_kj — one site at a time,
+// both components stacked as rows; the blocks of the two components'
+// coefficients do not meet. It returns JᵀJ's upper triangle (P×P,
+// row-major) and Jᵀr.
+func gaussNewton(f *field, mid [2]float64, g [][2]float64, beta *mat.Dense, r [][2]float64, terms [][]int, d int) ([]float64, *mat.Dense) {
+	K := 3 + 2*len(g)
+	P := 2*K + 2*d
+	G := make([]float64, P*P)
+	Jr := mat.NewDense(P, 1, nil)
+	x := make([]float64, K)
+	ja := make([]float64, 2*d)
 	for i, n := range f.n {
 		t := [2]float64{float64(n[0]) - mid[0], float64(n[1]) - mid[1]}
+		designRow(x, t, g)
 		for c := range 2 {
-			row := c*N + i
-			for k := range K {
-				J.Set(row, c*K+k, X.At(i, k))
-			}
+			clear(ja)
 			for ti, m := range terms {
-				s, co := X.At(i, 3+2*ti), X.At(i, 4+2*ti)
-				a, b := beta.At(3+2*ti, c), beta.At(4+2*ti, c)
-				dphi := 2 * math.Pi * (a*co - b*s)
+				s, co := x[3+2*ti], x[4+2*ti]
+				dphi := 2 * math.Pi * (beta.At(3+2*ti, c)*co - beta.At(4+2*ti, c)*s)
 				for k, v := range m {
-					if v == 0 {
-						continue
-					}
-					for j := range 2 {
-						col := 2*K + 2*k + j
-						J.Set(row, col, J.At(row, col)+dphi*float64(v)*t[j])
+					if v != 0 {
+						ja[2*k] += dphi * float64(v) * t[0]
+						ja[2*k+1] += dphi * float64(v) * t[1]
 					}
 				}
 			}
+			off := c * K
+			rc := r[i][c]
+			for a, xa := range x {
+				row := G[(off+a)*P:]
+				if c == 0 {
+					// XᵀX is the same for both components: accumulate it once
+					// and copy it to the second block below.
+					for b := a; b < K; b++ {
+						row[off+b] += xa * x[b]
+					}
+				}
+				for b, jb := range ja {
+					row[2*K+b] += xa * jb
+				}
+				Jr.Set(off+a, 0, Jr.At(off+a, 0)+xa*rc)
+			}
+			for a, jaa := range ja {
+				row := G[(2*K+a)*P:]
+				for b := a; b < 2*d; b++ {
+					row[2*K+b] += jaa * ja[b]
+				}
+				Jr.Set(2*K+a, 0, Jr.At(2*K+a, 0)+jaa*rc)
+			}
 		}
 	}
-	return J
+	for a := range K {
+		for b := a; b < K; b++ {
+			G[(K+a)*P+K+b] = G[a*P+b]
+		}
+	}
+	return G, Jr
 }
 
-// fitRotation refines A from A0 with the tones of order up to h.
-func fitRotation(f *field, A0 [][]float64, h int) (planeFit, error) {
+// fitRotation refines A from A0 with the tones of order up to h, on a
+// seeded subsample of at most maxFitSites sites (fitSample).
+func fitRotation(f *field, A0 [][]float64, h int, seed uint64) (planeFit, error) {
 	d := len(A0)
 	terms := planeTerms(d, h)
 	mid := [2]float64{float64(f.lo[0]) + float64(f.size[0]-1)/2, float64(f.lo[1]) + float64(f.size[1]-1)/2}
@@ -175,27 +299,20 @@ func fitRotation(f *field, A0 [][]float64, h int) (planeFit, error) {
 	if 2*len(f.n) <= P+2 {
 		return planeFit{}, fmt.Errorf("%d sites for %d parameters", len(f.n), P)
 	}
+	fs := fitSample(f, seed)
 	A := clone2(A0)
 	g, err := toneFreqs(A, terms, f.size)
 	if err != nil {
 		return planeFit{}, err
 	}
-	X, beta, r, rss, err := project(f, mid, g)
+	beta, r, rss, err := project(fs, mid, g)
 	if err != nil {
 		return planeFit{}, err
 	}
-	var J *mat.Dense
 	for range 50 {
-		J = jacobian(f, mid, X, beta, terms, d)
-		rv := mat.NewVecDense(2*len(r), nil)
-		for i := range r {
-			rv.SetVec(i, r[i][0])
-			rv.SetVec(len(r)+i, r[i][1])
-		}
-		var step mat.VecDense
-		var qr mat.QR
-		qr.Factorize(J)
-		if err := qr.SolveVecTo(&step, false, rv); err != nil {
+		G, Jr := gaussNewton(fs, mid, g, beta, r, terms, d)
+		step, _, err := solveNormal(G, P, Jr, false)
+		if err != nil {
 			return planeFit{}, err
 		}
 		moved, small := false, true
@@ -203,7 +320,7 @@ func fitRotation(f *field, A0 [][]float64, h int) (planeFit, error) {
 			trial := clone2(A)
 			for k := range d {
 				for j := range 2 {
-					dv := lambda * step.AtVec(2*K+2*k+j)
+					dv := lambda * step.At(2*K+2*k+j, 0)
 					trial[k][j] += dv
 					small = small && math.Abs(dv)*float64(f.size[j]) < 1e-10
 				}
@@ -212,9 +329,9 @@ func fitRotation(f *field, A0 [][]float64, h int) (planeFit, error) {
 			if err != nil {
 				continue
 			}
-			tX, tb, tr, trss, err := project(f, mid, tg)
+			tb, tr, trss, err := project(fs, mid, tg)
 			if err == nil && trss <= rss {
-				A, g, X, beta, r, rss, moved = trial, tg, tX, tb, tr, trss, true
+				A, g, beta, r, rss, moved = trial, tg, tb, tr, trss, true
 			}
 		}
 		if !moved || small {
@@ -228,23 +345,20 @@ func fitRotation(f *field, A0 [][]float64, h int) (planeFit, error) {
 			}
 		}
 	}
-	J = jacobian(f, mid, X, beta, terms, d)
-	var jtj mat.SymDense
-	jtj.SymOuterK(1, J.T())
-	var ch mat.Cholesky
-	if !ch.Factorize(&jtj) {
-		return planeFit{}, errors.New("the fit's normal matrix is singular")
+	G, _ := gaussNewton(fs, mid, g, beta, r, terms, d)
+	_, inv, err := solveNormal(G, P, mat.NewDense(P, 1, nil), true)
+	if err != nil {
+		return planeFit{}, fmt.Errorf("the fit's normal matrix: %w", err)
 	}
-	var inv mat.SymDense
-	if err := ch.InverseTo(&inv); err != nil {
-		return planeFit{}, err
-	}
-	s2 := rss / float64(2*len(f.n)-P)
+	s2 := rss / float64(2*len(fs.n)-P)
 	cov := mat.NewSymDense(2*d, nil)
 	for a := range 2 * d {
 		for b := a; b < 2*d; b++ {
 			cov.SetSym(a, b, s2*inv.At(2*K+a, 2*K+b))
 		}
+	}
+	if fs != f {
+		r, rss = residuals(f, mid, g, beta)
 	}
 	return planeFit{A: A, cov: cov, rss: rss, terms: len(terms), params: P, h: h, resid: r}, nil
 }
@@ -253,13 +367,13 @@ func fitRotation(f *field, A0 [][]float64, h int) (planeFit, error) {
 // lowest Bayesian information criterion N log(RSS/N) + P log N (Schwarz
 // 1978), N the number of displacement components fitted, stopping at the
 // first order that does not lower it.
-func bestPlaneFit(f *field, A0 [][]float64) (planeFit, error) {
+func bestPlaneFit(f *field, A0 [][]float64, seed uint64) (planeFit, error) {
 	var best planeFit
 	bestBIC := math.Inf(1)
 	var firstErr error
 	N := float64(2 * len(f.n))
 	for h := 1; h <= 3; h++ {
-		fit, err := fitRotation(f, A0, h)
+		fit, err := fitRotation(f, A0, h, seed)
 		if err != nil {
 			if firstErr == nil {
 				firstErr = err

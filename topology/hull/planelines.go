@@ -54,6 +54,10 @@ const (
 	// roundingPower is the power, relative to the strongest line's, below
 	// which a peak of exact data is rounding, not a line.
 	roundingPower = 1e-10
+	// roundingField is the RMS displacement, in spacings, below which a
+	// field is rounding of exact sites (float64 positions and a fitted
+	// lattice leave about 1e-13), not a measurement: it has no lines.
+	roundingField = 1e-9
 )
 
 // field is the displacement field of the on-lattice sites, dimensionless
@@ -119,6 +123,14 @@ func readLines(ctx context.Context, f *field) ([]fieldLine, float64, error) {
 		w2 += t * t
 	}
 	N := float64(len(f.n))
+	var ss float64
+	for _, u := range f.u {
+		ss += u[0]*u[0] + u[1]*u[1]
+	}
+	if ss/(2*N) < roundingField*roundingField {
+		// Exact sites: what is left is rounding, which has no lines.
+		return nil, ss / (2 * N), nil
+	}
 	thr := lineThreshold(searchFactor * float64(f.size[0]*f.size[1]) / 2)
 	var qs [][2]float64
 	var noise, first float64
@@ -450,16 +462,32 @@ type lineModule struct {
 	// beyond counts the lines that would have raised the rank past 3.
 	beyond int
 	// denominators[k] is the least Q ≤ the bound with Q·basis[k] ∈ Z²
-	// within its uncertainty, 0 when basis[k] is not rational.
+	// within its uncertainty, 0 when basis[k] is not rational, and
+	// ambiguous when it is within its uncertainty of such a fraction but
+	// not measured finely enough to tell it from the others (see
+	// moduleOf).
 	denominators []int
 }
+
+// ambiguous marks a basis frequency that sits within its uncertainty of a
+// fraction of small denominator without the precision that would make it
+// one: neither rational nor established as irrational.
+const ambiguous = -1
 
 // moduleOf builds the module of the lines, taking them strongest first: a
 // line that is an integer combination m of the basis so far (|m_k| ≤
 // lineCoeff, Σ|m_k| ≤ lineOrder), modulo Z² and up to sign, within
 // lineSigmas of its standard errors (and a thousandth of a grid bin for
 // exact data) joins with its coordinates; otherwise it joins the basis.
-// Rational basis frequencies (Q·q ∈ Z², Q ≤ maxQ) are marked.
+// Rational basis frequencies (Q·q ∈ Z², Q ≤ maxQ) are marked — only
+// when the window of the frequency, ±(lineSigmas·se + floor) along each
+// axis, is narrower than 1/(2Q²): two distinct fractions of denominator
+// at most Q lie at least 1/Q² apart (neighbours in the Farey sequence of
+// order Q; common practice), so the window then holds no other, and the
+// supercell is measured rather than guessed. A frequency within its window
+// of a fraction without that precision is marked ambiguous: on a small or
+// noisy plate almost every frequency is near some fraction of
+// denominator up to maxQ.
 func moduleOf(lines []fieldLine, size [2]int, maxQ int) *lineModule {
 	sorted := slices.Clone(lines)
 	slices.SortStableFunc(sorted, func(a, b fieldLine) int { return cmp.Compare(b.amp, a.amp) })
@@ -487,13 +515,18 @@ func moduleOf(lines []fieldLine, size [2]int, maxQ int) *lineModule {
 	for k, b := range mod.basis {
 		q := 0
 		for Q := 1; Q <= maxQ && q == 0; Q++ {
-			ok := true
+			ok, unique := true, true
 			for j := range 2 {
 				v := float64(Q) * b[j]
-				ok = ok && math.Abs(v-math.Round(v)) <= float64(Q)*(lineSigmas*mod.se[k][j]+floor[j])
+				tol := lineSigmas*mod.se[k][j] + floor[j]
+				ok = ok && math.Abs(v-math.Round(v)) <= float64(Q)*tol
+				unique = unique && tol < 1/(2*float64(Q*Q))
 			}
-			if ok {
+			switch {
+			case ok && unique:
 				q = Q
+			case ok:
+				q = ambiguous
 			}
 		}
 		mod.denominators = append(mod.denominators, q)
@@ -547,12 +580,21 @@ func (mod *lineModule) express(l fieldLine, floor [2]float64) ([]int, bool) {
 }
 
 // rational reports whether every basis frequency is rational, and
-// irrational the number that are not.
+// irrational the number that are established as irrational (ambiguous
+// ones are neither).
 func (mod *lineModule) rational() (all bool, irrational int) {
+	all = true
 	for _, q := range mod.denominators {
+		all = all && q > 0
 		if q == 0 {
 			irrational++
 		}
 	}
-	return irrational == 0, irrational
+	return all, irrational
+}
+
+// unsure returns the index of the first ambiguous basis frequency, −1 when
+// there is none.
+func (mod *lineModule) unsure() int {
+	return slices.Index(mod.denominators, ambiguous)
 }

@@ -89,3 +89,44 @@ func TestLineFrequency(t *testing.T) {
 		t.Errorf("%d of 40 frequency components off by more than 5 standard errors", misses)
 	}
 }
+
+// A frequency is a supercell's k/Q only when its window is narrower than
+// 1/(2Q²): two fractions of denominator ≤ Q differ by at least 1/Q²
+// (neighbours in the Farey sequence; common practice, checked here by
+// enumeration for Q ≤ 12). A line 1/7 measured to ±0.0004 per axis is
+// rational with Q = 7; the same line measured to ±0.0185 (five standard
+// errors of 0.0037, a 10×10 plate at 5% noise) is ambiguous, and so is an
+// irrational line near 1/7.
+func TestRationalNeedsPrecision(t *testing.T) {
+	for Q := 1; Q <= 12; Q++ {
+		gap := math.Inf(1)
+		var fr []float64
+		for q := 1; q <= Q; q++ {
+			for k := 0; k <= q; k++ {
+				fr = append(fr, float64(k)/float64(q))
+			}
+		}
+		for i, a := range fr {
+			for _, b := range fr[i+1:] {
+				if d := math.Abs(a - b); d > 1e-12 {
+					gap = math.Min(gap, d)
+				}
+			}
+		}
+		if gap < 1/float64(Q*Q)-1e-12 {
+			t.Fatalf("Q = %d: fractions %g apart, below 1/Q²", Q, gap)
+		}
+	}
+	line := func(q [2]float64, se float64) []fieldLine {
+		return []fieldLine{{q: q, amp: 0.05, se: [2]float64{se / lineSigmas, se / lineSigmas}}}
+	}
+	if m := moduleOf(line([2]float64{1.0 / 7, 2.0 / 7}, 0.0004), [2]int{40, 40}, 32); m.denominators[0] != 7 {
+		t.Errorf("1/7 to ±0.0004: denominator %d, want 7", m.denominators[0])
+	}
+	if m := moduleOf(line([2]float64{1.0 / 7, 2.0 / 7}, 0.0185), [2]int{10, 10}, 32); m.denominators[0] != ambiguous {
+		t.Errorf("1/7 to ±0.0185: denominator %d, want ambiguous", m.denominators[0])
+	}
+	if m := moduleOf(line([2]float64{0.1445, 0.2873}, 0.0185), [2]int{10, 10}, 32); m.denominators[0] > 0 {
+		t.Errorf("an irrational line to ±0.0185 called rational with denominator %d", m.denominators[0])
+	}
+}

@@ -48,6 +48,29 @@ type Case struct {
 	// answer, and naming a class other than the true one a confident
 	// wrong answer all the same.
 	MinSites int `json:"deciding_sites,omitempty"`
+	// A plane case (-plane, plane.go): Spec is a two-dimensional family
+	// (Spec.Sites the side of the patch) or, for a disordered set, Points
+	// names it (poisson, hard-disk) and Spec.Sites is its side; Rotation
+	// is the true A, rows the torus coordinates, columns the generating
+	// basis steps (nil without angles); ThroughFile sends the plate
+	// through pattern.WritePlane and pattern.ReadSites.
+	Rotation    [][]float64 `json:"true_rotation,omitempty"`
+	Points      string      `json:"points,omitempty"`
+	ThroughFile bool        `json:"through_file,omitempty"`
+}
+
+// plane reports whether the case is a plane.
+func (c Case) plane() bool {
+	return c.Points != "" || c.Spec.Family == design.Plate || c.Spec.Family == design.Twisted
+}
+
+// size is the number of sites before perturbation: Spec.Sites for a
+// chain, its square for a plane.
+func (c Case) size() int {
+	if c.plane() {
+		return c.Spec.Sites * c.Spec.Sites
+	}
+	return c.Spec.Sites
 }
 
 // Undecidable reports whether the case is smaller than its deciding size.

@@ -17,7 +17,13 @@
 //
 // Usage:
 //
-//	go run ./topology/hull/internal/suite [-quick] [-seed N] [-json]
+//	go run ./topology/hull/internal/suite [-quick] [-plane] [-seed N] [-json]
+//
+// With -plane it runs the two-dimensional families instead (plane.go):
+// generated plates through lattice recovery and the plane analysis, scored
+// by the same rules plus the rotation matrix as a module and the lattice
+// basis; it prints the same confusion matrix, confident wrong answers and
+// case rows, without the chains' sweeps and precision checks.
 //
 // The grid of cases and their known hulls is in cases.go: the class of
 // each follows from its parameters, p components and d angles (hullOf). A
@@ -42,10 +48,11 @@ import (
 
 func main() {
 	quick := flag.Bool("quick", false, "run a small subset (smoke test)")
+	plane := flag.Bool("plane", false, "run the two-dimensional families (plates) instead of the chains")
 	seed := flag.Uint64("seed", 1, "seed of every random choice")
 	asJSON := flag.Bool("json", false, "write the report as JSON")
 	flag.Parse()
-	rep, err := Run(Config{Quick: *quick, Seed: *seed})
+	rep, err := Run(Config{Quick: *quick, Plane: *plane, Seed: *seed})
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "suite:", err)
 		os.Exit(1)
@@ -64,6 +71,7 @@ func main() {
 // Config selects what Run measures.
 type Config struct {
 	Quick bool   // the small subset
+	Plane bool   // the two-dimensional families (plane.go) instead of the chains
 	Seed  uint64 // suite seed; every case seed derives from it and the case name
 }
 

@@ -46,10 +46,14 @@ type Outcome struct {
 	// spacings (Result.Disorder); about the position noise when the hull
 	// is right. Nil when no hull was fitted.
 	Residual *float64 `json:"residual"`
-	Seconds  float64  `json:"seconds"`
-	Barcode  Barcode  `json:"barcode"`
-	Reason   string   `json:"reason"`
-	Err      string   `json:"error,omitempty"`
+	// Rotation is a plane's reported A; BasisRatio the largest error of
+	// its lattice basis in stated uncertainties (nil for a chain).
+	Rotation   [][]float64 `json:"rotation,omitempty"`
+	BasisRatio *float64    `json:"basis_error_over_uncertainty,omitempty"`
+	Seconds    float64     `json:"seconds"`
+	Barcode    Barcode     `json:"barcode"`
+	Reason     string      `json:"reason"`
+	Err        string      `json:"error,omitempty"`
 }
 
 // Barcode holds the figures behind a classification.
@@ -70,6 +74,7 @@ type Barcode struct {
 type Report struct {
 	Seed      uint64    `json:"seed"`
 	Quick     bool      `json:"quick"`
+	Plane     bool      `json:"plane,omitempty"`
 	Confusion Confusion `json:"confusion"`
 	// ConfidentWrong counts the confident wrong answers; FalseCalls gives
 	// their rate at each size.
@@ -119,6 +124,9 @@ const (
 // checks.
 func Run(cfg Config) (*Report, error) {
 	start := time.Now()
+	if cfg.Plane {
+		return runPlanes(cfg, start)
+	}
 	cases, err := Grid(cfg)
 	if err != nil {
 		return nil, err
@@ -150,6 +158,22 @@ func Run(cfg Config) (*Report, error) {
 	if rep.Timing, err = timingCheck(cfg.Seed, 7); err != nil {
 		return nil, err
 	}
+	rep.Seconds = time.Since(start).Seconds()
+	return rep, nil
+}
+
+// runPlanes runs the two-dimensional families and their summaries.
+func runPlanes(cfg Config, start time.Time) (*Report, error) {
+	rep := &Report{Seed: cfg.Seed, Quick: cfg.Quick, Plane: true}
+	for _, c := range planeGrid(cfg) {
+		o, err := runPlaneCase(c, cfg.Seed)
+		if err != nil {
+			return nil, err
+		}
+		rep.Outcomes = append(rep.Outcomes, o)
+	}
+	rep.Confusion = confusion(rep.Outcomes)
+	rep.ConfidentWrong, rep.FalseCalls = falseCalls(rep.Outcomes)
 	rep.Seconds = time.Since(start).Seconds()
 	return rep, nil
 }
@@ -600,7 +624,7 @@ func falseCalls(out []Outcome) (int, []FalseCall) {
 	bySize := map[int]*FalseCall{}
 	total := 0
 	for _, o := range out {
-		n := o.Case.Spec.Sites
+		n := o.Case.size()
 		if bySize[n] == nil {
 			bySize[n] = &FalseCall{Sites: n}
 		}

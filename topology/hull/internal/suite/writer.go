@@ -48,47 +48,20 @@ func writeText(w io.Writer, rep *Report) error {
 	if rep.Quick {
 		mode = "quick"
 	}
-	fmt.Fprintf(&b, "hull analysis suite (%s): %d cases, seed %d, %.0f s\n\n", mode, len(rep.Outcomes), rep.Seed, rep.Seconds)
-
-	b.WriteString("Confusion matrix (rows: true hull, columns: reported hull; ×p: p components)\n")
-	cf := rep.Confusion
-	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprint(tw, "true\\reported\t")
-	for _, c := range cf.Cols {
-		fmt.Fprintf(tw, "%s\t", c)
+	kind := "hull analysis suite"
+	if rep.Plane {
+		kind = "hull analysis suite, plates"
 	}
-	fmt.Fprintln(tw, "correct\tconfident wrong\t")
-	for i, r := range cf.Rows {
-		fmt.Fprintf(tw, "%s\t", r)
-		all := 0
-		for _, n := range cf.Counts[i] {
-			fmt.Fprintf(tw, "%d\t", n)
-			all += n
-		}
-		fmt.Fprintf(tw, "%d/%d\t%d\t\n", cf.Correct[i], all, cf.Wrong[i])
+	fmt.Fprintf(&b, "%s (%s): %d cases, seed %d, %.0f s\n\n", kind, mode, len(rep.Outcomes), rep.Seed, rep.Seconds)
+	writeSummary(&b, rep)
+	if rep.Plane {
+		writePlaneCases(&b, rep)
+		_, err := io.WriteString(w, b.String())
+		return err
 	}
-	tw.Flush()
-	b.WriteString("(a finite hull with the wrong period counts under finite but not as correct; a case smaller than the size\n that decides its class counts as correct when unresolved)\n\n")
-	fmt.Fprintf(&b, "confident wrong answers: %d\n", rep.ConfidentWrong)
-	b.WriteString("(a named class, period or number of components that is wrong, or angles more than 5 stated uncertainties from the truth)\n")
-	b.WriteString("False-call rate by size (cases with a confident wrong answer)\n")
-	for _, f := range rep.FalseCalls {
-		fmt.Fprintf(&b, "  %6d sites: %d/%d = %.1f%%\n", f.Sites, f.Wrong, f.Cases, 100*f.Rate)
-	}
-	any := false
-	for _, o := range rep.Outcomes {
-		if o.ConfidentWrong {
-			if !any {
-				b.WriteString("Confident wrong answers\n")
-			}
-			any = true
-			fmt.Fprintf(&b, "  %s: %s (confidence %.2f)\n", o.Case.Name, o.Wrong, o.Confidence)
-		}
-	}
-	b.WriteString("\n")
 
 	b.WriteString("Cases (noise in mean spacings; angle error and uncertainty in turns)\n")
-	tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
+	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "case\tsites\tnoise\ttrue\tdecides at\treported\tok\tconf\tangle err\tuncert.\terr/unc\tresidual\ttime")
 	for _, o := range rep.Outcomes {
 		ok := "yes"
@@ -211,4 +184,90 @@ func plus(ok bool) string {
 		return "+"
 	}
 	return "-"
+}
+
+// writeSummary writes the confusion matrix, the confident wrong answers
+// and the false-call rate by size.
+func writeSummary(b *strings.Builder, rep *Report) {
+	b.WriteString("Confusion matrix (rows: true hull, columns: reported hull; ×p: p components)\n")
+	cf := rep.Confusion
+	tw := tabwriter.NewWriter(b, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprint(tw, "true\\reported\t")
+	for _, c := range cf.Cols {
+		fmt.Fprintf(tw, "%s\t", c)
+	}
+	fmt.Fprintln(tw, "correct\tconfident wrong\t")
+	for i, r := range cf.Rows {
+		fmt.Fprintf(tw, "%s\t", r)
+		all := 0
+		for _, n := range cf.Counts[i] {
+			fmt.Fprintf(tw, "%d\t", n)
+			all += n
+		}
+		fmt.Fprintf(tw, "%d/%d\t%d\t\n", cf.Correct[i], all, cf.Wrong[i])
+	}
+	tw.Flush()
+	b.WriteString("(a finite hull with the wrong period counts under finite but not as correct; a case smaller than the size\n that decides its class counts as correct when unresolved)\n\n")
+	fmt.Fprintf(b, "confident wrong answers: %d\n", rep.ConfidentWrong)
+	b.WriteString("(a named class, period or number of components that is wrong, or angles more than 5 stated uncertainties from the truth)\n")
+	b.WriteString("False-call rate by size (cases with a confident wrong answer)\n")
+	for _, f := range rep.FalseCalls {
+		fmt.Fprintf(b, "  %6d sites: %d/%d = %.1f%%\n", f.Sites, f.Wrong, f.Cases, 100*f.Rate)
+	}
+	any := false
+	for _, o := range rep.Outcomes {
+		if o.ConfidentWrong {
+			if !any {
+				b.WriteString("Confident wrong answers\n")
+			}
+			any = true
+			fmt.Fprintf(b, "  %s: %s (confidence %.2f)\n", o.Case.Name, o.Wrong, o.Confidence)
+		}
+	}
+	b.WriteString("\n")
+
+}
+
+// writePlaneCases writes one row per plane case and the reasons of the
+// cases not answered right.
+func writePlaneCases(b *strings.Builder, rep *Report) {
+	b.WriteString("Cases (sites after perturbation; noise in spacings; A error and uncertainty in turns per step, as a module)\n")
+	tw := tabwriter.NewWriter(b, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "case\tsites\ttrue\treported\tok\tconf\tA err\tuncert.\terr/unc\tbasis err/unc\ttime")
+	for _, o := range rep.Outcomes {
+		ok := "yes"
+		switch {
+		case o.ConfidentWrong:
+			ok = "NO (confident)"
+		case !o.Correct:
+			ok = "NO"
+		}
+		ratio, basis := "-", "-"
+		if o.Ratio != nil {
+			ratio = strconv.FormatFloat(*o.Ratio, 'f', 2, 64)
+		}
+		if o.BasisRatio != nil {
+			basis = strconv.FormatFloat(*o.BasisRatio, 'f', 2, 64)
+		}
+		fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%.2f\t%s\t%s\t%s\t%s\t%.2fs\n", o.Case.Name, o.Sites,
+			label(o.Case.Class, o.Case.Period, o.Case.Components), label(o.Reported, o.Period, o.Components), ok, o.Confidence,
+			fmtE(o.AngleError), fmtE(o.Uncertainty), ratio, basis, o.Seconds)
+	}
+	tw.Flush()
+	b.WriteString("\nCases not answered right: what the analysis said\n")
+	any := false
+	for _, o := range rep.Outcomes {
+		if o.Correct && !o.ConfidentWrong {
+			continue
+		}
+		any = true
+		if o.Err != "" {
+			fmt.Fprintf(b, "  %s: error: %s\n", o.Case.Name, o.Err)
+			continue
+		}
+		fmt.Fprintf(b, "  %s: %s, Betti %v: %s\n", o.Case.Name, label(o.Reported, o.Period, o.Components), o.Betti, o.Reason)
+	}
+	if !any {
+		b.WriteString("  none\n")
+	}
 }
