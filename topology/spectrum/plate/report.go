@@ -1,6 +1,7 @@
 package plate
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"strings"
@@ -58,7 +59,7 @@ func NewReport(s *Sample, c Config, source string) *Report {
 	}
 	r.Operator = fmt.Sprintf("%s on %s, %s ends", m.Kind, bonds, m.Ends)
 	if c.Harper != 0 {
-		r.Operator += fmt.Sprintf(", potential Σ 2λ·cos 2π(ψ_k + %g) of the design's phase with λ = %g", c.HarperPhase, c.Harper)
+		r.Operator += fmt.Sprintf(", potential Σ_k 2λ·cos 2π(ψ_k + φ) of the design's phase, λ = %g, φ = %g", c.Harper, c.HarperPhase)
 	}
 	if !m.Flux.IsZero() {
 		r.Flux = m.Flux.String()
@@ -184,6 +185,73 @@ func MeasuredLabelling(s *Sample, maxCoeff int) (spectrum.Labelling, error) {
 	return spectrum.Labelling{Source: spectrum.HullAnalysis, Class: hull.Class(s.Class), Labels: labels, Generators: all, Warnings: s.Warnings}, nil
 }
 
-
 // context of a caller reaches the lattice recovery.
 
+// Request is one run of the spectrum of a plate: the sample, the
+// operator, and what to add to the spectrum.
+type Request struct {
+	Sample *Sample
+	Config Config
+	// Source names the input in the report.
+	Source string
+	// Edges asks for the edge states on a strip (EdgeStates) in the
+	// spectrum's gaps.
+	Edges       bool
+	EdgeOptions EdgeOptions
+	// Sweep, when not empty, is PARAM=START:STOP:COUNT (see Sweep).
+	Sweep string
+	// Stage and Count, when not nil, are told the progress.
+	Stage func(string)
+	Count func(done, total int)
+}
+
+// Run computes the report of the request: the spectrum with its labelled
+// gaps, and the edge states and the sweep when asked for.
+func (q Request) Run(ctx context.Context) (*Report, error) {
+	s, c := q.Sample, q.Config
+	stage := q.Stage
+	if stage == nil {
+		stage = func(string) {}
+	}
+	rep := NewReport(s, c, q.Source)
+	stage(fmt.Sprintf("the spectrum of %d sites", s.Plane.Len()))
+	var err error
+	if rep.Result, _, err = c.Run(ctx, s); err != nil {
+		return nil, err
+	}
+	rep.Warnings = append(rep.Warnings, rep.Result.Warnings...)
+	if q.Edges {
+		stage("edge states on a strip")
+		fluxAt := -1
+		if !c.Model.Flux.IsZero() {
+			fluxAt = len(rep.Result.Generators) - 1
+		}
+		if rep.Edges, err = EdgeStates(ctx, s, c.Model, rep.Result.Gaps, fluxAt, q.EdgeOptions); err != nil {
+			return nil, err
+		}
+	}
+	if q.Sweep != "" {
+		param, grid, ok := strings.Cut(q.Sweep, "=")
+		values, err := spectrum.ParseGrid(grid)
+		if !ok || err != nil {
+			return nil, fmt.Errorf("sweep %q: want PARAM=START:STOP:COUNT (%v)", q.Sweep, err)
+		}
+		stage("values of " + param + " done")
+		if rep.Sweep, err = Sweep(ctx, s.Design, s, c, param, values, SweepOptions{Progress: q.Count}); err != nil {
+			return nil, err
+		}
+		rep.Warnings = append(rep.Warnings, rep.Sweep.Warnings...)
+	}
+	return rep, nil
+}
+
+// ParseMethod reads a method name: auto, values or kpm.
+func ParseMethod(s string) (Method, error) {
+	switch s {
+	case "auto", "":
+		return Auto, nil
+	case string(Values), string(KPM):
+		return Method(s), nil
+	}
+	return Auto, fmt.Errorf("method %q: a plate takes auto, values or kpm", s)
+}

@@ -3,9 +3,13 @@ package plate
 import (
 	"cmp"
 	"context"
+	"encoding/csv"
 	"fmt"
+	"io"
 	"math"
 	"slices"
+	"strconv"
+	"strings"
 
 	"phasonhull/pattern/design"
 )
@@ -355,4 +359,43 @@ func forOrderAll(m []int, order int, f func([]int)) {
 		return
 	}
 	forOrder(m, 0, order, f)
+}
+
+// WriteCSV writes the sweep as rows param,gap,ids,ids_error,lower,upper,
+// label_ids,coeffs,confirmed: one row per gap and value, gap numbering the
+// tracks from 1, label_ids the fitted line's value there (empty without
+// one), coeffs the line's integers separated by spaces.
+func (s *SweepResult) WriteCSV(w io.Writer) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write([]string{"param", "gap", "ids", "ids_error", "lower", "upper", "label_ids", "coeffs", "confirmed"}); err != nil {
+		return err
+	}
+	f := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	for i, t := range s.Tracks {
+		coeffs := make([]string, len(t.Coeffs))
+		for j, c := range t.Coeffs {
+			coeffs[j] = strconv.Itoa(c)
+		}
+		for k, st := range t.Steps {
+			g, label := t.Gaps[k], ""
+			if t.Coeffs != nil {
+				label = f(labelValue(float64(t.Coeffs[0]), t.Coeffs[1:], s.Generators[st]))
+			}
+			row := []string{f(s.Values[st]), strconv.Itoa(i + 1), f(g.IDS), f(g.IDSError), f(g.Lower), f(g.Upper), label, strings.Join(coeffs, " "), strconv.FormatBool(t.Confirmed)}
+			if err := cw.Write(row); err != nil {
+				return err
+			}
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// LabelValue is the value of the track's fitted line at step k of the
+// sweep (NaN without a line).
+func (s *SweepResult) LabelValue(t Track, k int) float64 {
+	if t.Coeffs == nil {
+		return math.NaN()
+	}
+	return labelValue(float64(t.Coeffs[0]), t.Coeffs[1:], s.Generators[k])
 }
