@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
+	"slices"
 	"strings"
 
 	"phasonhull/topology"
@@ -241,6 +243,7 @@ func (q Request) Run(ctx context.Context) (*Report, error) {
 			return nil, err
 		}
 		rep.Warnings = append(rep.Warnings, rep.Sweep.Warnings...)
+		rep.Sweep.confirm(rep.Result, s, c.Model.Flux)
 	}
 	return rep, nil
 }
@@ -254,4 +257,31 @@ func ParseMethod(s string) (Method, error) {
 		return Method(s), nil
 	}
 	return Auto, fmt.Errorf("method %q: a plate takes auto, values or kpm", s)
+}
+
+// confirm marks the gaps of res (the spectrum of sample s) whose label
+// has the value, at s's own generators, of a line the sweep confirmed
+// and whose IDS that line matches within the gap's tolerance.
+func (sw *SweepResult) confirm(res *Result, s *Sample, flux Flux) {
+	raw, names := rawGenerators(s.Rotation, flux.Float())
+	g := make([]float64, len(sw.Names))
+	for i, name := range sw.Names {
+		k := slices.Index(names, name)
+		if k < 0 {
+			return
+		}
+		g[i] = raw[k]
+	}
+	for i := range res.Gaps {
+		gap := &res.Gaps[i]
+		for _, t := range sw.Tracks {
+			if !t.Confirmed || gap.Label == nil {
+				continue
+			}
+			v := labelValue(float64(t.Coeffs[0]), t.Coeffs[1:], g)
+			if math.Abs(v-gap.Label.IDS) < 1e-9 && math.Abs(v-gap.IDS) <= gap.Tolerance {
+				gap.Confirmed = true
+			}
+		}
+	}
 }

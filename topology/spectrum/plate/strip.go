@@ -165,7 +165,7 @@ func stripOf(s *Sample, rows int) (*lattice.Lattice, [][2]float64, [2]int, error
 	}
 	L1, L2box := hi[0]-lo[0]+1, hi[1]-lo[1]+1
 	if rows == 0 {
-		rows = max(2, DefaultStripSites/L1)
+		rows = min(L2box, max(2, DefaultStripSites/L1))
 	}
 	if rows < 2 || rows > L2box {
 		return nil, nil, [2]int{}, fmt.Errorf("plate: a strip of %d rows from a box of %d", rows, L2box)

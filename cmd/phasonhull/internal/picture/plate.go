@@ -139,9 +139,6 @@ func PlateSweep(s *plate.SweepResult, source string) (*Picture, error) {
 	var dotStyle draw.GlyphStyle
 	var solid, dashed draw.LineStyle
 	for _, t := range s.Tracks {
-		if len(t.Steps) < 3 {
-			continue
-		}
 		mk := colours[drawn%len(colours)]
 		drawn++
 		var dots, line plotter.XYs
@@ -179,9 +176,6 @@ func PlateSweep(s *plate.SweepResult, source string) (*Picture, error) {
 		labels.texts = append(labels.texts, text)
 		labels.anchors = append(labels.anchors, line[len(line)-1])
 		labels.curves = append(labels.curves, line)
-	}
-	if drawn == 0 {
-		return nil, errors.New("sweep picture: no gap was followed through 3 values or more")
 	}
 	gap := vg.Points(3)
 	labels.candidates = func(i int, at func(plotter.XY) vg.Point, w, h vg.Length) []vg.Rectangle {
