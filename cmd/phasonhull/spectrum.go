@@ -104,7 +104,7 @@ func newSpectrumCmd() *cobra.Command {
 	var f spectrumFlags
 	cmd := &cobra.Command{
 		Use:   "spectrum [FILE]",
-		Short: "Gaps, integrated density of states, gap labels and edge modes of an operator on a chain",
+		Short: "Gaps, integrated density of states, gap labels and edge modes of an operator on a chain or a plate",
 		Long: `spectrum builds an operator on a chain — the pattern in FILE (or - for
 standard input), or a design (--design SPEC) — and reports the gaps of its
 spectrum: for each, the integrated density of states (IDS, the share of
