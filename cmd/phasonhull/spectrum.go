@@ -21,8 +21,9 @@ import (
 
 // spectrumFlags holds the flags of "phasonhull spectrum".
 type spectrumFlags struct {
-	in   inputFlags
-	plot plotFlags
+	in    inputFlags
+	plot  plotFlags
+	plate plateFlags
 
 	design, eigenvalues, patternFile string
 
@@ -62,6 +63,7 @@ func (f *spectrumFlags) register(cmd *cobra.Command) {
 	fs.StringVar(&f.patternFile, "pattern", "", "with --eigenvalues: recover the angle(s) for the labels from this pattern `FILE`")
 
 	f.registerOperator(fs)
+	f.plate.register(fs)
 
 	fs.BoolVar(&f.edgeModes, "edge-modes", false, "with --design: sweep the design's phase through one turn and count boundary states crossing the widest gaps")
 	fs.IntVar(&f.samples, "samples", spectrum.DefaultSamples, "with --edge-modes: phases of the first pass over the turn")
@@ -102,7 +104,7 @@ func newSpectrumCmd() *cobra.Command {
 	var f spectrumFlags
 	cmd := &cobra.Command{
 		Use:   "spectrum [FILE]",
-		Short: "Gaps, integrated density of states, gap labels and edge modes of an operator on a chain",
+		Short: "Gaps, integrated density of states, gap labels and edge modes of an operator on a chain or a plate",
 		Long: `spectrum builds an operator on a chain — the pattern in FILE (or - for
 standard input), or a design (--design SPEC) — and reports the gaps of its
 spectrum: for each, the integrated density of states (IDS, the share of
@@ -138,6 +140,15 @@ keeps the gap from agreeing.
 --theta-grid START:STOP:COUNT (with --design) writes the whole spectrum at
 each θ as CSV rows theta,eigenvalue,ids (to --out, or standard output).
 
+Plates (a 2D file, a 2D design, or --eigenvalues with a 2D --pattern): the
+operator sits on the recovered lattice (nearest neighbours, or --cutoff),
+with --flux α; --harper λ adds Σ_k 2λ·cos 2π(ψ_k + φ) of a design's phase.
+Gaps are labelled in Z + Σ Z·A_ij + Z·det A (+ Zα), A the design's or the
+recovered rotation matrix; past 2000 sites the IDS is estimated by the
+kernel polynomial method (--method kpm, --moments, --vectors). --sweep
+follows each gap and confirms its label by an integer line; --edge-modes
+counts the edge states of a strip as its seam phase turns once.
+
 Chains with nearest-neighbour bonds only are counted in O(N) per energy
 (Sturm sequences), so 10^5–10^6 sites are cheap; every level is computed up
 to 4000 sites, and next-nearest bonds are limited to that.`,
@@ -155,6 +166,10 @@ to 4000 sites, and next-nearest bonds are limited to that.`,
   # Measured resonance frequencies, labelled with the angle of the sample's pattern
   phasonhull spectrum --eigenvalues testdata/spectrum/harper_levels.csv --pattern sample.csv
 
+  # A plate on a rotated potential: labels confirmed by a sweep of the twist
+  phasonhull spectrum --design testdata/demo/twisted_plate.json --harper 1.5 --ends periodic \
+      --min-gap 0.02 --sweep twist=0:40:5 --plot figures
+
   # The spectrum against θ (a Hofstadter butterfly) for plotting
   phasonhull spectrum --design testdata/spectrum/lattice.json --harper 1 --ends periodic \
       --theta-grid 0.01:0.99:99 --out butterfly.csv`,
@@ -171,10 +186,13 @@ to 4000 sites, and next-nearest bonds are limited to that.`,
 }
 
 func runSpectrum(cmd *cobra.Command, args []string, f *spectrumFlags) error {
-	if err := f.check(cmd, args); err != nil {
+	if err := f.plot.validate(); err != nil {
 		return err
 	}
-	if err := f.plot.validate(); err != nil {
+	if isPlate, err := runPlate(cmd, args, f); isPlate {
+		return err
+	}
+	if err := f.check(cmd, args); err != nil {
 		return err
 	}
 	rep := spectrum.NewReport(f.maxCoeff)
@@ -268,6 +286,11 @@ func (f *spectrumFlags) check(cmd *cobra.Command, args []string) error {
 		return errors.New("give exactly one of FILE (a pattern), --design SPEC or --eigenvalues FILE")
 	}
 	changed := cmd.Flags().Changed
+	for _, name := range plateOnly {
+		if changed(name) {
+			return fmt.Errorf("--%s is for plates (a 2D file or design); this input is a chain", name)
+		}
+	}
 	if f.eigenvalues != "" {
 		for _, name := range modelFlags {
 			if changed(name) {
@@ -424,11 +447,23 @@ func runMeasured(cmd *cobra.Command, f *spectrumFlags, rep *spectrum.Report) err
 	if err != nil {
 		return err
 	}
+	n := 0
+	if p != nil {
+		n = p.Len()
+	}
+	return runMeasuredWith(cmd, f, rep, v, opt, n)
+}
+
+// runMeasuredWith analyses measured levels v with the label options opt;
+// sites is the number of sites of the pattern they were measured on (0:
+// none given).
+func runMeasuredWith(cmd *cobra.Command, f *spectrumFlags, rep *spectrum.Report, v []float64, opt spectrum.Options, sites int) error {
+	var err error
 	if rep.Spectrum, err = spectrum.AnalyzeMeasured(v, opt); err != nil {
 		return err
 	}
-	if p != nil && p.Len() != len(v) {
-		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d levels for a pattern of %d sites: a level missing from the list lowers every IDS above it by 1/N", len(v), p.Len()))
+	if sites > 0 && sites != len(v) {
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d levels for a pattern of %d sites: a level missing from the list lowers every IDS above it by 1/N", len(v), sites))
 	}
 	if f.out != "" {
 		if err := writeFileAtomic(f.out, func(file io.Writer) error {

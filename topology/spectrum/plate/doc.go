@@ -44,4 +44,22 @@
 // be at a random IDS: in a group of many generators a wide tolerance
 // finds a label of low order by coincidence, and a sweep of a parameter,
 // not one spectrum, confirms a label.
+//
+// # Samples, sweeps and edge states
+//
+// A Sample is a plate with its lattice and the rotation matrix A that
+// labels its gaps: DesignSample takes A from a design's closed form,
+// NewSample from the hull analysis of a plane (hull.AnalyzePlane). A
+// Config (a Model, the strength of a potential of the design's phase, and
+// the Options) runs on a sample. Sweep moves one parameter — a design's
+// (twist, scale, amp, …), the potential's strength or the flux — follows
+// each gap from one value to the next and fits its IDS as a line
+// n + Σ m_i·g_i with integers over the raw generators (A_ij, det A, α); a
+// label is confirmed when exactly one such line of bounded order holds at
+// every value and the sweep moves the generators by more than the
+// tolerance. EdgeStates cuts a sample to a strip closed along a2 and counts
+// the states crossing each gap on one edge as the phase across the seam
+// turns once: the Hall conductance of the filled bands (for flux p/q, the
+// t_r of the label r/q = s_r + t_r·α). Request runs a spectrum with either,
+// into the Report that "phasonhull spectrum" prints.
 package plate

@@ -62,6 +62,14 @@ type Model struct {
 	Flux Flux
 	// Ends is spectrum.Open (the default, "") or spectrum.Periodic.
 	Ends spectrum.Ends
+	// Strip, when set, makes the sample a strip: open along a1 and
+	// periodic along a2 (Ends is then ignored), with a site on every
+	// lattice point of the box.
+	Strip bool
+	// Seam is the phase, in turns, that a state picks up going once round
+	// a strip (a twisted boundary condition, a momentum Seam/L2 along the
+	// strip); Strip only.
+	Seam float64
 }
 
 // Operator is a sparse Hermitian matrix on the on-lattice sites of a plane,
@@ -143,13 +151,15 @@ func New(l *lattice.Lattice, points [][2]float64, m Model) (*Operator, error) {
 		return nil, fmt.Errorf("plate: %d sites: at most %d", N, math.MaxInt32)
 	}
 	op.box = [2]int{hi[0] - lo[0] + 1, hi[1] - lo[1] + 1}
-	periodic := m.Ends == spectrum.Periodic
+	periodic := m.Ends == spectrum.Periodic || m.Strip
+	// wraps says along which axes the box closes.
+	wraps := [2]bool{periodic && !m.Strip, periodic}
 	if periodic {
 		if N != op.box[0]*op.box[1] {
 			return nil, fmt.Errorf("plate: periodic ends need a site on every lattice point of the %d×%d box the sites span; %d of them carry none",
 				op.box[0], op.box[1], op.box[0]*op.box[1]-N)
 		}
-		if err := m.Flux.periodicOver(op.box[0]); err != nil {
+		if err := m.Flux.periodicOver(op.box[0]); err != nil && !m.Strip {
 			return nil, fmt.Errorf("plate: %w", err)
 		}
 	}
@@ -159,7 +169,7 @@ func New(l *lattice.Lattice, points [][2]float64, m Model) (*Operator, error) {
 	}
 	// The steps a bond may take, half of them (the other half is the same
 	// bond seen from its other end).
-	steps, err := bondSteps(B, m.Cutoff, l, op.box, periodic)
+	steps, err := bondSteps(B, m.Cutoff, l, op.box, wraps)
 	if err != nil {
 		return nil, fmt.Errorf("plate: %w", err)
 	}
@@ -167,8 +177,8 @@ func New(l *lattice.Lattice, points [][2]float64, m Model) (*Operator, error) {
 	// correction, or false when there is no site there.
 	wrap := func(n [2]int, s step) (int32, bool) {
 		t := [2]int{n[0] + s[0], n[1] + s[1]}
-		if periodic {
-			for k := range 2 {
+		for k := range 2 {
+			if wraps[k] {
 				t[k] = lo[k] + mod(t[k]-lo[k], op.box[k])
 			}
 		}
@@ -179,6 +189,7 @@ func New(l *lattice.Lattice, points [][2]float64, m Model) (*Operator, error) {
 		i, j int32
 		s    step
 		d    float64
+		w    int // turns round a strip from i to the unwrapped j
 	}
 	var bonds []bond
 	nnSum, nnCount := 0.0, 0
@@ -198,7 +209,7 @@ func New(l *lattice.Lattice, points [][2]float64, m Model) (*Operator, error) {
 			if m.Cutoff > 0 && d >= m.Cutoff {
 				continue
 			}
-			bonds = append(bonds, bond{int32(i), j, s, d})
+			bonds = append(bonds, bond{int32(i), j, s, d, w[1] / op.box[1]})
 			if isNearest(s, B) {
 				nnSum += d
 				nnCount++
@@ -245,6 +256,12 @@ func New(l *lattice.Lattice, points [][2]float64, m Model) (*Operator, error) {
 			return nil, fmt.Errorf("plate: bond %d–%d (length %.6g): spring constant %.6g must be positive", op.sites[b.i]+1, op.sites[b.j]+1, b.d, t)
 		}
 		v := complex(-t, 0)
+		if m.Strip && m.Seam != 0 && b.w != 0 {
+			// Across the seam: the unwrapped site is b.w turns of the strip
+			// away, and the state there carries exp(2πi·Seam·b.w).
+			v *= cmplx.Exp(complex(0, 2*math.Pi*m.Seam*float64(b.w)))
+			op.real = false
+		}
 		if alpha != 0 {
 			n1 := float64(op.index[b.i][0] - lo[0])
 			ph := alpha * float64(b.s[1]) * (2*n1 + float64(b.s[0])) / 2
@@ -264,7 +281,7 @@ func New(l *lattice.Lattice, points [][2]float64, m Model) (*Operator, error) {
 		op.col[fill[b.i]], op.val[fill[b.i]] = b.j, cmplx.Conj(v)
 		fill[b.i]++
 	}
-	op.boundary = boundarySites(op, m, deg, periodic, lo)
+	op.boundary = boundarySites(op, m, deg, periodic && !m.Strip, lo)
 	return op, nil
 }
 
@@ -320,7 +337,7 @@ func isNearest(s step, B [2][2]float64) bool {
 // bondSteps returns one of each pair ±s of the steps bonds may take: the
 // nearest-neighbour steps, or with a cutoff every lattice step short
 // enough for two displaced sites to lie closer than it.
-func bondSteps(B [2][2]float64, cutoff float64, l *lattice.Lattice, box [2]int, periodic bool) ([]step, error) {
+func bondSteps(B [2][2]float64, cutoff float64, l *lattice.Lattice, box [2]int, wraps [2]bool) ([]step, error) {
 	positive := func(s step) bool { return s[0] > 0 || (s[0] == 0 && s[1] > 0) }
 	if cutoff <= 0 {
 		var out []step
@@ -345,7 +362,7 @@ func bondSteps(B [2][2]float64, cutoff float64, l *lattice.Lattice, box [2]int, 
 		return nil, errors.New("the lattice basis is degenerate")
 	}
 	r := int(math.Ceil(reach / smin))
-	if periodic && (2*r >= box[0] || 2*r >= box[1]) {
+	if (wraps[0] && 2*r >= box[0]) || (wraps[1] && 2*r >= box[1]) {
 		return nil, fmt.Errorf("cutoff %.6g reaches %d lattice steps, half the periodic %d×%d box or more: a bond would wrap onto itself", cutoff, r, box[0], box[1])
 	}
 	var out []step
