@@ -1,6 +1,7 @@
 package pattern
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
@@ -154,9 +155,9 @@ func closePair(points [][2]float64) (i, j int, ok bool) {
 	less := func(a key, cx, cy int64) int {
 		switch {
 		case a.cx != cx:
-			return cmpInt(a.cx, cx)
+			return cmp.Compare(a.cx, cx)
 		default:
-			return cmpInt(a.cy, cy)
+			return cmp.Compare(a.cy, cy)
 		}
 	}
 	slices.SortFunc(keys, func(a, b key) int {
@@ -191,14 +192,4 @@ func closePair(points [][2]float64) (i, j int, ok bool) {
 		return 0, 0, false
 	}
 	return best[0], best[1], true
-}
-
-func cmpInt(a, b int64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }

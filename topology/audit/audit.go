@@ -282,15 +282,8 @@ func Run(ctx context.Context, d *Design, sample *pattern.Pattern, opt Options) (
 		Notes: []string{}, measuredPos: fileOrder(sample),
 	}
 	a := &audit{rep: rep, opt: opt, design: d}
-	if opt.Tolerance.Value > 0 {
-		if opt.Tolerance.Unit != "" && sample.Unit == "" {
-			return nil, fmt.Errorf("tolerance %v: the sample has no unit; give it one, or the tolerance without one", opt.Tolerance)
-		}
-		tol, err := opt.Tolerance.In(sample.Unit)
-		if err != nil {
-			return nil, fmt.Errorf("tolerance %v: %w", opt.Tolerance, err)
-		}
-		a.tol, rep.Tolerance = tol, &tol
+	if err := a.setTolerance(sample.Unit); err != nil {
+		return nil, err
 	}
 	rep.Hull.Measured, a.measuredErr = hull.AnalyzeContext(ctx, sample, opt.Hull)
 	if d == nil {
@@ -511,4 +504,22 @@ func shiftList(ties []register.Tie) string {
 		s += fmt.Sprintf("%+d", t.Shift)
 	}
 	return s
+}
+
+// setTolerance converts the tolerance of the options, if any, into the
+// sample's unit and records it in the report.
+func (a *audit) setTolerance(unit string) error {
+	t := a.opt.Tolerance
+	if t.Value <= 0 {
+		return nil
+	}
+	if t.Unit != "" && unit == "" {
+		return fmt.Errorf("tolerance %v: the sample has no unit; give it one, or the tolerance without one", t)
+	}
+	tol, err := t.In(unit)
+	if err != nil {
+		return fmt.Errorf("tolerance %v: %w", t, err)
+	}
+	a.tol, a.rep.Tolerance = tol, &tol
+	return nil
 }

@@ -85,15 +85,8 @@ func RunPlane(ctx context.Context, d *Design, sample *pattern.Plane, opt Options
 		Merged: []Merge{}, Swapped: []Swap{}, Outliers: []int{}, Sites: []Site{}, Notes: []string{},
 	}
 	a := &audit{rep: rep, opt: opt, design: d}
-	if opt.Tolerance.Value > 0 {
-		if opt.Tolerance.Unit != "" && sample.Unit == "" {
-			return nil, fmt.Errorf("tolerance %v: the sample has no unit; give it one, or the tolerance without one", opt.Tolerance)
-		}
-		tol, err := opt.Tolerance.In(sample.Unit)
-		if err != nil {
-			return nil, fmt.Errorf("tolerance %v: %w", opt.Tolerance, err)
-		}
-		a.tol, rep.Tolerance = tol, &tol
+	if err := a.setTolerance(sample.Unit); err != nil {
+		return nil, err
 	}
 	if opt.Drift {
 		rep.Notes = append(rep.Notes, "a plate is registered by a similarity (offset, rotation, scale): no drift is fitted")

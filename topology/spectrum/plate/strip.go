@@ -1,6 +1,7 @@
 package plate
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -241,22 +242,12 @@ func (op *Operator) edgeWeights(L1 int) ([]float64, []float64, error) {
 	for i := range order {
 		order[i] = i
 	}
-	slices.SortFunc(order, func(a, b int) int { return cmpF(vals[a], vals[b]) })
+	slices.SortFunc(order, func(a, b int) int { return cmp.Compare(vals[a], vals[b]) })
 	sv, sw := make([]float64, 2*n), make([]float64, 2*n)
 	for i, c := range order {
 		sv[i], sw[i] = vals[c], w[c]
 	}
 	return sv, sw, nil
-}
-
-func cmpF(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 func (r *EdgeResult) writeText(b *strings.Builder) {
