@@ -13,12 +13,13 @@ import (
 func newRootCmd(stdin io.Reader, stdout, stderr io.Writer) *cobra.Command {
 	root := &cobra.Command{
 		Use:   "phasonhull",
-		Short: "Recover the hull, step angle and gap labels of a chain of sites",
-		Long: `phasonhull reads the site positions of a chain (a fabricated sample's
+		Short: "Recover the hull, step angle(s) and gap labels of a chain or a plate of sites",
+		Long: `phasonhull reads the site positions of a chain or a plate (a fabricated sample's
 metrology export, a column from a paper's table, a generated design),
-turns its spacings into delay-coordinate vectors, and reads the hull of the
-pattern — the space of its local configurations — off their persistent
-homology.`,
+turns its spacings (a plate: its displacements from the average lattice)
+into delay-coordinate vectors, and reads the hull of the pattern — the
+space of its local configurations — off their persistent homology and the
+frequency module of the pattern.`,
 		Example: `  # The main job: the hull, step angle and gap labels of a measured sample
   phasonhull analyze testdata/demo/lw0412_cmm.csv
 
