@@ -63,22 +63,7 @@ func (r *Report) Defects() []Defect {
 		}
 		out = append(out, Defect{Kind: DefectSwapped, Design: s.Design[:], Measured: s.Measured[:], Position: pos})
 	}
-	for _, s := range r.Sites {
-		kind := ""
-		switch {
-		case s.WithinTolerance != nil && !*s.WithinTolerance:
-			kind = DefectOutOfTolerance
-		case s.Outlier:
-			kind = DefectOutlier
-		default:
-			continue
-		}
-		d := Defect{Kind: kind, Measured: []int{s.Measured}, Position: s.Position, Residual: s.Residual}
-		if s.Design != nil {
-			d.Design = []int{*s.Design}
-		}
-		out = append(out, d)
-	}
+	out = append(out, r.siteDefects()...)
 	slices.SortStableFunc(out, func(a, b Defect) int { return cmp.Compare(a.Position, b.Position) })
 	return out
 }
@@ -93,6 +78,18 @@ func (r *Report) planeDefects() []Defect {
 		p := r.measuredPts[k]
 		out = append(out, Defect{Kind: DefectExtra, Measured: []int{k}, Point: &p})
 	}
+	out = append(out, r.siteDefects()...)
+	slices.SortStableFunc(out, func(a, b Defect) int {
+		return cmp.Or(cmp.Compare(a.Point[1], b.Point[1]), cmp.Compare(a.Point[0], b.Point[0]))
+	})
+	return out
+}
+
+// siteDefects are the matched sites that are out of tolerance or
+// outliers, in the order of Sites (a chain's carry their position, a
+// plate's their point).
+func (r *Report) siteDefects() []Defect {
+	var out []Defect
 	for _, s := range r.Sites {
 		kind := ""
 		switch {
@@ -103,10 +100,11 @@ func (r *Report) planeDefects() []Defect {
 		default:
 			continue
 		}
-		out = append(out, Defect{Kind: kind, Design: []int{*s.Design}, Measured: []int{s.Measured}, Point: s.Point, Residual: s.Residual})
+		d := Defect{Kind: kind, Measured: []int{s.Measured}, Position: s.Position, Point: s.Point, Residual: s.Residual}
+		if s.Design != nil {
+			d.Design = []int{*s.Design}
+		}
+		out = append(out, d)
 	}
-	slices.SortStableFunc(out, func(a, b Defect) int {
-		return cmp.Or(cmp.Compare(a.Point[1], b.Point[1]), cmp.Compare(a.Point[0], b.Point[0]))
-	})
 	return out
 }
