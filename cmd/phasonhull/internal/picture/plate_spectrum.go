@@ -79,26 +79,11 @@ func PlateSpectrum(r *plate.Result, source, levels string) (*Picture, error) {
 		top = max(top, p.Y)
 	}
 	dos.Y.Min, dos.Y.Max = 0, 1.05*top
-	labels := &labelSet{curves: []plotter.XYs{curve}, style: textStyle(sizeNote, Tidewater.Rust)}
-	var uppers plotter.XYs
+	marks := make([]gapMark, 0, len(r.Gaps))
 	for _, g := range r.Gaps {
-		if g.Label == nil {
-			continue
-		}
-		labels.texts = append(labels.texts, g.Label.CoeffString())
-		labels.anchors = append(labels.anchors, plotter.XY{X: g.Lower, Y: g.IDS})
-		uppers = append(uppers, plotter.XY{X: g.Upper, Y: g.IDS})
+		marks = append(marks, gapMark{g.Lower, g.Upper, g.IDS, g.Label})
 	}
-	gap := vg.Points(2)
-	labels.candidates = func(i int, at func(plotter.XY) vg.Point, w, h vg.Length) []vg.Rectangle {
-		a, b := at(labels.anchors[i]), at(uppers[i])
-		var out []vg.Rectangle
-		for k := range 8 {
-			step := vg.Length(k) * (h + gap)
-			out = append(out, boxAt(a.X-gap-w-step/2, a.Y+gap+step, w, h), boxAt(b.X+gap+step/2, b.Y-gap-h-step, w, h))
-		}
-		return out
-	}
+	labels := labelGaps(marks, curve)
 	if len(labels.texts) > 0 {
 		ids.Add(labels)
 	}

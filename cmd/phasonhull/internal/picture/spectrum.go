@@ -14,6 +14,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
+	"phasonhull/topology"
 	"phasonhull/topology/spectrum"
 )
 
@@ -78,15 +79,32 @@ func Spectrum(r *spectrum.Result, source, levels string) (*Picture, error) {
 // and above its IDS, and the box right of its upper edge and below its
 // IDS, are empty of it.
 func gapLabels(gaps []spectrum.Gap, stairs plotter.XYs) *labelSet {
+	marks := make([]gapMark, 0, len(gaps))
+	for _, g := range gaps {
+		marks = append(marks, gapMark{g.Lower, g.Upper, g.IDS, g.Label})
+	}
+	return labelGaps(marks, stairs)
+}
+
+// gapMark is what a gap's label on a staircase needs: its edges, its IDS
+// and its label (nil: not drawn).
+type gapMark struct {
+	lower, upper, ids float64
+	label             *topology.Label
+}
+
+// labelGaps places the labels of the gaps marks on the curve stairs (see
+// gapLabels).
+func labelGaps(marks []gapMark, stairs plotter.XYs) *labelSet {
 	l := &labelSet{curves: []plotter.XYs{stairs}, style: textStyle(sizeNote, Tidewater.Rust)}
 	var uppers plotter.XYs
-	for _, g := range gaps {
-		if g.Label == nil {
+	for _, g := range marks {
+		if g.label == nil {
 			continue
 		}
-		l.texts = append(l.texts, g.Label.CoeffString())
-		l.anchors = append(l.anchors, plotter.XY{X: g.Lower, Y: g.IDS})
-		uppers = append(uppers, plotter.XY{X: g.Upper, Y: g.IDS})
+		l.texts = append(l.texts, g.label.CoeffString())
+		l.anchors = append(l.anchors, plotter.XY{X: g.lower, Y: g.ids})
+		uppers = append(uppers, plotter.XY{X: g.upper, Y: g.ids})
 	}
 	gap := vg.Points(2)
 	l.candidates = func(i int, at func(plotter.XY) vg.Point, w, h vg.Length) []vg.Rectangle {
