@@ -416,14 +416,7 @@ func (a *audit) fillRegistration(reg *register.Result) {
 	for _, m := range reg.Matches {
 		site := Site{Design: &m.Design, Measured: m.Measured, Position: rep.measuredPos[m.Measured],
 			Residual: m.Residual, Outlier: math.Abs(m.Residual) > rep.OutlierThreshold}
-		if a.tol > 0 {
-			ok := math.Abs(m.Residual) <= a.tol
-			site.WithinTolerance = &ok
-			if !ok {
-				outliers = append(outliers, m.Design)
-			}
-		}
-		rep.Sites = append(rep.Sites, site)
+		outliers = a.record(site, math.Abs(m.Residual), outliers)
 	}
 	slices.Sort(outliers)
 	rep.Outliers = slices.Compact(outliers)
@@ -522,4 +515,19 @@ func (a *audit) setTolerance(unit string) error {
 	}
 	a.tol, a.rep.Tolerance = tol, &tol
 	return nil
+}
+
+// record adds a matched site to the report, judged against the tolerance
+// (if any) by the size res of its residual; a design site out of
+// tolerance joins outliers, which record returns.
+func (a *audit) record(site Site, res float64, outliers []int) []int {
+	if a.tol > 0 {
+		ok := res <= a.tol
+		site.WithinTolerance = &ok
+		if !ok {
+			outliers = append(outliers, *site.Design)
+		}
+	}
+	a.rep.Sites = append(a.rep.Sites, site)
+	return outliers
 }

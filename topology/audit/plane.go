@@ -178,14 +178,7 @@ func (a *audit) fillPlane(reg *register.PlaneResult, p *pattern.Plane) {
 		pt, rv := p.Points[m.Measured], m.Residual
 		site := Site{Design: &m.Design, Measured: row(m.Measured), Point: &pt, ResidualXY: &rv,
 			Residual: res, Outlier: res > rep.OutlierThreshold}
-		if a.tol > 0 {
-			ok := res <= a.tol
-			site.WithinTolerance = &ok
-			if !ok {
-				outliers = append(outliers, m.Design)
-			}
-		}
-		rep.Sites = append(rep.Sites, site)
+		outliers = a.record(site, res, outliers)
 	}
 	slices.Sort(outliers)
 	rep.Outliers = slices.Compact(outliers)
