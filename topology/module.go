@@ -76,25 +76,39 @@ func SameModule(a, b []float64, maxCoeff int, tol float64) bool {
 		}
 	}
 	// Try every combination of candidate rows (normally one each).
-	pick := make([]int, d)
+	found := false
 	rows := make([][]int, d)
-	for {
+	forEachPick(d, func(i int) int { return len(cands[i]) }, func(pick []int) bool {
 		for i := range rows {
 			rows[i] = cands[i][pick[i]]
 		}
 		if det := intDet(rows); det == 1 || det == -1 {
-			return true
+			found = true
+		}
+		return !found
+	})
+	return found
+}
+
+// forEachPick calls fn with every choice pick of one index per slot
+// i < d, pick[i] < size(i) (the first slot varying fastest), until fn
+// returns false. Every size must be positive.
+func forEachPick(d int, size func(i int) int, fn func(pick []int) bool) {
+	pick := make([]int, d)
+	for {
+		if !fn(pick) {
+			return
 		}
 		i := 0
 		for ; i < d; i++ {
 			pick[i]++
-			if pick[i] < len(cands[i]) {
+			if pick[i] < size(i) {
 				break
 			}
 			pick[i] = 0
 		}
 		if i == d {
-			return false
+			return
 		}
 	}
 }

@@ -1,6 +1,7 @@
 package topology
 
 import (
+	"cmp"
 	"math"
 	"slices"
 )
@@ -68,21 +69,12 @@ func rowsDistance(a [][2]float64, B [][]float64, maxCoeff int) float64 {
 			}
 			cands[i] = append(cands[i], cand{slices.Clone(m), e})
 		})
-		slices.SortStableFunc(cands[i], func(x, y cand) int {
-			switch {
-			case x.err < y.err:
-				return -1
-			case x.err > y.err:
-				return 1
-			}
-			return 0
-		})
+		slices.SortStableFunc(cands[i], func(x, y cand) int { return cmp.Compare(x.err, y.err) })
 		cands[i] = cands[i][:min(keep, len(cands[i]))]
 	}
 	best := math.Inf(1)
-	pick := make([]int, d)
 	rows := make([][]int, d)
-	for {
+	forEachPick(d, func(i int) int { return len(cands[i]) }, func(pick []int) bool {
 		e := 0.0
 		for i := range rows {
 			rows[i] = cands[i][pick[i]].m
@@ -91,16 +83,7 @@ func rowsDistance(a [][2]float64, B [][]float64, maxCoeff int) float64 {
 		if det := intDet(rows); (det == 1 || det == -1) && e < best {
 			best = e
 		}
-		i := 0
-		for ; i < d; i++ {
-			pick[i]++
-			if pick[i] < len(cands[i]) {
-				break
-			}
-			pick[i] = 0
-		}
-		if i == d {
-			return best
-		}
-	}
+		return true
+	})
+	return best
 }
