@@ -18,6 +18,7 @@ package null
 import (
 	"math"
 	"math/rand/v2"
+	"phasonhull/topology/internal/simchain"
 )
 
 // Family is a class of simulated chains.
@@ -51,7 +52,7 @@ func Draw(f Family, N int, sigma float64, r *rand.Rand) []float64 {
 	case Independent:
 		return IndependentChain(N, 0.06+0.09*r.Float64(), sigma, r)
 	}
-	return shake(lattice(N), sigma, r)
+	return simchain.Shake(lattice(N), sigma, r)
 }
 
 // CellChain returns a periodic cell of p offsets, as Draw does for Cell.
@@ -65,7 +66,7 @@ func CellChain(N, p int, sigma float64, r *rand.Rand) []float64 {
 	for i := range x {
 		x[i] += u[i%p]
 	}
-	return shake(x, sigma, r)
+	return simchain.Shake(x, sigma, r)
 }
 
 // HarmonicChain returns x_n = n + Σ a_k sin 2π(k·n·θ + φ_k) plus noise.
@@ -77,7 +78,7 @@ func HarmonicChain(N int, theta float64, amp []float64, sigma float64, r *rand.R
 			x[i] += a * math.Sin(2*math.Pi*(float64((k+1)*i)*theta+phi))
 		}
 	}
-	return shake(x, sigma, r)
+	return simchain.Shake(x, sigma, r)
 }
 
 // IndependentChain returns spacings 1 + U(−a, a), plus position noise.
@@ -86,7 +87,7 @@ func IndependentChain(N int, a, sigma float64, r *rand.Rand) []float64 {
 	for i := 1; i < N; i++ {
 		x[i] = x[i-1] + 1 + a*(2*r.Float64()-1)
 	}
-	return shake(x, sigma, r)
+	return simchain.Shake(x, sigma, r)
 }
 
 func harmonic(N int, sigma float64, r *rand.Rand) []float64 {
@@ -118,22 +119,6 @@ func lattice(N int) []float64 {
 	x := make([]float64, N)
 	for i := range x {
 		x[i] = float64(i)
-	}
-	return x
-}
-
-// shake adds Gaussian noise and keeps the positions increasing (at these
-// noises a swap is rare; it is undone by sorting, as a reader would).
-func shake(x []float64, sigma float64, r *rand.Rand) []float64 {
-	if sigma > 0 {
-		for i := range x {
-			x[i] += sigma * r.NormFloat64()
-		}
-	}
-	for i := 1; i < len(x); i++ {
-		for j := i; j > 0 && x[j] < x[j-1]; j-- {
-			x[j], x[j-1] = x[j-1], x[j]
-		}
 	}
 	return x
 }

@@ -28,6 +28,7 @@ package hulls
 import (
 	"math"
 	"math/rand/v2"
+	"phasonhull/topology/internal/simchain"
 )
 
 // Family is a class of simulated chains with a hull.
@@ -81,7 +82,7 @@ func Draw(f Family, N int, sigma float64, r *rand.Rand) []float64 {
 	case Cantor:
 		x = sturmian(N, 0.2+0.6*r.Float64(), r.Float64(), 0.6+0.3*r.Float64())
 	}
-	return shake(x, sigma, r)
+	return simchain.Shake(x, sigma, r)
 }
 
 // Law is a law of independent spacings.
@@ -125,7 +126,7 @@ func Independent(l Law, s float64, N int, sigma float64, r *rand.Rand) []float64
 		}
 		x[i] = x[i-1] + d
 	}
-	return shake(x, sigma, r)
+	return simchain.Shake(x, sigma, r)
 }
 
 // angle draws θ uniform in [0.02, 0.48], at least 0.5/N from every j/p,
@@ -182,22 +183,6 @@ func sturmian(N int, alpha, rho, ratio float64) []float64 {
 			d = 1
 		}
 		x[n] = x[n-1] + d/mean
-	}
-	return x
-}
-
-// shake adds Gaussian noise and keeps the positions increasing (at these
-// noises a swap is rare; it is undone by sorting, as a reader would).
-func shake(x []float64, sigma float64, r *rand.Rand) []float64 {
-	if sigma > 0 {
-		for i := range x {
-			x[i] += sigma * r.NormFloat64()
-		}
-	}
-	for i := 1; i < len(x); i++ {
-		for j := i; j > 0 && x[j] < x[j-1]; j-- {
-			x[j], x[j-1] = x[j-1], x[j]
-		}
 	}
 	return x
 }
